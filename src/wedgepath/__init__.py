@@ -1,0 +1,16 @@
+"""wedgepath: discrete exterior calculus on sampled curves.
+
+Sampled curves are 1-chains (:class:`Path`, :class:`Chain`); differential
+forms (:func:`dx`, :class:`OneForm`, :class:`TwoForm`, ``^``, ``.d()``) are
+integrated over them with :func:`integrate`, exactly where possible and with
+an error estimate where not.  See the user guide in ``docs/`` for the
+conventions (orientation, closure, curve model, gaps).
+"""
+
+from .calculus import (CLOSURES, Chain, Form, Integral, IntegrationWarning, OneForm, Path,
+                       TwoForm, ZeroChain, ZeroForm, dx, integrate)
+
+__version__ = "0.1.0.dev0"
+
+__all__ = ["Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm", "TwoForm", "dx",
+           "integrate", "Integral", "IntegrationWarning", "CLOSURES", "__version__"]

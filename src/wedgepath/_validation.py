@@ -1,0 +1,118 @@
+"""Input checks shared by the whole package.
+
+Every public entry point funnels its array arguments through these helpers so
+that bad input fails early with a ``ValueError`` or ``TypeError`` that names the
+argument and the problem, instead of surfacing later as a numpy traceback or a
+silent NaN.  None of them modifies its argument: they either return the
+caller's object untouched or a fresh float64 copy.
+"""
+
+from __future__ import annotations
+
+import numbers
+import operator
+
+import numpy as np
+
+__all__ = [
+    "as_float_array",
+    "check_choice",
+    "as_int",
+]
+
+
+def _describe_dtype(arr: np.ndarray) -> str:
+    return f"dtype {arr.dtype}"
+
+
+def as_float_array(value, name: str, *, ndim=None, allow_nan: bool = False,
+                   copy: bool = True) -> np.ndarray:
+    """Return ``value`` as a float64 array after checking it.
+
+    Parameters
+    ----------
+    value : array_like
+        Real numbers.  Integer, unsigned, float (any width or byte order)
+        and object arrays holding real numbers are accepted; complex, boolean,
+        string, datetime and other objects are refused with ``TypeError``.
+    name : str
+        Argument name used in error messages.
+    ndim : int or tuple of int, optional
+        Required number of dimensions.
+    allow_nan : bool
+        Whether NaN entries are allowed (they mark gaps in paths).  Infinite
+        values are never allowed.
+    copy : bool
+        Always return a new array (the default) so that the caller's data can
+        never be changed through the result.
+    """
+    if hasattr(value, "to_numpy") and not isinstance(value, np.ndarray):
+        # pandas objects and the like: look at their values, not their index.
+        value = value.to_numpy()
+    try:
+        arr = np.asarray(value)
+    except Exception as exc:  # ragged nested sequences, odd objects
+        raise TypeError(f"{name} could not be read as an array of numbers: {exc}") from None
+    kind = arr.dtype.kind
+    if kind == "c":
+        raise TypeError(f"{name} has complex values ({_describe_dtype(arr)}); "
+                        "pass real coordinates (e.g. np.column_stack([z.real, z.imag]))")
+    if kind == "b":
+        raise TypeError(f"{name} is a boolean array; coordinates must be real numbers")
+    if kind in "USV":
+        raise TypeError(f"{name} holds text or raw bytes ({_describe_dtype(arr)}); "
+                        "coordinates must be real numbers")
+    if kind in "mM":
+        raise TypeError(f"{name} holds datetimes/timedeltas; convert them to numbers "
+                        "(e.g. seconds) first")
+    if kind == "O":
+        out = np.empty(arr.shape, dtype=np.float64)
+        flat_in = arr.ravel()
+        flat_out = out.ravel()
+        for k, item in enumerate(flat_in):
+            if isinstance(item, (bool, np.bool_)) or not isinstance(item, numbers.Real):
+                raise TypeError(f"{name} contains a non-real entry {item!r} at flat index {k}")
+            flat_out[k] = float(item)
+        arr = out
+    elif kind not in "iuf":
+        raise TypeError(f"{name} has unsupported {_describe_dtype(arr)}")
+    else:
+        if copy:
+            arr = np.array(arr, dtype=np.float64, order="C")
+        else:
+            # Read-only use inside the library: avoid a copy when the input is
+            # already native float64.  Callers must not write to the result.
+            arr = np.asarray(arr, dtype=np.float64)
+    if ndim is not None:
+        allowed = (ndim,) if isinstance(ndim, int) else tuple(ndim)
+        if arr.ndim not in allowed:
+            want = " or ".join(str(a) for a in allowed)
+            raise ValueError(f"{name} must be {want}-dimensional, got shape {arr.shape}")
+    if arr.size:
+        finite = np.isfinite(arr)
+        if not finite.all():
+            if np.isinf(arr).any():
+                where = np.argwhere(np.isinf(arr))[0]
+                raise ValueError(f"{name} contains an infinite value at index {tuple(int(w) for w in where)}")
+            if not allow_nan:
+                where = np.argwhere(np.isnan(arr))[0]
+                raise ValueError(f"{name} contains NaN at index {tuple(int(w) for w in where)}")
+    return arr
+
+
+def check_choice(value, name: str, choices) -> str:
+    """Check that ``value`` is one of the strings in ``choices``."""
+    if not isinstance(value, str) or value not in choices:
+        opts = ", ".join(repr(c) for c in choices)
+        raise ValueError(f"unknown {name} {value!r}; choose one of {opts}")
+    return value
+
+
+def as_int(value, name: str) -> int:
+    """Return ``value`` as a Python int; refuse floats, bools and others."""
+    if isinstance(value, (bool, np.bool_)):
+        raise TypeError(f"{name} must be an integer, got a boolean")
+    try:
+        return operator.index(value)
+    except TypeError:
+        raise TypeError(f"{name} must be an integer, got {type(value).__name__} {value!r}") from None

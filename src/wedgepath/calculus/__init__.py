@@ -1,0 +1,9 @@
+"""Paths, chains, forms and their integrals: the base layer of wedgepath."""
+
+from .chains import Chain, ZeroChain
+from .forms import Form, OneForm, TwoForm, ZeroForm, dx
+from .integrate import Integral, IntegrationWarning, integrate
+from .paths import CLOSURES, Path, as_path
+
+__all__ = ["Path", "as_path", "CLOSURES", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm",
+           "TwoForm", "dx", "integrate", "Integral", "IntegrationWarning"]

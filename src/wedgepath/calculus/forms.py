@@ -1,0 +1,614 @@
+"""Differential forms on R^n with constant, callable or sympy coefficients.
+
+A k-form is stored as ``{I: coefficient}`` over strictly increasing index
+tuples ``I = (i_1 < ... < i_k)``, meaning ``sum_I f_I dx_{i_1} ^ ... ^ dx_{i_k}``.
+Coefficients come in three kinds, which decide how exactly a form can be
+integrated:
+
+``constant``
+    A real number.  Integrals of constant forms are exact.
+``sympy``
+    An expression in the form's coordinate symbols ``x_0 .. x_{n-1}``.  It is
+    evaluated numerically through :func:`sympy.lambdify`; a polynomial
+    expression is integrated exactly by Gauss-Legendre quadrature of
+    sufficient order, and ``.d()`` is exact.
+``callable``
+    ``f(coords) -> values`` with ``coords`` of shape ``(m, n)`` and values of
+    shape ``(m,)`` (vectorised over points).  Integrated adaptively with an
+    error estimate, unless declared polynomial with ``degree=``.
+
+Examples
+--------
+>>> import wedgepath as wp
+>>> w = wp.dx(0) ^ wp.dx(1)
+>>> w.degree, w.terms_as_dict()
+(2, {(0, 1): 1.0})
+>>> (wp.dx(1) ^ wp.dx(0)).terms_as_dict()
+{(0, 1): -1.0}
+>>> (wp.dx(0) ^ wp.dx(0)) == 0
+True
+"""
+
+from __future__ import annotations
+
+import numbers
+from itertools import combinations
+
+import numpy as np
+import sympy
+
+from .. import symbolic
+from .._validation import as_int
+
+__all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient"]
+
+
+def _sort_with_sign(idx):
+    """Sort an index tuple; return (sorted, sign) or (None, 0) if an index repeats."""
+    idx = list(idx)
+    if len(set(idx)) != len(idx):
+        return None, 0
+    sign = 1
+    # insertion sort counting transpositions (k is tiny)
+    for a in range(1, len(idx)):
+        b = a
+        while b > 0 and idx[b - 1] > idx[b]:
+            idx[b - 1], idx[b] = idx[b], idx[b - 1]
+            sign = -sign
+            b -= 1
+    return tuple(idx), sign
+
+
+# --------------------------------------------------------------------------- coefficients
+class Coefficient:
+    """One coefficient function of a form (internal value object).
+
+    Attributes
+    ----------
+    kind : {"constant", "sympy", "callable"}
+    poly_degree : int or None
+        Total polynomial degree when known (0 for constants), else None.
+    """
+
+    __slots__ = ("kind", "value", "expr", "symbols", "func", "poly_degree")
+
+    def __init__(self, kind, *, value=None, expr=None, symbols=None, func=None, poly_degree=None):
+        self.kind = kind
+        self.value = value
+        self.expr = expr
+        self.symbols = symbols
+        self.func = func
+        self.poly_degree = poly_degree
+
+    # -- constructors
+    @classmethod
+    def constant(cls, c):
+        return cls("constant", value=float(c), poly_degree=0)
+
+    @classmethod
+    def from_sympy(cls, expr, symbols):
+        expr = sympy.sympify(expr)
+        if expr.has(sympy.I) or expr.has(sympy.zoo) or expr.has(sympy.nan) or expr.has(sympy.oo):
+            raise ValueError(f"form coefficient {expr} is not a finite real expression")
+        free = expr.free_symbols - set(symbols)
+        if free:
+            names = ", ".join(sorted(str(s) for s in free))
+            raise ValueError(f"form coefficient {expr} uses symbols {names} that are not "
+                             f"coordinates {tuple(str(s) for s in symbols)}; substitute "
+                             "numbers for parameters first")
+        if not expr.free_symbols:
+            if not expr.is_real:
+                raise ValueError(f"form coefficient {expr} is not a real number")
+            return cls.constant(float(expr))
+        deg = None
+        if expr.is_polynomial(*symbols):
+            deg = int(sympy.Poly(expr, *symbols).total_degree())
+        func = sympy.lambdify(symbols, expr, modules="numpy")
+        return cls("sympy", expr=expr, symbols=tuple(symbols), func=func, poly_degree=deg)
+
+    @classmethod
+    def from_callable(cls, f, degree=None):
+        if degree is not None:
+            degree = as_int(degree, "degree")
+            if degree < 0:
+                raise ValueError(f"degree must be >= 0, got {degree}")
+        return cls("callable", func=f, poly_degree=degree)
+
+    @classmethod
+    def make(cls, spec, symbols=None, degree=None):
+        """Build from a number, a sympy expression or a callable."""
+        if isinstance(spec, Coefficient):
+            return spec
+        if isinstance(spec, (bool, np.bool_)):
+            raise TypeError("a form coefficient cannot be a boolean")
+        if isinstance(spec, numbers.Real) or (isinstance(spec, np.ndarray) and spec.ndim == 0
+                                              and spec.dtype.kind in "iuf"):
+            v = float(spec)
+            if not np.isfinite(v):
+                raise ValueError(f"form coefficient must be finite, got {v}")
+            return cls.constant(v)
+        if isinstance(spec, sympy.Basic):
+            if not spec.free_symbols:
+                return cls.from_sympy(spec, ())
+            if symbols is None:
+                raise ValueError("sympy coefficients need coordinate symbols: pass symbols=")
+            return cls.from_sympy(spec, symbols)
+        if callable(spec):
+            return cls.from_callable(spec, degree)
+        raise TypeError(f"a form coefficient must be a real number, a callable or a sympy "
+                        f"expression, got {type(spec).__name__}")
+
+    # -- queries
+    @property
+    def is_zero(self):
+        if self.kind == "constant":
+            return self.value == 0.0
+        if self.kind == "sympy":
+            return sympy.expand(self.expr) == 0
+        return False
+
+    def as_sympy(self):
+        if self.kind == "constant":
+            return sympy.Float(self.value) if self.value != int(self.value) else sympy.Integer(int(self.value))
+        if self.kind == "sympy":
+            return self.expr
+        return None
+
+    def evaluate(self, coords: np.ndarray, label: str = "coefficient") -> np.ndarray:
+        """Values at ``coords`` (m, n), shape (m,), checked finite."""
+        m = coords.shape[0]
+        if self.kind == "constant":
+            return np.full(m, self.value)
+        if self.kind == "sympy":
+            vals = self.func(*coords.T)
+        else:
+            vals = self.func(coords)
+        vals = np.asarray(vals)
+        if vals.dtype.kind == "c":
+            raise ValueError(f"{label} returned complex values")
+        if vals.dtype.kind not in "iufb":
+            raise TypeError(f"{label} returned {vals.dtype} values; it must return real numbers")
+        if vals.shape == () or vals.shape == (1,):
+            vals = np.full(m, float(vals.reshape(())))
+        elif vals.shape != (m,):
+            raise ValueError(f"{label} returned shape {vals.shape} for {m} points; "
+                             f"a callable coefficient must map (m, n) coordinates to shape (m,)")
+        vals = vals.astype(np.float64, copy=False)
+        if not np.all(np.isfinite(vals)):
+            bad = int(np.flatnonzero(~np.isfinite(vals))[0])
+            raise ValueError(f"{label} is not finite at the point {coords[bad].tolist()} "
+                             f"({int((~np.isfinite(vals)).sum())} bad points in all)")
+        return vals
+
+    # -- algebra
+    def _combine(self, other, op):
+        a, b = self, other
+        if a.kind == "constant" and b.kind == "constant":
+            return Coefficient.constant(op(a.value, b.value))
+        if a.kind != "callable" and b.kind != "callable":
+            syms = a.symbols or b.symbols
+            if a.symbols and b.symbols and a.symbols != b.symbols:
+                raise ValueError("cannot combine sympy forms over different coordinate symbols "
+                                 f"{a.symbols} and {b.symbols}")
+            return Coefficient.from_sympy(op(a.as_sympy(), b.as_sympy()), syms)
+        fa, fb = a, b
+        if op is _mul:
+            deg = None if (a.poly_degree is None or b.poly_degree is None) else a.poly_degree + b.poly_degree
+        else:
+            deg = None if (a.poly_degree is None or b.poly_degree is None) else max(a.poly_degree, b.poly_degree)
+
+        def f(coords):
+            return op(fa.evaluate(coords), fb.evaluate(coords))
+        return Coefficient("callable", func=f, poly_degree=deg)
+
+    def __mul__(self, other):
+        return self._combine(other, _mul)
+
+    def __add__(self, other):
+        return self._combine(other, _add)
+
+    def scaled(self, c: float):
+        return self._combine(Coefficient.constant(c), _mul)
+
+    def equals(self, other) -> bool:
+        if self.kind == "callable" or other.kind == "callable":
+            return self.func is other.func and self.kind == other.kind
+        return sympy.simplify(self.as_sympy() - other.as_sympy()) == 0
+
+    def __repr__(self):
+        if self.kind == "constant":
+            return repr(self.value)
+        if self.kind == "sympy":
+            return str(self.expr)
+        name = getattr(self.func, "__name__", "f")
+        return f"<callable {name}>"
+
+
+def _mul(a, b):
+    return a * b
+
+
+def _add(a, b):
+    return a + b
+
+
+# --------------------------------------------------------------------------- forms
+class Form:
+    """A differential k-form on R^n (see the module docstring).
+
+    Build forms with :func:`dx`, :class:`ZeroForm`, :class:`OneForm`,
+    :class:`TwoForm` or :meth:`Form.from_sympy`, and combine them with ``+``,
+    ``-``, scalar ``*`` and the wedge product ``^``.
+
+    Attributes
+    ----------
+    degree : int
+        k.
+    dim : int or None
+        n when known (set by components or symbols); ``None`` for forms built
+        from constants only, which fit any R^n with n > max index.
+    symbols : tuple of sympy.Symbol or None
+        Coordinate symbols of sympy coefficients.
+    """
+
+    __slots__ = ("_terms", "degree", "dim", "symbols")
+
+    def __init__(self, terms, degree, dim=None, symbols=None):
+        degree = as_int(degree, "degree")
+        if degree < 0:
+            raise ValueError(f"form degree must be >= 0, got {degree}")
+        if dim is not None:
+            dim = as_int(dim, "dim")
+            if dim < 1:
+                raise ValueError(f"dimension must be >= 1, got {dim}")
+        if symbols is not None:
+            symbols = tuple(symbols)
+            if dim is None:
+                dim = len(symbols)
+            elif len(symbols) != dim:
+                raise ValueError(f"{len(symbols)} symbols for a form on R^{dim}")
+        clean = {}
+        for idx, coef in dict(terms).items():
+            idx = tuple(as_int(i, "form index") for i in idx)
+            if len(idx) != degree:
+                raise ValueError(f"term {idx} does not have {degree} indices")
+            if any(i < 0 for i in idx):
+                raise ValueError(f"form indices must be >= 0, got {idx}")
+            if dim is not None and any(i >= dim for i in idx):
+                raise ValueError(f"form index {max(idx)} out of range for R^{dim}")
+            sidx, sign = _sort_with_sign(idx)
+            if sign == 0:
+                continue
+            coef = Coefficient.make(coef, symbols)
+            if sign < 0:
+                coef = coef.scaled(-1.0)
+            if sidx in clean:
+                coef = clean[sidx] + coef
+            clean[sidx] = coef
+        self._terms = {k: v for k, v in sorted(clean.items()) if not v.is_zero}
+        self.degree = degree
+        self.dim = dim
+        self.symbols = symbols
+
+    # ------------------------------------------------------------ constructors
+    @classmethod
+    def from_sympy(cls, components, symbols):
+        """A form from sympy expressions over coordinate ``symbols`` (x_0..x_{n-1}).
+
+        ``components`` is a scalar expression (0-form), a sequence of n
+        expressions (1-form ``sum f_i dx_i``) or a dict ``{index tuple: expr}``
+        (any degree).
+        """
+        symbols = _check_symbols(symbols)
+        n = len(symbols)
+        if isinstance(components, dict):
+            if not components:
+                raise ValueError("empty dict: give at least one term (or use a zero coefficient)")
+            degrees = {len(k) for k in components}
+            if len(degrees) != 1:
+                raise ValueError(f"terms of mixed degree {sorted(degrees)}")
+            return cls(components, degrees.pop(), n, symbols)
+        if isinstance(components, (sympy.Basic, numbers.Real)):
+            return cls({(): sympy.sympify(components)}, 0, n, symbols)
+        comps = list(components)
+        if len(comps) != n:
+            raise ValueError(f"{len(comps)} components for {n} symbols")
+        return cls({(i,): sympy.sympify(c) for i, c in enumerate(comps)}, 1, n, symbols)
+
+    # ------------------------------------------------------------------ views
+    @property
+    def terms(self):
+        """``{index tuple: Coefficient}``, indices increasing, zero terms dropped."""
+        return dict(self._terms)
+
+    def terms_as_dict(self):
+        """Terms with coefficients shown as numbers, sympy expressions or callables."""
+        out = {}
+        for k, c in self._terms.items():
+            out[k] = c.value if c.kind == "constant" else (c.expr if c.kind == "sympy" else c.func)
+        return out
+
+    @property
+    def is_constant(self) -> bool:
+        return all(c.kind == "constant" for c in self._terms.values())
+
+    @property
+    def is_symbolic(self) -> bool:
+        """True when every coefficient is a constant or a sympy expression."""
+        return all(c.kind != "callable" for c in self._terms.values())
+
+    @property
+    def poly_degree(self):
+        """Largest polynomial degree of the coefficients, or None if unknown/not polynomial."""
+        degs = [c.poly_degree for c in self._terms.values()]
+        if any(d is None for d in degs):
+            return None
+        return max(degs, default=0)
+
+    @property
+    def min_dim(self) -> int:
+        """Smallest ambient dimension the form fits."""
+        if self.dim is not None:
+            return self.dim
+        top = max((max(k) for k in self._terms if k), default=-1)
+        return max(top + 1, self.degree, 1)
+
+    def is_zero(self) -> bool:
+        return not self._terms
+
+    def to_sympy(self):
+        """``{index tuple: sympy expr}``; TypeError for callable coefficients."""
+        if not self.is_symbolic:
+            raise TypeError("this form has callable coefficients; it has no sympy expression")
+        return {k: c.as_sympy() for k, c in self._terms.items()}
+
+    def __repr__(self):
+        if not self._terms:
+            return f"Form(0, degree={self.degree})"
+        parts = []
+        for k, c in self._terms.items():
+            basis = "^".join(f"dx{i}" for i in k)
+            parts.append(f"({c!r})" + ("*" + basis if basis else ""))
+        return " + ".join(parts)
+
+    # ---------------------------------------------------------------- algebra
+    def _meet(self, other, what):
+        if self.dim is not None and other.dim is not None and self.dim != other.dim:
+            raise ValueError(f"cannot {what} forms on R^{self.dim} and R^{other.dim}")
+        if self.symbols is not None and other.symbols is not None and self.symbols != other.symbols:
+            raise ValueError(f"cannot {what} forms over different coordinate symbols")
+        dim = self.dim if self.dim is not None else other.dim
+        syms = self.symbols if self.symbols is not None else other.symbols
+        return dim, syms
+
+    def __add__(self, other):
+        if isinstance(other, numbers.Number) and other == 0:
+            return self
+        if not isinstance(other, Form):
+            return NotImplemented
+        if other.degree != self.degree:
+            raise ValueError(f"cannot add a {self.degree}-form and a {other.degree}-form")
+        dim, syms = self._meet(other, "add")
+        terms = dict(self._terms)
+        for k, c in other._terms.items():
+            terms[k] = terms[k] + c if k in terms else c
+        return Form(terms, self.degree, dim, syms)
+
+    __radd__ = __add__
+
+    def __neg__(self):
+        return self * -1.0
+
+    def __sub__(self, other):
+        if not isinstance(other, Form):
+            return NotImplemented
+        return self + (-other)
+
+    def __mul__(self, c):
+        if isinstance(c, Form):
+            if c.degree == 0 or self.degree == 0:
+                return self ^ c
+            raise TypeError("use ^ for the wedge product of forms")
+        if isinstance(c, (bool, np.bool_)):
+            raise TypeError("cannot scale a form by a boolean")
+        if isinstance(c, numbers.Real):
+            if not np.isfinite(float(c)):
+                raise ValueError(f"scale factor must be finite, got {c}")
+            return Form({k: v.scaled(float(c)) for k, v in self._terms.items()},
+                        self.degree, self.dim, self.symbols)
+        if isinstance(c, sympy.Basic):
+            if self.symbols is None:
+                raise ValueError("multiply by a sympy expression only forms that have symbols")
+            f = Coefficient.from_sympy(c, self.symbols)
+            return Form({k: v * f for k, v in self._terms.items()}, self.degree, self.dim, self.symbols)
+        return NotImplemented
+
+    __rmul__ = __mul__
+
+    def __xor__(self, other):
+        """Wedge product."""
+        if not isinstance(other, Form):
+            return NotImplemented
+        dim, syms = self._meet(other, "wedge")
+        terms = {}
+        for i, a in self._terms.items():
+            for j, b in other._terms.items():
+                idx, sign = _sort_with_sign(i + j)
+                if sign == 0:
+                    continue
+                c = a * b
+                if sign < 0:
+                    c = c.scaled(-1.0)
+                terms[idx] = terms[idx] + c if idx in terms else c
+        return Form(terms, self.degree + other.degree, dim, syms)
+
+    def __eq__(self, other):
+        if isinstance(other, numbers.Number) and not isinstance(other, bool) and other == 0:
+            return self.is_zero()
+        if not isinstance(other, Form):
+            return NotImplemented
+        if self.degree != other.degree or set(self._terms) != set(other._terms):
+            return False
+        return all(self._terms[k].equals(other._terms[k]) for k in self._terms)
+
+    __hash__ = None
+
+    # ---------------------------------------------------------------- calculus
+    def d(self) -> "Form":
+        """Exterior derivative, exact for constant and sympy coefficients.
+
+        Raises
+        ------
+        TypeError
+            For callable coefficients, which carry no derivative.  Build the
+            form with sympy (``from_sympy``) to differentiate it.
+        """
+        if not self.is_symbolic:
+            raise TypeError("d() needs sympy or constant coefficients; this form has callable "
+                            "coefficients (build it with Form.from_sympy to differentiate)")
+        if self.symbols is None:  # constant form: d = 0
+            return Form({}, self.degree + 1, self.dim)
+        out = symbolic.exterior_derivative(self.to_sympy(), self.symbols)
+        return Form(out, self.degree + 1, self.dim, self.symbols)
+
+    def component_values(self, coords: np.ndarray):
+        """``{index tuple: values (m,)}`` of every term at ``coords`` (m, n)."""
+        return {k: c.evaluate(coords, f"coefficient of {_basis_name(k)}")
+                for k, c in self._terms.items()}
+
+
+def _basis_name(idx):
+    return "^".join(f"dx{i}" for i in idx) if idx else "the 0-form"
+
+
+def _check_symbols(symbols):
+    if isinstance(symbols, sympy.Symbol):
+        symbols = (symbols,)
+    symbols = tuple(symbols)
+    if not symbols:
+        raise ValueError("give at least one coordinate symbol")
+    for s in symbols:
+        if not isinstance(s, sympy.Symbol):
+            raise TypeError(f"coordinate symbols must be sympy Symbols, got {s!r}")
+    if len(set(symbols)) != len(symbols):
+        raise ValueError("coordinate symbols must be distinct")
+    return symbols
+
+
+def dx(i) -> Form:
+    """The constant 1-form dx_i (i counts channels from 0).
+
+    Examples
+    --------
+    >>> import wedgepath as wp
+    >>> w = 2 * wp.dx(0) - wp.dx(2)
+    >>> w.terms_as_dict()
+    {(0,): 2.0, (2,): -1.0}
+    """
+    i = as_int(i, "dx index")
+    if i < 0:
+        raise ValueError(f"dx index must be >= 0, got {i}")
+    return Form({(i,): 1.0}, 1)
+
+
+def _infer_symbols(specs, symbols):
+    if symbols is not None:
+        return _check_symbols(symbols)
+    free = set()
+    for s in specs:
+        if isinstance(s, sympy.Basic):
+            free |= s.free_symbols
+    if not free:
+        return None
+    raise ValueError("sympy coefficients need their coordinate symbols: pass symbols=(x, y, ...)")
+
+
+def ZeroForm(f, *, dim=None, symbols=None, degree=None) -> Form:
+    """A 0-form (a function on R^n): a number, a callable on (m, n) coordinates, or sympy.
+
+    Examples
+    --------
+    >>> import sympy as sp, wedgepath as wp
+    >>> x, y = sp.symbols("x y")
+    >>> phi = wp.ZeroForm(x**2 * y, symbols=(x, y))
+    >>> phi.d().terms_as_dict()
+    {(0,): 2*x*y, (1,): x**2}
+    """
+    syms = _infer_symbols([f], symbols)
+    if syms is not None:
+        dim = len(syms) if dim is None else dim
+    return Form({(): Coefficient.make(f, syms, degree)}, 0, dim, syms)
+
+
+def OneForm(components, *, symbols=None, degree=None) -> Form:
+    """The 1-form ``sum_i f_i dx_i`` on R^n, n = len(components).
+
+    Parameters
+    ----------
+    components : sequence of length n
+        Each a number, a vectorised callable ``f(coords (m, n)) -> (m,)``, or a
+        sympy expression in ``symbols``.
+    symbols : sequence of sympy.Symbol, optional
+        Coordinate symbols (needed when components are sympy expressions).
+    degree : int, optional
+        Declares that the callable components are polynomials of total degree
+        at most ``degree``: their integrals along linear segments are then
+        computed exactly by Gauss-Legendre quadrature.  Only declare it when
+        it is true.
+
+    Examples
+    --------
+    >>> import numpy as np, wedgepath as wp
+    >>> w = wp.OneForm([lambda c: -c[:, 1], lambda c: c[:, 0]], degree=1)
+    >>> square = wp.Path([[0, 0], [1, 0], [1, 1], [0, 1], [0, 0]])
+    >>> float(wp.integrate(w, square))      # twice the area
+    2.0
+    """
+    if isinstance(components, (str, bytes)) or not hasattr(components, "__len__"):
+        raise TypeError("OneForm needs a sequence of n components")
+    comps = list(components)
+    if not comps:
+        raise ValueError("OneForm needs at least one component")
+    syms = _infer_symbols(comps, symbols)
+    if syms is not None and len(syms) != len(comps):
+        raise ValueError(f"{len(syms)} symbols for {len(comps)} components")
+    terms = {(i,): Coefficient.make(c, syms, degree) for i, c in enumerate(comps)}
+    return Form(terms, 1, len(comps), syms)
+
+
+def TwoForm(components, *, dim=None, symbols=None, degree=None) -> Form:
+    """The 2-form ``sum f_ij dx_i ^ dx_j`` from ``{(i, j): f_ij}`` or a matrix.
+
+    Parameters
+    ----------
+    components : dict or array_like (n, n)
+        A dict ``{(i, j): coefficient}`` (i != j; ``(j, i)`` means the
+        negative of ``(i, j)``), or a constant skew-symmetric matrix ``M``
+        meaning ``sum_{i<j} M[i, j] dx_i ^ dx_j``.
+    dim : int, optional
+        n; defaults to the number of symbols or the matrix size.
+
+    Examples
+    --------
+    >>> import wedgepath as wp
+    >>> wp.TwoForm({(1, 0): 3.0}).terms_as_dict()
+    {(0, 1): -3.0}
+    """
+    if isinstance(components, dict):
+        specs = list(components.values())
+        syms = _infer_symbols(specs, symbols)
+        terms = {}
+        for (i, j), c in components.items():
+            if i == j:
+                raise ValueError(f"term {(i, j)} repeats an index; dx_i ^ dx_i = 0")
+            terms[(i, j)] = Coefficient.make(c, syms, degree)
+        return Form(terms, 2, dim, syms)
+    from .._validation import as_float_array
+    M = as_float_array(components, "components", ndim=2)
+    if M.shape[0] != M.shape[1]:
+        raise ValueError(f"a 2-form matrix must be square, got shape {M.shape}")
+    if not np.array_equal(M, -M.T):
+        raise ValueError("a 2-form matrix must be skew-symmetric (M == -M.T)")
+    n = M.shape[0]
+    terms = {(i, j): M[i, j] for i, j in combinations(range(n), 2) if M[i, j] != 0}
+    return Form(terms, 2, n if dim is None else dim)
