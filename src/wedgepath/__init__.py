@@ -10,7 +10,12 @@ conventions (orientation, closure, curve model, gaps).
 from .calculus import (CLOSURES, Chain, Form, Integral, IntegrationWarning, OneForm, Path,
                        TwoForm, ZeroChain, ZeroForm, dx, integrate)
 
+from . import planar, signals
+from .planar import *  # noqa: F401,F403  (names listed in planar.__all__)
+from .signals import *  # noqa: F401,F403  (names listed in signals.__all__)
+
 __version__ = "0.1.0.dev0"
 
 __all__ = ["Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm", "TwoForm", "dx",
-           "integrate", "Integral", "IntegrationWarning", "CLOSURES", "__version__"]
+           "integrate", "Integral", "IntegrationWarning", "CLOSURES", "__version__",
+           *planar.__all__, *signals.__all__]

@@ -1,0 +1,3 @@
+"""Planar regions of loops: signed area, winding numbers, Green region integrals, decomposition."""
+
+__all__ = []
