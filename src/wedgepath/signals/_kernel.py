@@ -1,0 +1,452 @@
+"""Shared machinery of the signals layer: reading input, the one-pass area scan.
+
+The central routine is :func:`scan`, which walks once over a (T, n) array in
+row chunks and returns everything the area functions need:
+
+* ``M`` (n, n): the sum over all segments ``(k, k+1)`` inside pieces of
+  ``(x_k - g) (x) (x_{k+1} - g)``, where ``g`` is the first sample of the
+  segment's piece (only its antisymmetric part is used:
+  ``(M - M.T) / 2`` is the sum over pieces of their chord-closed areas);
+* the start and stop row of every piece (maximal run of complete rows).
+
+Precision.  Each chunk is centred on its own first sample before the BLAS
+product ``Z[:-1].T @ Z[1:]``, so an offset common to the data never enters a
+product; the chunk is then moved to its piece's reference ``g`` by Chen's
+identity (area of a concatenation = sum of areas + half the wedge of the two
+increments), which only involves differences of samples.
+
+Speed.  A chunk without gaps costs one subtraction and one GEMM; NaN rows are
+detected from the GEMM result itself (NaN propagates), so gap-free data pay
+nothing for the gap logic.
+"""
+
+from __future__ import annotations
+
+import math
+import warnings
+from collections.abc import Mapping, Sequence
+
+import numpy as np
+
+from .._validation import as_float_array, check_choice
+from ..calculus.paths import CLOSURES, Path
+
+__all__ = []  # internal module
+
+#: doubles per chunk of the scan (2**17 doubles = 1 MiB): small enough to stay
+#: in cache between the centring and the GEMM, large enough for BLAS.
+CHUNK_ELEMENTS = 1 << 17
+
+
+class ConstantChannelWarning(UserWarning):
+    """A normalised value could not be formed because a channel does not vary."""
+
+
+def chunk_rows(n: int) -> int:
+    return max(256, CHUNK_ELEMENTS // max(n, 1))
+
+
+def wedge(a, b):
+    """``a ^ b`` as a matrix: ``outer(a, b) - outer(b, a)`` (batched over leading axes)."""
+    a = np.asarray(a)
+    b = np.asarray(b)
+    ab = a[..., :, None] * b[..., None, :]
+    return ab - np.swapaxes(ab, -1, -2)
+
+
+def skew_half(M):
+    """``(M - M^T) / 2`` over the last two axes."""
+    return 0.5 * (M - np.swapaxes(M, -1, -2))
+
+
+# --------------------------------------------------------------------------- input
+class SignalData:
+    """Checked input: a (T, n) real array (not necessarily float64) plus times and names.
+
+    ``values`` is never written to.  It may be the caller's own array (no
+    copy) when that is already a real numeric ndarray; chunks are converted
+    to float64 as they are read.
+    """
+
+    __slots__ = ("values", "times", "names")
+
+    def __init__(self, values, times, names):
+        self.values = values
+        self.times = times
+        self.names = names
+
+    @property
+    def shape(self):
+        return self.values.shape
+
+    def rows(self, a, b):
+        """Rows ``a:b`` as float64 (a view when the input already is float64)."""
+        return np.asarray(self.values[a:b], dtype=np.float64)
+
+
+def _is_dataframe(obj) -> bool:
+    return (hasattr(obj, "columns") and hasattr(obj, "dtypes") and hasattr(obj, "to_numpy")
+            and not isinstance(obj, np.ndarray))
+
+
+def _is_series(obj) -> bool:
+    return (hasattr(obj, "index") and hasattr(obj, "to_numpy") and hasattr(obj, "dtype")
+            and not hasattr(obj, "columns") and not isinstance(obj, np.ndarray))
+
+
+def check_names(names, n: int, what: str = "names") -> tuple:
+    if isinstance(names, str) or not isinstance(names, (Sequence, np.ndarray)):
+        raise TypeError(f"{what} must be a sequence of strings, one per channel")
+    names = tuple(names)
+    if len(names) != n:
+        raise ValueError(f"{what} has {len(names)} entries but the data have {n} channels")
+    for nm in names:
+        if not isinstance(nm, str):
+            raise TypeError(f"channel names must be strings, got {nm!r}")
+    if len(set(names)) != n:
+        dup = sorted({nm for nm in names if names.count(nm) > 1})
+        raise ValueError(f"channel names must be distinct; repeated: {dup}")
+    return names
+
+
+def check_times(times, T: int, what: str = "times") -> np.ndarray:
+    if hasattr(times, "to_numpy") and not isinstance(times, np.ndarray):
+        times = times.to_numpy()
+    t = as_float_array(times, what, ndim=1)
+    if t.shape[0] != T:
+        raise ValueError(f"{what} has {t.shape[0]} entries but the data have {T} samples")
+    if T > 1:
+        d = np.diff(t)
+        if not np.all(d > 0):
+            k = int(np.flatnonzero(~(d > 0))[0])
+            raise ValueError(f"{what} must be strictly increasing; {what}[{k + 1}]={t[k + 1]!r} "
+                             f"does not exceed {what}[{k}]={t[k]!r}")
+    return t
+
+
+def _frame_values(df, what):
+    cols = list(df.columns)
+    names = []
+    for c in cols:
+        dt = df[c].dtype if not isinstance(df[c], type(df)) else None
+        if dt is None:
+            raise ValueError(f"{what} has repeated column label {c!r}")
+        kind = getattr(dt, "kind", "O")
+        if kind not in "iuf":
+            raise TypeError(f"{what} column {c!r} is not numeric (dtype {dt}); "
+                            "drop it or convert it to numbers")
+        names.append(str(c))
+    values = df.to_numpy(dtype=np.float64, na_value=np.nan, copy=True)
+    return values, names
+
+
+def is_async_times(times) -> bool:
+    """True when ``times`` is one time array per channel (asynchronous channels)."""
+    if times is None or isinstance(times, np.ndarray) or _is_series(times):
+        return False
+    if isinstance(times, (list, tuple)) and times:
+        return all(np.ndim(t) == 1 for t in times)
+    return False
+
+
+def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_samples=2):
+    """Check and unpack the data argument of a signals function.
+
+    Accepts a (T, n) array-like, a pandas DataFrame (column labels become
+    names), a :class:`~wedgepath.Path` (its times and names are used), a
+    mapping ``name -> 1-D array`` of equal lengths, or -- with ``times`` a
+    list of per-channel time arrays, or a mapping/sequence of pandas Series --
+    asynchronous channels, which are aligned by :func:`align`.
+    """
+    from .align import align  # local import: align builds on this module
+
+    if isinstance(X, Mapping) or is_async_times(times) or (
+            isinstance(X, (list, tuple)) and X and all(_is_series(s) for s in X)):
+        async_needed = is_async_times(times) or (
+            isinstance(X, Mapping) and any(_is_series(v) for v in X.values())) or (
+            isinstance(X, (list, tuple)) and all(_is_series(s) for s in X))
+        if async_needed:
+            X = align(X, times=times if is_async_times(times) else None, names=names)
+            times = None
+            names = None
+        elif isinstance(X, Mapping):
+            keys = list(X.keys())
+            cols = [as_float_array(X[k], f"{what}[{k!r}]", ndim=1, allow_nan=True) for k in keys]
+            lengths = {c.shape[0] for c in cols}
+            if len(lengths) > 1:
+                raise ValueError(f"{what} channels have different lengths {sorted(lengths)}; "
+                                 "pass one time array per channel (times=[t0, t1, ...]) to align them")
+            if names is not None:
+                raise ValueError("names given twice: the mapping's keys already name the channels")
+            names = [str(k) for k in keys]
+            X = np.column_stack(cols) if cols else np.empty((0, 0))
+
+    if isinstance(X, Path):
+        if times is not None and X.times is not None:
+            raise ValueError("times given twice: the Path already has times")
+        if names is not None and X.names is not None and tuple(names) != X.names:
+            raise ValueError(f"names {list(names)} do not match the Path's names {list(X.names)}")
+        values = X.points
+        times = X.times if times is None else times
+        names = X.names if names is None else names
+    elif _is_dataframe(X):
+        values, df_names = _frame_values(X, what)
+        if names is not None and tuple(names) != tuple(df_names):
+            raise ValueError(f"names {list(names)} do not match the DataFrame columns {df_names}")
+        names = df_names
+    else:
+        if isinstance(X, np.ndarray) and X.dtype.kind in "iuf":
+            values = X
+        else:
+            try:
+                arr = np.asarray(X)
+            except Exception as exc:
+                raise TypeError(f"{what} could not be read as an array of numbers: {exc}") from None
+            if arr.dtype.kind in "iuf":
+                values = arr
+            else:
+                values = as_float_array(arr, what, allow_nan=True)
+
+    if values.dtype.kind not in "iuf":
+        raise TypeError(f"{what} has unsupported dtype {values.dtype}")
+    if values.ndim != 2:
+        if values.ndim == 1:
+            raise ValueError(f"{what} must be 2-dimensional (samples, channels), got shape "
+                             f"{values.shape}; stack the channels as columns")
+        raise ValueError(f"{what} must be 2-dimensional (samples, channels), got shape {values.shape}")
+    T, n = values.shape
+    if n < min_channels:
+        raise ValueError(f"{what} has {n} channel{'s' if n != 1 else ''}; lead-lag needs at least "
+                         f"{min_channels}")
+    if T < min_samples:
+        raise ValueError(f"{what} has {T} sample{'s' if T != 1 else ''}; at least {min_samples} are needed")
+    if times is not None:
+        times = check_times(times, T)
+    if names is not None:
+        names = check_names(names, n)
+    return SignalData(values, times, names)
+
+
+def check_closure(closure):
+    return check_choice(closure, "closure", CLOSURES)
+
+
+# --------------------------------------------------------------------------- scan
+class ScanResult:
+    """Output of :func:`scan` (see the module docstring)."""
+
+    __slots__ = ("M", "starts", "stops")
+
+    def __init__(self, M, starts, stops):
+        self.M = M
+        self.starts = starts
+        self.stops = stops
+
+    @property
+    def area(self):
+        return skew_half(self.M)
+
+
+def _raise_inf(blk, a, what):
+    where = np.argwhere(np.isinf(blk))[0]
+    raise ValueError(f"{what} contains an infinite value at row {a + int(where[0])}, "
+                     f"channel {int(where[1])}")
+
+
+def scan(data: SignalData, what="X") -> ScanResult:
+    """One pass over the data: lagged cross-products per piece (see module doc)."""
+    values = data.values
+    T, n = values.shape
+    c = chunk_rows(n)
+    M = np.zeros((n, n))
+    starts, stops = [], []
+    g = None            # first sample of the open piece (the one holding the last row read)
+    a = 0
+    while True:
+        b = min(a + c, T - 1)
+        blk = np.asarray(values[a:b + 1], dtype=np.float64)
+        r = blk[0]
+        Z = blk - r
+        G = Z[:-1].T @ Z[1:]
+        if np.isfinite(G).all():
+            # gap-free chunk (NaN or inf anywhere would have reached G)
+            if a == 0:
+                starts.append(0)
+                g = r.copy()
+            else:
+                e = r - g
+                if e.any():
+                    M += np.outer(e, blk[-1] - r)
+            M += G
+        else:
+            if np.isinf(blk).any():
+                _raise_inf(blk, a, what)
+            valid = ~np.isnan(blk).any(axis=1)
+            m = valid.shape[0]
+            edges = np.diff(np.concatenate(([0], valid.view(np.int8), [0])))
+            rs = np.flatnonzero(edges == 1)
+            re = np.flatnonzero(edges == -1)
+            if rs.size:
+                is_start = np.zeros(m, dtype=bool)
+                is_start[rs] = True
+                ref = np.maximum.accumulate(np.where(is_start, np.arange(m), 0))
+                Z = blk - blk[ref]
+                Z[~valid] = 0.0
+                M += Z[:-1].T @ Z[1:]
+                first_new = 0
+                if rs[0] == 0 and a > 0:
+                    # the first run continues the piece that was open
+                    e = blk[0] - g
+                    if e.any():
+                        M += np.outer(e, blk[re[0] - 1] - blk[0])
+                    first_new = 1
+                    if re[0] < m:
+                        stops.append(a + int(re[0]))
+                new_starts = rs[first_new:]
+                starts.extend((a + new_starts).tolist())
+                closing = re[first_new:]
+                closing = closing[closing < m]
+                stops.extend((a + closing).tolist())
+                if valid[-1]:
+                    if rs[-1] > 0 or a == 0:
+                        g = blk[rs[-1]].copy()
+                else:
+                    g = None
+            else:
+                g = None
+        if b >= T - 1:
+            break
+        a = b
+    if len(stops) < len(starts):
+        stops.append(T)
+    return ScanResult(M, np.asarray(starts, dtype=np.int64), np.asarray(stops, dtype=np.int64))
+
+
+# --------------------------------------------------------------------------- closures
+def piece_rows(data: SignalData, idx) -> np.ndarray:
+    """Rows at integer positions ``idx`` as float64."""
+    return np.asarray(data.values[np.asarray(idx, dtype=np.int64)], dtype=np.float64)
+
+
+def time_areas(data: SignalData, tau: np.ndarray, starts, stops) -> np.ndarray:
+    """Per piece, the chord-closed areas between ``tau`` and every channel, (P, n).
+
+    ``a[p, i] = (1/2) sum_k [(tau_k - tau_s)(x_{k+1} - x_s) - (tau_{k+1} - tau_s)(x_k - x_s)]``
+    over the segments of piece ``p`` (``s`` its first row).
+    """
+    values = data.values
+    T, n = values.shape
+    P = starts.shape[0]
+    out = np.zeros((P, n))
+    c = chunk_rows(n)
+    a = 0
+    while a < T - 1:
+        b = min(a + c, T - 1)
+        rows = np.arange(a, b + 1)
+        pid = np.searchsorted(starts, rows, side="right") - 1
+        inside = (pid >= 0) & (rows < stops[np.maximum(pid, 0)])
+        seg_ok = inside[:-1] & inside[1:] & (pid[:-1] == pid[1:])
+        if seg_ok.any():
+            blk = np.asarray(values[a:b + 1], dtype=np.float64)
+            k = np.flatnonzero(seg_ok)
+            p = pid[k]
+            s = starts[p]
+            xs = piece_rows(data, s)
+            z0 = blk[k] - xs
+            z1 = blk[k + 1] - xs
+            u0 = (tau[a + k] - tau[s])[:, None]
+            u1 = (tau[a + k + 1] - tau[s])[:, None]
+            term = 0.5 * (u0 * z1 - u1 * z0)
+            cut = np.flatnonzero(np.diff(p)) + 1
+            sums = np.add.reduceat(term, np.concatenate(([0], cut)), axis=0)
+            out[p[np.concatenate(([0], cut))]] += sums
+        a = b
+    return out
+
+
+def piece_extent(data: SignalData, starts, stops) -> np.ndarray:
+    """Euclidean length of each piece's bounding-box diagonal, (P,)."""
+    values = data.values
+    T = values.shape[0]
+    idx = np.empty(2 * starts.shape[0], dtype=np.int64)
+    idx[0::2] = starts
+    idx[1::2] = stops
+    keep = idx < T
+    idx_k = idx[keep]
+    lo = np.minimum.reduceat(values, idx_k, axis=0)
+    hi = np.maximum.reduceat(values, idx_k, axis=0)
+    # reduceat rows 0, 2, 4, ... are the pieces (odd ones are the gaps between)
+    lo = np.asarray(lo[0::2], dtype=np.float64)
+    hi = np.asarray(hi[0::2], dtype=np.float64)
+    return np.linalg.norm(hi - lo, axis=1)
+
+
+def closed_area(data: SignalData, closure: str, tol=None, what="X"):
+    """Area matrix of ``data`` under ``closure``; also returns the scan."""
+    sc = scan(data, what)
+    A = sc.area
+    starts, stops = sc.starts, sc.stops
+    counts = stops - starts
+    if closure == "chord" or starts.size == 0:
+        return A, sc
+    F = piece_rows(data, starts)
+    L = piece_rows(data, stops - 1)
+    if closure == "none":
+        A = A - 0.5 * (L.T @ F - F.T @ L)
+    elif closure == "detrend":
+        tau = data.times if data.times is not None else np.arange(data.shape[0], dtype=np.float64)
+        long = counts >= 2
+        if long.any():
+            ta = time_areas(data, tau, starts, stops)[long]
+            span = (tau[stops[long] - 1] - tau[starts[long]])[:, None]
+            D = (L - F)[long]
+            At = ta / span
+            A = A + (At.T @ D - D.T @ At)
+    elif closure == "require":
+        gap = np.linalg.norm(L - F, axis=1)
+        if tol is None:
+            tol_eff = 1e-9 * piece_extent(data, starts, stops)
+        else:
+            tol_eff = np.full(gap.shape, float(tol))
+        bad = np.flatnonzero(gap > tol_eff)
+        if bad.size:
+            p = int(bad[0])
+            where = f" (piece starting at row {int(starts[p])})" if starts.size > 1 else ""
+            raise ValueError(
+                f"path is not closed{where}: its end is {gap[p]:.6g} from its start (tolerance "
+                f"{tol_eff[p]:.3g}); use closure='chord' or 'detrend', or pass a larger tol")
+        long = counts >= 3
+        if long.any():
+            Pn = piece_rows(data, stops[long] - 2) - F[long]
+            Ln = L[long] - F[long]
+            A = A - 0.5 * (Pn.T @ Ln - Ln.T @ Pn)
+    return A, sc
+
+
+def closed_piece_rows(data: SignalData, closure: str, s: int, e: int, cols=slice(None)):
+    """The samples of piece [s, e) that form its closed cycle under ``closure``.
+
+    chord/none: all samples (the chord is the wrap-around); require: all but
+    the last (which equals the first); detrend: the drift-free samples but the
+    last.  Returned as a fresh float64 array (rows, channels in ``cols``).
+    """
+    x = np.array(data.values[s:e, cols], dtype=np.float64)
+    if closure in ("chord", "none") or e - s < 2:
+        return x
+    if closure == "require":
+        return x[:-1]
+    tau = data.times[s:e] if data.times is not None else np.arange(e - s, dtype=np.float64)
+    frac = (tau - tau[0]) / (tau[-1] - tau[0])
+    x -= frac[:, None] * (x[-1] - x[0])
+    return x[:-1]
+
+
+def warn_constant(bad, names, why):
+    labels = [names[k] if names is not None else str(k) for k in bad]
+    warnings.warn(f"channel{'s' if len(labels) > 1 else ''} {', '.join(repr(s) for s in labels)} "
+                  f"{why}; the normalised values in {'their' if len(labels) > 1 else 'its'} "
+                  "row and column are NaN", ConstantChannelWarning, stacklevel=4)
+
+
+def gcd(a: int, b: int) -> int:
+    return math.gcd(a, b)
