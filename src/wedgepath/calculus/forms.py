@@ -155,14 +155,20 @@ class Coefficient:
         return None
 
     def evaluate(self, coords: np.ndarray, label: str = "coefficient") -> np.ndarray:
-        """Values at ``coords`` (m, n), shape (m,), checked finite."""
+        """Values at ``coords`` (m, n), shape (m,), checked finite.
+
+        Floating-point warnings inside the coefficient are silenced: a
+        non-finite result is reported as a ValueError naming the first bad
+        point instead.
+        """
         m = coords.shape[0]
         if self.kind == "constant":
             return np.full(m, self.value)
-        if self.kind == "sympy":
-            vals = self.func(*coords.T)
-        else:
-            vals = self.func(coords)
+        with np.errstate(all="ignore"):
+            if self.kind == "sympy":
+                vals = self.func(*coords.T)
+            else:
+                vals = self.func(coords)
         vals = np.asarray(vals)
         if vals.dtype.kind == "c":
             raise ValueError(f"{label} returned complex values")

@@ -40,6 +40,8 @@ __all__ = ["integrate", "Integral", "IntegrationWarning", "register_domain"]
 
 CURVES = ("linear", "spline")
 _EPS = np.finfo(np.float64).eps
+#: estimates below this multiple of eps * (integral of |integrand|) are rounding noise
+_NOISE = 64 * _EPS
 #: quadrature points evaluated per chunk (bounds memory to about
 #: ``_CHUNK_POINTS * n * 8`` bytes per temporary array)
 _CHUNK_POINTS = 1 << 18
@@ -358,11 +360,16 @@ def _integrand(geom, varying, seg, s):
     return out
 
 
-def _rule_on_intervals(geom, varying, seg, lo, hi, m):
-    """m-point Gauss-Legendre on sub-intervals [lo, hi] of segments ``seg``."""
+def _rule_on_intervals(geom, varying, seg, lo, hi, m, with_abs=False):
+    """m-point Gauss-Legendre on sub-intervals [lo, hi] of segments ``seg``.
+
+    With ``with_abs`` also returns the same rule applied to the absolute value
+    of the integrand: the magnitude against which rounding noise is judged.
+    """
     xq, wq = gauss_legendre(m)
     K = seg.shape[0]
     out = np.empty(K)
+    mag = np.empty(K) if with_abs else None
     step = max(1, _CHUNK_POINTS // m)
     for a in range(0, K, step):
         b = min(K, a + step)
@@ -371,7 +378,9 @@ def _rule_on_intervals(geom, varying, seg, lo, hi, m):
         segs = np.repeat(seg[a:b], m)
         f = _integrand(geom, varying, segs, s).reshape(b - a, m)
         out[a:b] = (f @ wq) * width
-    return out
+        if with_abs:
+            mag[a:b] = (np.abs(f) @ wq) * width
+    return (out, mag) if with_abs else out
 
 
 def _fixed_rule(geom, varying, m):
@@ -393,24 +402,25 @@ def _adaptive(geoms, varying, opts, acc: _Acc):
         seg = np.arange(K)
         lo, hi = np.zeros(K), np.ones(K)
         lo_rule = _rule_on_intervals(g, varying, seg, lo, hi, m)
-        hi_rule = _rule_on_intervals(g, varying, seg, lo, hi, m + 1)
+        hi_rule, mag = _rule_on_intervals(g, varying, seg, lo, hi, m + 1, with_abs=True)
         lengths = g.lengths()
-        first.append((seg, lo, hi, lo_rule, hi_rule, lengths))
-        total_scale += float(np.abs(hi_rule).sum())
+        first.append((seg, lo, hi, lo_rule, hi_rule, mag, lengths))
+        total_scale += float(mag.sum())
         total_len += float(lengths.sum())
     tol = max(opts["atol"], opts["rtol"] * total_scale)
     evaluations = sum(g.n_segments for g in geoms) * (2 * m + 1) * nvar
 
     value, error, levels_used = 0.0, 0.0, 0
     unmet = False
-    for g, (seg, lo, hi, lo_rule, hi_rule, lengths) in zip(geoms, first):
-        seglen = lengths
+    for g, (seg, lo, hi, lo_rule, hi_rule, mag, seglen) in zip(geoms, first):
         for level in range(opts["max_levels"] + 1):
             est = np.abs(hi_rule - lo_rule)
             if total_len > 0:
                 allow = tol * (hi - lo) * seglen[seg] / total_len
             else:
                 allow = np.full(seg.shape, tol / max(1, seg.shape[0]))
+            # differences at the level of rounding noise cannot be refined away
+            allow = np.maximum(allow, _NOISE * mag)
             bad = est > allow
             good = ~bad
             value += float(hi_rule[good].sum())
@@ -429,7 +439,7 @@ def _adaptive(geoms, varying, opts, acc: _Acc):
             lo = np.concatenate([lo_b, mid])
             hi = np.concatenate([mid, hi_b])
             lo_rule = _rule_on_intervals(g, varying, seg, lo, hi, m)
-            hi_rule = _rule_on_intervals(g, varying, seg, lo, hi, m + 1)
+            hi_rule, mag = _rule_on_intervals(g, varying, seg, lo, hi, m + 1, with_abs=True)
             evaluations += seg.shape[0] * (2 * m + 1) * nvar
     if unmet and error > tol:
         warnings.warn(f"integration tolerance {tol:.3g} not reached after {opts['max_levels']} "
