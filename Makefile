@@ -1,0 +1,33 @@
+# Every target builds its own virtual environment in .venv (override with VENV=...).
+PYTHON ?= python3
+VENV   ?= .venv
+PY     := $(VENV)/bin/python
+PIP    := $(PY) -m pip
+
+.PHONY: demo test bench doctest clean venv
+
+$(VENV)/.created:
+	$(PYTHON) -m venv $(VENV)
+	$(PIP) install --quiet --upgrade pip
+	touch $@
+
+venv: $(VENV)/.created
+
+$(VENV)/.installed-%: $(VENV)/.created pyproject.toml
+	$(PIP) install --quiet -e ".[$*]"
+	touch $@
+
+## demo: install and run the main job on the bundled demo data
+demo: $(VENV)/.installed-plot
+	$(PY) -m wedgepath.demo
+
+## test: install and run the whole test suite (unit, property, doctests, examples)
+test: $(VENV)/.installed-test
+	$(PY) -m pytest -q
+
+## bench: run every benchmark, each against its baseline in the same run
+bench: $(VENV)/.installed-bench
+	@set -e; for f in benchmarks/bench_*.py; do $(PY) $$f; done
+
+clean:
+	rm -rf $(VENV) build dist src/*.egg-info .pytest_cache .hypothesis
