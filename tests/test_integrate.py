@@ -360,3 +360,63 @@ def test_no_runtime_warnings_on_degenerate_paths():
         s = wp.integrate(wp.dx(0) ^ wp.dx(1), pts)
     assert math.isfinite(float(r))
     assert float(s) == pytest.approx(0.5)
+
+
+class TestSplineModel:
+    def test_polynomial_form_exact_on_the_spline_itself(self):
+        # The spline model integrates along the cubic spline scipy builds through the
+        # samples; a polynomial form pulled back to a cubic is a polynomial, so the
+        # Gauss rule must reproduce the exact integral along that very spline, which
+        # the symbolic layer computes piece by piece from the spline's coefficients.
+        from scipy.interpolate import CubicSpline
+        rng = np.random.default_rng(2)
+        t = np.cumsum(rng.uniform(0.5, 1.5, 7))
+        pts = rng.normal(size=(7, 2))
+        comps = [X**2 * Y, X - Y**3]
+        got = wp.integrate(wp.Form.from_sympy(comps, (X, Y)), wp.Path(pts, times=t), curve="spline")
+        cs = CubicSpline(t, pts, axis=0, bc_type="not-a-knot")
+        s = sp.Symbol("s")
+        exact = 0
+        for k in range(len(t) - 1):
+            h = symbolic.to_rational(t[k + 1] - t[k])
+            curve = [sum(symbolic.to_rational(cs.c[p, k, d]) * s ** (3 - p) for p in range(4))
+                     for d in range(2)]
+            exact += symbolic.line_integral(comps, (X, Y), curve, s, (0, h))
+        assert got.exact
+        assert float(got) == pytest.approx(float(exact), rel=1e-12)
+
+    @pytest.mark.parametrize("closure", ["none", "chord", "detrend"])
+    def test_short_pieces_and_closures(self, closure):
+        pts = np.array([[0, 0], [1, 0], [np.nan, np.nan], [2, 0], [3, 1], [2, 2],
+                        [np.nan, np.nan], [5, 5]], float)
+        p = wp.Path(pts, times=np.arange(8.0))
+        w = wp.Form.from_sympy([-Y, X], (X, Y))
+        r = wp.integrate(w, p, closure=closure, curve="spline")
+        assert np.isfinite(float(r)) and r.exact
+
+    def test_spline_equals_linear_for_constant_forms(self):
+        rng = np.random.default_rng(4)
+        pts = rng.normal(size=(30, 3))
+        w = wp.dx(0) - 2 * wp.dx(2)
+        a = wp.integrate(w, wp.Path(pts, times=np.cumsum(rng.uniform(0.1, 1, 30))), curve="spline")
+        b = wp.integrate(w, pts)
+        assert float(a) == pytest.approx(float(b), rel=1e-13)
+
+
+@settings(max_examples=60, deadline=None)
+@given(point_arrays(2, min_T=2, max_T=40), st.data())
+def test_gappy_paths_equal_sum_over_pieces(pts, data):
+    gaps = data.draw(arrays(np.bool_, (pts.shape[0],)))
+    if gaps.all():
+        gaps[0] = False
+    pts = pts.copy()
+    pts[gaps] = np.nan
+    p = wp.Path(pts)
+    closure = data.draw(st.sampled_from(["none", "chord"]))
+    for form in (wp.dx(0) ^ wp.dx(1), wp.Form.from_sympy([X * Y, X - Y], (X, Y)), 3 * wp.dx(1)):
+        if form.degree == 2 and closure == "none":
+            continue
+        whole = float(wp.integrate(form, p, closure=closure))
+        parts = sum(float(wp.integrate(form, pc, closure=closure)) for pc in p.pieces
+                    if pc.n_samples >= 2)
+        assert whole == pytest.approx(parts, rel=1e-9, abs=1e-7)

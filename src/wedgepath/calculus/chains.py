@@ -126,7 +126,9 @@ class Chain:
     Parameters
     ----------
     terms : iterable of (Path or array_like, int), or a single Path
-        Paths with integer coefficients.  Arrays are turned into paths.
+        Paths with integer coefficients.  Arrays are turned into paths.  Terms
+        holding the same Path object are merged (coefficients added) and zero
+        coefficients dropped.
 
     Examples
     --------
@@ -154,10 +156,16 @@ class Chain:
             if not isinstance(path, Path):
                 path = Path(path)
             c = as_int(c, "chain coefficient")
-            if c == 0:
-                continue
-            paths.append(path)
-            coefs.append(c)
+            for k, seen in enumerate(paths):
+                if seen is path:  # the same Path object: add coefficients
+                    coefs[k] += c
+                    break
+            else:
+                paths.append(path)
+                coefs.append(c)
+        keep = [k for k, c in enumerate(coefs) if c != 0]
+        paths = [paths[k] for k in keep]
+        coefs = [coefs[k] for k in keep]
         dims = {p.dim for p in paths}
         if len(dims) > 1:
             raise ValueError(f"all paths of a chain must have the same number of channels, got {sorted(dims)}")

@@ -304,32 +304,59 @@ def _geometries(piece: Path, closure: str, curve: str):
     return geoms
 
 
+def _linear_segments(path: Path, closure: str, centre: bool = False):
+    """All straight segments of a path under closure "none" or "chord", vectorised over pieces.
+
+    With ``centre`` every segment is expressed relative to the first sample of
+    its piece (for precision of translation-invariant quantities).
+    """
+    pts = path.points
+    starts, stops = path.piece_bounds()
+    delta = np.diff(pts, axis=0)
+    if path.has_gaps:
+        valid = ~np.isnan(delta).any(axis=1)
+        seg_start, delta = pts[:-1][valid], delta[valid]
+    else:
+        seg_start = pts[:-1]
+    if centre:
+        lengths = stops - starts
+        ref = np.repeat(pts[starts], np.maximum(lengths - 1, 0), axis=0)
+        seg_start = seg_start - ref
+    if closure == "chord":
+        long_enough = (stops - starts) >= 2
+        a, b = pts[stops[long_enough] - 1], pts[starts[long_enough]]
+        chord_start = a - b if centre else a
+        seg_start = np.concatenate([seg_start, chord_start])
+        delta = np.concatenate([delta, b - a])
+    return LinearGeometry.from_segments(seg_start, delta)
+
+
 def _integrate_1form(form: Form, path: Path, closure: str, curve: str, opts) -> _Acc:
     acc = _Acc()
-    pieces = [pc.close(closure) if (closure == "require") else pc for pc in path.pieces]
     const = {k[0]: c.value for k, c in form.terms.items() if c.kind == "constant"}
     varying = [(k[0], c) for k, c in form.terms.items() if c.kind != "constant"]
+    if closure == "require":
+        path.close("require")  # refuses when a piece is not closed within tolerance
 
-    # Constant part: telescoping sum of increments over each (closed) piece.
-    if const:
+    # Constant part: telescoping sum of increments; a closed piece contributes zero.
+    if const and closure == "none":
         idx = np.fromiter(const.keys(), dtype=np.intp)
         cvec = np.fromiter(const.values(), dtype=np.float64)
-        total, scale = 0.0, 0.0
-        for pc in pieces:
-            if pc.n_samples < 2:
-                continue
-            pts = pc.points
-            if closure in ("chord", "detrend", "require"):
-                continue  # a closed piece has zero total increment
-            diff = pts[-1, idx] - pts[0, idx]
-            total += float(cvec @ diff)
-            scale += float(np.abs(cvec) @ (np.abs(pts[-1, idx]) + np.abs(pts[0, idx])))
+        starts, stops = path.piece_bounds()
+        first, last = path.points[starts][:, idx], path.points[stops - 1][:, idx]
+        total = float(cvec @ (last - first).sum(axis=0))
+        scale = float(np.abs(cvec) @ (np.abs(last) + np.abs(first)).sum(axis=0))
         acc.add(total, method="sum of increments (exact)", rounding=_EPS * scale)
+    elif const:
+        acc.add(0.0, method="sum of increments (exact)")
 
     if not varying:
         return acc
 
-    geoms = [g for pc in pieces for g in _geometries(pc, closure, curve)]
+    if curve == "linear" and closure in ("none", "chord"):
+        geoms = [_linear_segments(path, closure)]
+    else:
+        geoms = [g for pc in path.pieces for g in _geometries(pc, closure, curve)]
     if not geoms:
         return acc
     deg = _poly_degree(varying)
@@ -472,14 +499,20 @@ def _integrate_2form(form: Form, path: Path, closure: str, curve: str, opts) -> 
         coefs.setdefault(i, []).append((-0.5 * c, j))
     varying = [(k, Coefficient.from_callable(_linear_combination(lst), degree=1))
                for k, lst in sorted(coefs.items())]
-    for pc in path.pieces:
-        if pc.n_samples < 2:
-            continue
-        # A constant 2-form's integral over a surface spanning a closed curve is
-        # translation invariant: centre the piece for precision.
-        ref = np.mean(pc.points, axis=0)
-        centred = Path._trusted(pc.points - ref, pc.times, None, gap_rows=None)
-        for g in _geometries(centred, closure, curve):
+    # A constant 2-form's integral over a surface spanning a closed curve is
+    # translation invariant: each piece is taken relative to a point of its own.
+    if curve == "linear" and closure in ("none", "chord"):
+        geom_lists = [[_linear_segments(path, closure, centre=True)]]
+    else:
+        geom_lists = []
+        for pc in path.pieces:
+            if pc.n_samples < 2:
+                continue
+            ref = np.mean(pc.points, axis=0)
+            centred = Path._trusted(pc.points - ref, pc.times, None, gap_rows=None)
+            geom_lists.append(_geometries(centred, closure, curve))
+    for geoms in geom_lists:
+        for g in geoms:
             m = points_needed(g.degree_factor * 1 + g.degree_offset)
             val, scale, _ = _fixed_rule(g, varying, m)
             acc.add(val, 0.0, True, "constant 2-form via boundary primitive (exact)",

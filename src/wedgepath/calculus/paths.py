@@ -138,11 +138,17 @@ class Path:
             if self._gap_rows is None:
                 self._pieces = (self,)
             else:
-                good = ~self._gap_rows
-                edges = np.flatnonzero(np.diff(np.concatenate(([0], good.view(np.int8), [0]))))
-                starts, stops = edges[0::2], edges[1::2]
+                starts, stops = self.piece_bounds()
                 self._pieces = tuple(self._slice(a, b) for a, b in zip(starts, stops))
         return self._pieces
+
+    def piece_bounds(self):
+        """Row ranges of the pieces: arrays ``starts``, ``stops`` (``points[a:b]``)."""
+        if self._gap_rows is None:
+            return np.array([0]), np.array([self.n_samples])
+        good = ~self._gap_rows
+        edges = np.flatnonzero(np.diff(np.concatenate(([0], good.view(np.int8), [0]))))
+        return edges[0::2], edges[1::2]
 
     def _slice(self, a: int, b: int) -> "Path":
         return Path._trusted(self._points[a:b],

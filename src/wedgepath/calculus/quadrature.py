@@ -62,10 +62,20 @@ class LinearGeometry:
     degree_factor, degree_offset = 1, 0
 
     def __init__(self, points: np.ndarray):
-        self.start = points[:-1]
-        self.delta = np.diff(points, axis=0)
-        self.n_segments = self.delta.shape[0]
-        self.dim = points.shape[1]
+        self._set(points[:-1], np.diff(points, axis=0))
+
+    @classmethod
+    def from_segments(cls, start: np.ndarray, delta: np.ndarray) -> "LinearGeometry":
+        """Segments given directly by start points and increments, shape (K, n) each."""
+        self = object.__new__(cls)
+        self._set(start, delta)
+        return self
+
+    def _set(self, start, delta):
+        self.start = start
+        self.delta = delta
+        self.n_segments = delta.shape[0]
+        self.dim = delta.shape[1]
 
     def lengths(self) -> np.ndarray:
         return np.sqrt(np.einsum("ij,ij->i", self.delta, self.delta))
