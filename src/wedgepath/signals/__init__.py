@@ -1,9 +1,35 @@
-"""Lead and lag across many signals: area matrices, cyclic order, rolling and streaming."""
+"""Lead and lag across many signals: area matrices, cyclic order, rolling and streaming.
+
+Given n recorded signals, the area matrix ``A[i, j] = (1/2)∮(x_i dx_j - x_j dx_i)``
+says which leads which (``A[i, j] > 0``: channel i leads channel j), how
+strongly (its normalisations), in what cyclic order the channels move
+(:func:`cyclic_order`), whether it is more than chance
+(:func:`surrogate_test`, :func:`bootstrap_area`), how it changes over time
+(:func:`rolling_area_matrix`, :class:`AreaAccumulator`) and what each cycle of
+a loop contributes (:func:`cycle_areas`).  See ``docs/signals.md``.
+"""
 
 from ._kernel import ConstantChannelWarning
 from .align import align
 from .areas import NORMALIZATIONS, AreaMatrix, area_matrix, hilbert_energy
+from .cycles import CycleAreas, cycle_areas
 from .order import CyclicOrder, cyclic_order
+from .rolling import RollingAreas, rolling_area_matrix
+from .significance import (SURROGATE_METHODS, BootstrapResult, SurrogateResult,
+                           benjamini_hochberg, bootstrap_area, surrogate_test)
+from .streaming import AreaAccumulator
 
-__all__ = ["area_matrix", "AreaMatrix", "NORMALIZATIONS", "hilbert_energy", "align",
-           "ConstantChannelWarning", "cyclic_order", "CyclicOrder"]
+__all__ = [
+    # the area matrix
+    "area_matrix", "AreaMatrix", "NORMALIZATIONS", "hilbert_energy", "ConstantChannelWarning",
+    "align",
+    # structure
+    "cyclic_order", "CyclicOrder",
+    # over time
+    "rolling_area_matrix", "RollingAreas", "AreaAccumulator",
+    # significance
+    "surrogate_test", "SurrogateResult", "SURROGATE_METHODS", "bootstrap_area",
+    "BootstrapResult", "benjamini_hochberg",
+    # per-cycle loops
+    "cycle_areas", "CycleAreas",
+]

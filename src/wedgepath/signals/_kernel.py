@@ -36,6 +36,8 @@ __all__ = []  # internal module
 #: doubles per chunk of the scan (2**17 doubles = 1 MiB): small enough to stay
 #: in cache between the centring and the GEMM, large enough for BLAS.
 CHUNK_ELEMENTS = 1 << 17
+#: at most this many rows per chunk (shorter chunks keep the centred values small)
+CHUNK_MAX_ROWS = 4096
 
 
 class ConstantChannelWarning(UserWarning):
@@ -43,7 +45,7 @@ class ConstantChannelWarning(UserWarning):
 
 
 def chunk_rows(n: int) -> int:
-    return max(256, CHUNK_ELEMENTS // max(n, 1))
+    return max(256, min(CHUNK_MAX_ROWS, CHUNK_ELEMENTS // max(n, 1)))
 
 
 def wedge(a, b):
@@ -253,6 +255,25 @@ def _raise_inf(blk, a, what):
                      f"channel {int(where[1])}")
 
 
+def _paired_product(blk, r):
+    """A matrix whose antisymmetric part is ``sum_k z_k ^ z_{k+1}``, ``z = blk - r``.
+
+    Segments are taken in pairs: ``z_{2j} ^ z_{2j+1} + z_{2j+1} ^ z_{2j+2}
+    = z_{2j+1} ^ (z_{2j+2} - z_{2j})``, so one GEMM over half the rows does
+    the work (the cost of one ``X.T @ X``), and its second factor is a
+    two-step increment -- small for slowly moving data, which keeps the
+    rounding small as well.
+    """
+    m = blk.shape[0] - 1               # segments
+    h = m // 2
+    U = blk[1:2 * h:2] - r
+    V = blk[2:2 * h + 1:2] - blk[0:2 * h - 1:2]
+    G = U.T @ V
+    if m % 2:
+        G += np.outer(blk[m - 1] - r, blk[m] - r)
+    return G
+
+
 def scan(data: SignalData, what="X") -> ScanResult:
     """One pass over the data: lagged cross-products per piece (see module doc)."""
     values = data.values
@@ -266,8 +287,7 @@ def scan(data: SignalData, what="X") -> ScanResult:
         b = min(a + c, T - 1)
         blk = np.asarray(values[a:b + 1], dtype=np.float64)
         r = blk[0]
-        Z = blk - r
-        G = Z[:-1].T @ Z[1:]
+        G = _paired_product(blk, r)
         if np.isfinite(G).all():
             # gap-free chunk (NaN or inf anywhere would have reached G)
             if a == 0:
@@ -292,7 +312,7 @@ def scan(data: SignalData, what="X") -> ScanResult:
                 ref = np.maximum.accumulate(np.where(is_start, np.arange(m), 0))
                 Z = blk - blk[ref]
                 Z[~valid] = 0.0
-                M += Z[:-1].T @ Z[1:]
+                M += _paired_product(Z, 0.0)
                 first_new = 0
                 if rs[0] == 0 and a > 0:
                     # the first run continues the piece that was open

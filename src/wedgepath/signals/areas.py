@@ -301,7 +301,7 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
 
     >>> t = 2 * np.pi * np.arange(400) / 100
     >>> Y = np.column_stack([3 * np.sin(t), 0.5 * np.sin(t - np.pi / 3)])
-    >>> round(float(wp.area_matrix(Y, normalize="hilbert")[0, 1]), 10), round(np.sin(np.pi / 3), 10)
+    >>> round(float(wp.area_matrix(Y, normalize="hilbert")[0, 1]), 10), round(float(np.sin(np.pi / 3)), 10)
     (0.8660254038, 0.8660254038)
 
     Names travel with ``labels=True``; NaN rows split the data into pieces:
