@@ -1,0 +1,112 @@
+"""Table reading and safe formula parsing (the command line's inputs)."""
+
+import io
+
+import numpy as np
+import pytest
+import sympy as sp
+
+import wedgepath.io as wio
+from wedgepath.formula import parse_formula
+
+X, Y = sp.symbols("x y", real=True)
+VARS = {"x": X, "y": Y}
+
+
+class TestReadTable:
+    def test_values_times_gaps_comments(self, tmp_path):
+        f = tmp_path / "s.csv"
+        f.write_text("# comment\nt,a,b\n0,1,2\n0.5,,3\n\n1.5,4,NA\n")
+        tab = wio.read_table(f, time_column="t")
+        assert tab.names == ["a", "b"]
+        np.testing.assert_array_equal(tab.times, [0, 0.5, 1.5])
+        np.testing.assert_array_equal(tab.values, [[1, 2], [np.nan, 3], [4, np.nan]])
+
+    def test_tsv_and_column_selection(self, tmp_path):
+        f = tmp_path / "s.tsv"
+        f.write_text("a\tb\tc\n1\t2\t3\n4\t5\t6\n")
+        tab = wio.read_table(f, columns="c,a")
+        assert tab.names == ["c", "a"]
+        np.testing.assert_array_equal(tab.values, [[3, 1], [6, 4]])
+
+    def test_chunks_cover_the_table(self, tmp_path):
+        f = tmp_path / "s.csv"
+        rows = "\n".join(f"{k},{k * k}" for k in range(25))
+        f.write_text("a,b\n" + rows + "\n")
+        chunks = list(wio.iter_table_chunks(f, chunk_rows=7))
+        assert [c.values.shape[0] for c in chunks] == [7, 7, 7, 4]
+        np.testing.assert_array_equal(np.concatenate([c.values for c in chunks])[:, 1],
+                                      np.arange(25.0) ** 2)
+
+    def test_parquet_roundtrip(self, tmp_path):
+        pd = pytest.importorskip("pandas")
+        pytest.importorskip("pyarrow")
+        df = pd.DataFrame({"t": [0.0, 1.0, 2.0], "a": [1.0, 2.0, 3.0], "b": [0, 1, 0]})
+        f = tmp_path / "s.parquet"
+        df.to_parquet(f)
+        tab = wio.read_table(f, time_column="t")
+        np.testing.assert_array_equal(tab.values, [[1, 0], [2, 1], [3, 0]])
+
+    @pytest.mark.parametrize("text, words", [
+        ("", "empty"),
+        ("a,b\n", "no data rows"),
+        ("a,b\n1,2\n", "at least 2"),
+        ("1,2\n3,4\n", "header row naming"),
+        ("a,a\n1,2\n3,4\n", "repeated column names"),
+        ("a,b\n1,2\n3,x\n", "line 3: column 'b' has a non-numeric value 'x'"),
+        ("a,b\n1,2\n3\n", "1 fields, the header has 2"),
+        ("a,b\n1,2\nc,d\n", "header changes"),
+        ("a,b\n1,2\n3,-inf\n", "infinite"),
+    ])
+    def test_bad_tables(self, text, words):
+        with pytest.raises(wio.TableError, match=words):
+            wio.read_table(io.StringIO(text))
+
+    def test_bad_files(self, tmp_path):
+        with pytest.raises(wio.TableError, match="no such file"):
+            wio.read_table(tmp_path / "missing.csv")
+        with pytest.raises(wio.TableError, match="directory"):
+            wio.read_table(tmp_path)
+        f = tmp_path / "latin.csv"
+        f.write_bytes(b"a,b\n1,2\n\xe9,3\n")
+        with pytest.raises(wio.TableError, match="not UTF-8"):
+            wio.read_table(f)
+        g = tmp_path / "g.csv"
+        g.write_text("a,b\n1,2\n3,4\n")
+        with pytest.raises(wio.TableError, match="unknown column 'z'"):
+            wio.read_table(g, columns=["z"])
+        with pytest.raises(wio.TableError, match="unknown time column"):
+            wio.read_table(g, time_column="t")
+
+
+class TestFormula:
+    @pytest.mark.parametrize("text, expected", [
+        ("x**2 + 3*y", X**2 + 3 * Y),
+        ("x^2*y", X**2 * Y),
+        ("2.5*x", sp.Rational(5, 2) * X),
+        ("-sin(x) + exp(y)/2", -sp.sin(X) + sp.exp(Y) / 2),
+        ("pi*x", sp.pi * X),
+        ("abs(x - y)", sp.Abs(X - Y)),
+    ])
+    def test_parses(self, text, expected):
+        assert sp.simplify(parse_formula(text, VARS) - expected) == 0
+
+    @pytest.mark.parametrize("text, words", [
+        ("__import__('os').system('true')", "only plain function names"),
+        ("__import__('os')", "unknown function"),
+        ("x.__class__", "Attribute is not allowed"),
+        ("open('f')", "unknown function"),
+        ("z + 1", "unknown name 'z'"),
+        ("[x, y]", "List"),
+        ("lambda: 0", "Lambda"),
+        ("'text'", "only numbers"),
+        ("x +", "syntax error"),
+        ("1/0", "not finite"),
+        ("x**100000", "exponent"),
+        ("sin(x, y)", "exactly one argument"),
+        ("", "empty"),
+        ("True", "only numbers"),
+    ])
+    def test_refuses(self, text, words):
+        with pytest.raises(ValueError, match=words):
+            parse_formula(text, VARS)
