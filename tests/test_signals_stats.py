@@ -1,0 +1,356 @@
+"""Cyclic order, significance (surrogates, FDR, bootstrap), per-cycle loops, progress.
+
+Each reference is named beside its check: a published model or definition,
+a closed form derived in the comment, or an independent library routine
+(scipy.stats).
+"""
+
+from __future__ import annotations
+
+import io
+
+import numpy as np
+import pandas as pd
+import pytest
+from scipy import stats
+
+import wedgepath as wp
+from wedgepath._progress import Progress
+
+
+def same_cycle(a, b):
+    """True when sequence b is a rotation of sequence a."""
+    a, b = list(a), list(b)
+    if len(a) != len(b) or b[0] not in a:
+        return False
+    k = a.index(b[0])
+    return a[k:] + a[:k] == b
+
+
+def broadband(T, seed, smooth=8):
+    rng = np.random.default_rng(seed)
+    return np.convolve(rng.standard_normal(T + smooth), np.ones(smooth) / smooth, mode="valid")[:T]
+
+
+# --------------------------------------------------------------------------- cyclic order
+class TestCyclicOrder:
+    @pytest.mark.parametrize("n", [3, 5, 8])
+    def test_evenly_spaced_sinusoids_exact(self, n):
+        # x_k = sin(t - alpha_k) over whole cycles gives A[i, j] = c sin(alpha_j - alpha_i)
+        # (c = K (N/2) sin(2 pi/N), see test_sampled_ellipse_formula).  With
+        # u_k = exp(i alpha_k), A = (c/2i)(conj(u) u^T - u u^H), so
+        # A u = (c/2i)(conj(u) sum u_k^2 - n u) = i (c n/2) u when sum u_k^2 = 0,
+        # true for n >= 3 evenly spaced alpha (derived here).  Hence the
+        # eigenvector phases are the delays exactly and the fit is 1 (rank 2).
+        rng = np.random.default_rng(n)
+        alpha = rng.permutation(n) * 2 * np.pi / n
+        t = 2 * np.pi * np.arange(3 * 40) / 40
+        X = np.sin(t[:, None] - alpha[None, :])
+        res = wp.cyclic_order(wp.area_matrix(X), start=0)
+        want = np.mod(alpha - alpha[0], 2 * np.pi)
+        assert np.allclose(np.exp(1j * res.phases), np.exp(1j * want), atol=1e-9)
+        assert res.order.tolist() == np.argsort(want).tolist()
+        assert res.fit == pytest.approx(1.0, abs=1e-12)
+        assert np.allclose(res.moduli, 1.0)
+
+    @pytest.mark.parametrize("seed", range(5))
+    def test_chain_of_offsets_recovers_order_under_noise(self, seed):
+        # Chain-of-offsets model of Baryshnikov & Schlafly, "Cyclicity in
+        # multivariate time series and applications to functional MRI data",
+        # IEEE CDC 2016: x_k(t) = a_k f(t - alpha_k) + noise, f periodic (here
+        # a non-sinusoidal wave), delays in unknown order.  The leading
+        # eigenvector of the area matrix must return the order of the delays
+        # (up to where the cycle starts), with a high fit.
+        rng = np.random.default_rng(seed)
+        n, T = 8, 3000
+        alpha = rng.permutation(n) * 2 * np.pi / n + rng.uniform(-0.1, 0.1, n)
+        t = np.arange(T) * 2 * np.pi / 97
+        f = lambda s: np.sign(np.sin(s)) * np.abs(np.sin(s)) ** 0.5 + 0.3 * np.sin(2 * s)  # noqa: E731
+        amp = rng.uniform(0.5, 2.0, n)
+        X = amp * f(t[:, None] - alpha[None, :]) + 0.7 * rng.standard_normal((T, n))
+        res = wp.cyclic_order(wp.area_matrix(X))
+        assert same_cycle(np.argsort(alpha).tolist(), res.order.tolist())
+        assert res.fit > 0.9
+
+    def test_fit_is_low_without_a_cycle(self):
+        # independent white noise: no single cycle; for 16 channels the leading
+        # pair explains well under half of ||A||^2 (the chain model above: > 0.9)
+        X = np.random.default_rng(0).standard_normal((4000, 16))
+        assert wp.cyclic_order(wp.area_matrix(X)).fit < 0.6
+
+    def test_each_leads_the_next(self):
+        rng = np.random.default_rng(3)
+        alpha = rng.permutation(6) * 2 * np.pi / 6
+        t = np.arange(2000) * 2 * np.pi / 50
+        X = np.sin(t[:, None] - alpha[None, :]) + 0.2 * rng.standard_normal((2000, 6))
+        A = wp.area_matrix(X)
+        order = wp.cyclic_order(A).order
+        for a, b in zip(order, np.roll(order, -1)):
+            assert A[a, b] > 0                     # A[i, j] > 0: i leads j (DESIGN.md)
+
+    def test_two_channels_and_names(self):
+        t = np.arange(200) * 2 * np.pi / 50
+        df = pd.DataFrame({"late": np.sin(t - 0.4), "early": np.sin(t)})
+        res = wp.cyclic_order(wp.area_matrix(df, labels=True), start="early")
+        assert res.ordered_names == ["early", "late"]
+        assert res.fit == 1.0
+        assert res.phases[0] == pytest.approx(np.pi / 2)   # two channels: always a quarter cycle
+
+    def test_bad_input(self):
+        with pytest.raises(ValueError, match="square"):
+            wp.cyclic_order(np.zeros((2, 3)))
+        with pytest.raises(ValueError, match="not skew-symmetric"):
+            wp.cyclic_order(np.array([[0.0, 1.0], [1.0, 0.0]]))
+        with pytest.raises(ValueError, match="zero"):
+            wp.cyclic_order(np.zeros((3, 3)))
+        with pytest.raises(ValueError, match="NaN"):
+            wp.cyclic_order(np.array([[0.0, np.nan], [np.nan, 0.0]]))
+        with pytest.raises(ValueError, match="at least 2"):
+            wp.cyclic_order(np.zeros((1, 1)))
+        with pytest.raises(ValueError, match="out of range"):
+            wp.cyclic_order(np.array([[0.0, 1.0], [-1.0, 0.0]]), start=5)
+
+
+# --------------------------------------------------------------------------- significance
+class TestSurrogates:
+    @pytest.mark.parametrize("method", ["shift", "phase"])
+    def test_pvalues_uniform_under_independence(self, method):
+        # Under a null of independent signals the Monte Carlo p-value
+        # (1 + #{|A*| >= |A|}) / (1 + B) is uniform on {1/(B+1), ..., 1}
+        # (North, Curtis & Sham, Am. J. Hum. Genet. 71, 2002, from memory);
+        # with i.i.d. Gaussian channels both surrogates are exact nulls.
+        # Kolmogorov-Smirnov against U(0, 1) with scipy.stats.kstest.
+        rng = np.random.default_rng(123)
+        pv = []
+        for _ in range(150):
+            X = rng.standard_normal((96, 2))
+            res = wp.surrogate_test(X, method=method, n_surrogates=59, seed=rng, progress=False)
+            pv.append(res.pvalues[0, 1])
+        assert stats.kstest(pv, "uniform").pvalue > 0.01
+
+    @pytest.mark.parametrize("method", ["shift", "phase"])
+    def test_power_for_a_delayed_copy(self, method):
+        d = broadband(1003, seed=1)
+        rng = np.random.default_rng(2)
+        X = np.column_stack([d[3:], d[:-3], rng.standard_normal(1000)])
+        X += 0.05 * rng.standard_normal(X.shape)
+        res = wp.surrogate_test(X, method=method, n_surrogates=99, seed=0, progress=False)
+        assert res.pvalues[0, 1] == pytest.approx(0.01)
+        assert res.pvalues[0, 2] > 0.05
+        assert res.significant(0.05)[0, 1] and not res.significant(0.05)[0, 2]
+        # two-sided: a lag (negative area) is detected as well
+        rev = wp.surrogate_test(X[:, [1, 0, 2]], method=method, n_surrogates=99, seed=0,
+                                progress=False)
+        assert rev.observed[0, 1] < 0 and rev.pvalues[0, 1] == pytest.approx(0.01)
+        assert np.isnan(res.pvalues[0, 0]) and np.array_equal(res.pvalues, res.pvalues.T,
+                                                             equal_nan=True)
+
+    def test_seeded_and_reproducible(self):
+        X = np.random.default_rng(5).standard_normal((200, 3))
+        a = wp.surrogate_test(X, n_surrogates=30, seed=42, progress=False)
+        b = wp.surrogate_test(X, n_surrogates=30, seed=42, progress=False)
+        c = wp.surrogate_test(X, n_surrogates=30, seed=43, progress=False)
+        assert np.array_equal(a.pvalues, b.pvalues, equal_nan=True)
+        assert not np.array_equal(a.null_std, c.null_std)
+
+    def test_normalisation_free_statistic(self):
+        # both surrogate kinds keep each channel's spectrum, so scaling a
+        # channel changes nothing in the p-values
+        X = np.random.default_rng(6).standard_normal((300, 3))
+        a = wp.surrogate_test(X, n_surrogates=40, seed=1, progress=False)
+        b = wp.surrogate_test(X * [1.0, 1e3, 1e-2], n_surrogates=40, seed=1, progress=False)
+        assert np.array_equal(a.pvalues, b.pvalues, equal_nan=True)
+
+    def test_errors(self):
+        X = np.random.default_rng(0).standard_normal((50, 2))
+        with pytest.raises(ValueError, match="unknown method 'boot'"):
+            wp.surrogate_test(X, method="boot")
+        with pytest.raises(ValueError, match="n_surrogates must be at least 1"):
+            wp.surrogate_test(X, n_surrogates=0)
+        Y = X.copy()
+        Y[4, 1] = np.nan
+        with pytest.raises(ValueError, match="gap-free"):
+            wp.surrogate_test(Y)
+        before = X.copy()
+        X.flags.writeable = False
+        wp.surrogate_test(X, n_surrogates=5, seed=0, progress=False)
+        assert np.array_equal(X, before)
+
+    def test_progress_indicator(self, capsys):
+        X = np.random.default_rng(0).standard_normal((50, 2))
+        wp.surrogate_test(X, n_surrogates=5, seed=0, progress=True)
+        assert "surrogates: 5/5" in capsys.readouterr().err
+        wp.surrogate_test(X, n_surrogates=5, seed=0, progress=False)
+        wp.surrogate_test(X, n_surrogates=5, seed=0)          # short run: silent
+        assert capsys.readouterr().err == ""
+
+
+class TestBenjaminiHochberg:
+    def test_by_hand(self):
+        # Definition (Benjamini & Hochberg, J. R. Statist. Soc. B 57, 1995):
+        # sorted p = 0.005, 0.01, 0.03, 0.04, 0.2 with m = 5 give m p/k =
+        # 0.025, 0.025, 0.05, 0.05, 0.2, already non-decreasing (by hand).
+        p = [0.04, 0.005, 0.2, 0.01, 0.03]
+        assert np.allclose(wp.benjamini_hochberg(p), [0.05, 0.025, 0.2, 0.025, 0.05])
+
+    def test_against_scipy(self):
+        # scipy.stats.false_discovery_control implements the same procedure
+        p = np.random.default_rng(1).uniform(0, 1, 40) ** 3
+        assert np.allclose(wp.benjamini_hochberg(p), stats.false_discovery_control(p, method="bh"))
+
+    def test_nan_and_range(self):
+        q = wp.benjamini_hochberg([[np.nan, 0.01], [0.01, np.nan]])
+        assert np.isnan(q[0, 0]) and q[0, 1] == pytest.approx(0.01)
+        with pytest.raises(ValueError, match=r"\[0, 1\]"):
+            wp.benjamini_hochberg([0.5, 1.5])
+
+
+class TestBootstrap:
+    def test_white_noise_standard_error(self):
+        # i.i.d. standard normal x_i, x_j: the terms u_k = (x_ik x_j,k+1 - x_jk x_i,k+1)/2
+        # have variance (1 + 1)/4 = 1/2 and are uncorrelated (every cross moment
+        # has an unpaired factor), so sd(A_ij) = sqrt(T/2) (derived here).
+        T = 4000
+        X = np.random.default_rng(7).standard_normal((T, 2))
+        res = wp.bootstrap_area(X, block=20, n_boot=2000, seed=1, progress=False)
+        assert res.std[0, 1] == pytest.approx(np.sqrt(T / 2), rel=0.1)
+        assert res.low[0, 1] < res.estimate[0, 1] < res.high[0, 1]
+
+    def test_estimate_and_interval_shape(self):
+        t = np.arange(3000) * 2 * np.pi / 60
+        rng = np.random.default_rng(8)
+        X = np.column_stack([np.sin(t), np.sin(t - 0.6), rng.standard_normal(3000)])
+        X[:, :2] += 0.3 * rng.standard_normal((3000, 2))
+        res = wp.bootstrap_area(X, block=120, n_boot=500, seed=3, keep=True, progress=False)
+        assert np.allclose(res.estimate, wp.area_matrix(X), rtol=1e-10, atol=1e-8)
+        assert res.replicates.shape == (500, 3, 3)
+        assert res.low[0, 1] > 0                     # the lead is clearly positive
+        assert res.low[0, 2] < 0 < res.high[0, 2]    # no lead with the noise channel
+        again = wp.bootstrap_area(X, block=120, n_boot=500, seed=3, progress=False)
+        assert np.array_equal(again.low, res.low)
+
+    def test_errors(self):
+        X = np.random.default_rng(0).standard_normal((50, 2))
+        with pytest.raises(ValueError, match="block must be between 1"):
+            wp.bootstrap_area(X, block=51)
+        with pytest.raises(ValueError, match="level"):
+            wp.bootstrap_area(X, level=1.5)
+        with pytest.raises(ValueError, match="n_boot"):
+            wp.bootstrap_area(X, n_boot=1)
+
+
+# --------------------------------------------------------------------------- cycles
+class TestCycleAreas:
+    @pytest.mark.parametrize("N", [8, 20, 33])
+    def test_each_cycle_is_the_sampled_ellipse(self, N):
+        # N samples per cycle, exactly periodic: every crossing-to-crossing loop
+        # retraces the same polygon, of area (N/2) sin(2pi/N) a b sin(phi)
+        # (derived in test_signals.py::test_sampled_ellipse_formula).
+        a, b, phi = 1.5, 0.4, 0.9
+        t = 2 * np.pi * np.arange(6 * N + 1) / N + 0.2
+        X = np.column_stack([a * np.sin(t + phi), b * np.sin(t), np.cos(3 * t)])
+        res = wp.cycle_areas(X, 0, 1, reference=1)
+        exact = (N / 2) * np.sin(2 * np.pi / N) * a * b * np.sin(phi)
+        assert res.count >= 5
+        assert np.allclose(res.areas, exact, rtol=1e-12)
+        assert res.mean == pytest.approx(exact, rel=1e-12)
+        assert res.std < 1e-10 * exact
+
+    def test_given_boundaries(self):
+        N = 16
+        t = 2 * np.pi * np.arange(4 * N + 1) / N
+        X = np.column_stack([np.cos(t), np.sin(t)])
+        res = wp.cycle_areas(X, 0, 1, boundaries=[0, N, 2 * N, 3.5 * N])
+        exact = (N / 2) * np.sin(2 * np.pi / N)        # unit circle, phi = pi/2
+        assert np.allclose(res.areas[:2], exact, rtol=1e-12)
+        assert res.starts.tolist() == [0, N, 2 * N] and res.stops.tolist() == [N, 2 * N, 3.5 * N]
+
+    def test_hysteresis_energy_kelvin_voigt(self):
+        # Kelvin-Voigt solid: stress = E strain + eta d(strain)/dt.  For
+        # strain = e0 sin(w t) the energy dissipated per cycle is
+        # int stress d(strain) = pi eta w e0^2 (standard result, e.g. Lakes,
+        # "Viscoelastic Materials", 2009, from memory).  Sampled with N points
+        # per cycle the loop is the sampled ellipse: (N/2) sin(2pi/N) e0^2 eta w.
+        E, eta, w, e0, N = 3.0, 0.2, 2.0, 0.01, 400
+        t = np.arange(10 * N + 1) * (2 * np.pi / w) / N + 0.05
+        strain = e0 * np.sin(w * t)
+        stress = E * strain + eta * e0 * w * np.cos(w * t)
+        df = pd.DataFrame({"strain": strain, "stress": stress})
+        res = wp.cycle_areas(df, "stress", "strain", reference="strain", times=t)
+        assert res.pair == ("stress", "strain")
+        # strain crosses zero upwards at w t = 2 pi m, m = 1..10 within the
+        # record (it starts just after m = 0): 10 crossings, 9 whole loops
+        assert res.count == 9
+        assert res.mean == pytest.approx((N / 2) * np.sin(2 * np.pi / N) * e0 ** 2 * eta * w,
+                                         rel=1e-10)
+        assert res.mean == pytest.approx(np.pi * eta * w * e0 ** 2, rel=1e-4)
+        assert np.allclose(np.diff(res.start_times), 2 * np.pi / w)
+
+    def test_hysteresis_band_ignores_noise(self):
+        rng = np.random.default_rng(4)
+        t = np.arange(4000) * 2 * np.pi / 200
+        r = np.sin(t) + 0.05 * rng.standard_normal(4000)
+        X = np.column_stack([r, np.cos(t)])
+        chatter = wp.cycle_areas(X, 0, 1)
+        clean = wp.cycle_areas(X, 0, 1, hysteresis=0.3)
+        # sin t starts exactly at its crossing (no earlier sample): the upward
+        # crossings inside the record are at samples 200, 400, ..., 3800, 19 of
+        # them, giving 18 whole loops
+        assert len(clean) == 18
+        assert len(chatter) > len(clean)
+
+    def test_gap_marks_cycle_incomplete(self):
+        N = 20
+        t = 2 * np.pi * np.arange(5 * N + 1) / N + 0.3
+        X = np.column_stack([np.sin(t), np.cos(t)])
+        X[45] = np.nan
+        res = wp.cycle_areas(X, 0, 1)
+        assert np.isnan(res.areas).sum() == 1
+        assert res.count == len(res) - 1 and np.isfinite(res.mean)
+
+    def test_errors(self):
+        X = np.column_stack([np.sin(np.arange(50.0)), np.cos(np.arange(50.0))])
+        with pytest.raises(ValueError, match="different channels"):
+            wp.cycle_areas(X, 0, 0)
+        with pytest.raises(ValueError, match="either boundaries or reference"):
+            wp.cycle_areas(X, 0, 1, boundaries=[0, 10], level=0.0)
+        with pytest.raises(ValueError, match="strictly increasing"):
+            wp.cycle_areas(X, 0, 1, boundaries=[10, 5])
+        with pytest.raises(ValueError, match="within"):
+            wp.cycle_areas(X, 0, 1, boundaries=[0, 60])
+        with pytest.raises(ValueError, match="constant"):
+            wp.cycle_areas(np.column_stack([np.ones(10), np.arange(10.0)]), 0, 1)
+        with pytest.raises(ValueError, match="unknown i channel 'x'"):
+            wp.cycle_areas(X, "x", 1)
+        res = wp.cycle_areas(X[:3], 0, 1)
+        assert len(res) == 0 and np.isnan(res.mean)
+
+
+# --------------------------------------------------------------------------- progress
+class TestProgress:
+    def test_modes(self, monkeypatch):
+        out = io.StringIO()
+        with Progress(4, "work", enabled=True, interval=0, stream=out) as bar:
+            for _ in range(4):
+                bar.update()
+        text = out.getvalue()
+        assert "work: 4/4 (100%)" in text and text.endswith("\n")
+        quiet = io.StringIO()
+        with Progress(4, "work", enabled=None, delay=3600, stream=quiet) as bar:
+            bar.update(4)
+        assert quiet.getvalue() == ""                    # short run: nothing shown
+        auto = io.StringIO()
+        with Progress(4, "work", enabled=None, delay=0, interval=0, stream=auto) as bar:
+            bar.update(2)
+        assert "work: 2/4" in auto.getvalue()
+        monkeypatch.setenv("WEDGEPATH_PROGRESS", "0")
+        env = io.StringIO()
+        with Progress(4, "work", enabled=None, delay=0, stream=env) as bar:
+            bar.update(4)
+        assert env.getvalue() == ""
+
+    def test_bad_arguments(self):
+        with pytest.raises(ValueError, match="positive integer"):
+            Progress(0)
+        with pytest.raises(TypeError, match="enabled"):
+            Progress(3, enabled="yes")
