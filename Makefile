@@ -19,7 +19,7 @@ $(VENV)/.installed-%: $(VENV)/.created pyproject.toml
 
 ## demo: install and run the main job on the bundled demo data
 demo: $(VENV)/.installed-plot
-	$(PY) -m wedgepath.demo
+	$(VENV)/bin/wedgepath demo --out demo-output --force
 
 ## test: install and run the whole test suite (unit, property, doctests, examples)
 test: $(VENV)/.installed-test

@@ -1,4 +1,4 @@
-"""Demo on the bundled, invented gantry recording: ``python -m wedgepath.demo``.
+"""Line integrals along a recorded path: ``python examples/line_integrals.py``.
 
 The recording (``wedgepath/data/gantry_loop.csv``) is a made-up tool head
 sweeping a known elliptical loop three times, sampled at irregular instants,
@@ -22,10 +22,7 @@ from importlib import resources
 import numpy as np
 import sympy as sp
 
-from . import symbolic
-from .calculus import Form, OneForm, Path, dx, integrate
-
-__all__ = ["load_gantry", "main"]
+from wedgepath import Form, OneForm, Path, dx, integrate, symbolic
 
 PERIOD = 4.0
 SEMI_AXES = (0.4, 0.25)
@@ -33,13 +30,10 @@ SEMI_AXES = (0.4, 0.25)
 
 def load_gantry() -> Path:
     """The bundled demo recording as a Path with times and channel names."""
-    ref = resources.files("wedgepath") / "data" / "gantry_loop.csv"
-    with ref.open("r") as fh:
-        lines = [ln for ln in fh if not ln.startswith("#")]
-    header = lines[0].strip().split(",")
-    rows = [[float(v) if v else np.nan for v in ln.strip().split(",")] for ln in lines[1:]]
-    data = np.array(rows)
-    return Path(data[:, 1:], times=data[:, 0], names=header[1:])
+    from wedgepath.io import read_table
+    with resources.as_file(resources.files("wedgepath") / "data" / "gantry_loop.csv") as f:
+        tab = read_table(f, time_column="time_s")
+    return Path(tab.values, times=tab.times, names=tab.names)
 
 
 def _line(label, value, check, ok):
@@ -50,7 +44,7 @@ def _line(label, value, check, ok):
 
 def main(argv=None) -> int:
     p = load_gantry()
-    print(f"wedgepath demo: {p!r}")
+    print(f"gantry recording: {p!r}")
     print(f"  {len(p.pieces)} gap-free pieces of {[pc.n_samples for pc in p.pieces]} samples "
           "(a logging dropout splits the second sweep)\n")
     ok = True

@@ -1,0 +1,616 @@
+"""The ``wedgepath`` command line (also ``python -m wedgepath``).
+
+Subcommands:
+
+``wedgepath leadlag TABLE``
+    Which signal leads which: area matrix, cyclic order with phases and fit,
+    strongest leaders and laggers, optional rolling windows and surrogate
+    significance.
+``wedgepath loop TABLE --x COL --y COL``
+    A loop in one plane: signed and absolute area, area by winding number,
+    lobes, per-cycle areas (energy per cycle), optional region integral of a
+    weight formula.
+``wedgepath demo``
+    Both jobs on bundled, invented data; reports whether the known answers
+    were recovered.
+
+Every subcommand prints a summary for people on standard output; with
+``--out DIR`` it also writes ``result.json`` (with a schema version) and CSV
+tables for programs, and figures when matplotlib is installed.  Errors in the
+input are reported in one line on standard error with exit code 2
+(``--debug`` shows the traceback).  Existing files are never overwritten
+without ``--force``.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import os
+import sys
+import tempfile
+import warnings
+
+import numpy as np
+
+from . import __version__
+from .io import TableError, read_table
+
+SCHEMA_VERSION = 1
+
+__all__ = ["main", "build_parser", "CLIError"]
+
+
+class CLIError(Exception):
+    """A problem with the user's input or options: one line, exit code 2."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message):  # one line, exit 2 (argparse's own convention for the code)
+        self.exit(2, f"{self.prog}: error: {message} (see --help)\n")
+
+
+# --------------------------------------------------------------------------- output
+class Output:
+    """Collects files and writes them at the end, all or nothing."""
+
+    def __init__(self, folder, force):
+        self.folder = folder
+        self.force = force
+        self.files = {}
+
+    def add(self, name, data):
+        self.files[name] = data if isinstance(data, bytes) else data.encode("utf-8")
+
+    def check_free(self, names):
+        """Refuse early when planned outputs exist and --force is not given."""
+        if self.folder is None or self.force:
+            return
+        taken = [n for n in names if os.path.exists(os.path.join(self.folder, n))]
+        if taken:
+            raise CLIError(f"{os.path.join(self.folder, taken[0])} exists; use --force to overwrite")
+
+    def write(self):
+        if self.folder is None or not self.files:
+            return []
+        self.check_free(self.files)
+        if os.path.exists(self.folder) and not os.path.isdir(self.folder):
+            raise CLIError(f"{self.folder} exists and is not a folder")
+        try:
+            os.makedirs(self.folder, exist_ok=True)
+            staged = []
+            for name, data in self.files.items():
+                fd, tmp = tempfile.mkstemp(prefix=".wedgepath-", dir=self.folder)
+                with os.fdopen(fd, "wb") as fh:
+                    fh.write(data)
+                staged.append((tmp, os.path.join(self.folder, name)))
+        except OSError as exc:
+            for tmp, _ in locals().get("staged", []):
+                _silent_remove(tmp)
+            raise CLIError(f"cannot write to {self.folder}: {exc.strerror}") from None
+        for tmp, final in staged:
+            os.replace(tmp, final)
+        return [final for _, final in staged]
+
+
+def _silent_remove(path):
+    try:
+        os.remove(path)
+    except OSError:
+        pass
+
+
+def _matrix_csv(M, names):
+    lines = ["channel," + ",".join(names)]
+    for name, row in zip(names, M):
+        lines.append(name + "," + ",".join(_num(v) for v in row))
+    return "\n".join(lines) + "\n"
+
+
+def _num(v):
+    v = float(v)
+    return "nan" if math.isnan(v) else repr(v)
+
+
+def _jsonable(obj):
+    if isinstance(obj, dict):
+        return {str(k): _jsonable(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_jsonable(v) for v in obj]
+    if isinstance(obj, np.ndarray):
+        return _jsonable(obj.tolist())
+    if isinstance(obj, (np.integer,)):
+        return int(obj)
+    if isinstance(obj, (float, np.floating)):
+        v = float(obj)
+        return None if not math.isfinite(v) else v
+    return obj
+
+
+def _dump_json(payload):
+    return json.dumps(_jsonable(payload), indent=2, allow_nan=False) + "\n"
+
+
+# --------------------------------------------------------------------------- shared options
+def _add_common(p):
+    p.add_argument("--out", metavar="DIR", help="write result.json, CSV tables and figures here")
+    p.add_argument("--force", action="store_true", help="overwrite existing output files")
+    p.add_argument("--json", action="store_true",
+                   help="print the JSON result on standard output instead of the summary")
+    p.add_argument("--no-figures", action="store_true", help="do not draw figures into --out")
+    p.add_argument("--quiet", action="store_true", help="no progress indicator on standard error")
+    p.add_argument("--debug", action="store_true", help="show the full traceback on errors")
+
+
+def _add_table(p):
+    p.add_argument("table", help="CSV, TSV or Parquet file with a header row")
+    p.add_argument("--time", metavar="COL", help="column holding the sample times")
+    p.add_argument("--delimiter", metavar="CHAR", help="force the field delimiter (default: sniffed)")
+
+
+def _positive_int(text):
+    try:
+        v = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+    if v < 1:
+        raise argparse.ArgumentTypeError(f"expected a positive whole number, got {v}")
+    return v
+
+
+def _finite_float(text):
+    try:
+        v = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a number, got {text!r}") from None
+    if not math.isfinite(v):
+        raise argparse.ArgumentTypeError(f"expected a finite number, got {text!r}")
+    return v
+
+
+def build_parser():
+    parser = _Parser(prog="wedgepath",
+                     description="Lead-lag structure and loop areas of recorded signals.")
+    parser.add_argument("--version", action="version", version=f"wedgepath {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    sub.required = True
+
+    ll = sub.add_parser("leadlag", help="which signal leads which (area matrix, cyclic order)",
+                        description="Area matrix A[i, j] = (1/2)∮(x_i dx_j - x_j dx_i) of the "
+                        "channels of a table: A[i, j] > 0 means channel i leads channel j.")
+    _add_table(ll)
+    ll.add_argument("--columns", metavar="A,B,...", help="channels to use (default: all but --time)")
+    ll.add_argument("--closure", default="chord", choices=["chord", "none", "detrend", "require"],
+                    help="how each gap-free piece is closed (default: chord)")
+    ll.add_argument("--normalize", default=None, choices=["hilbert", "zscore", "frobenius"],
+                    help="report a normalised lead strength instead of raw areas")
+    ll.add_argument("--window", type=_positive_int, metavar="N",
+                    help="also compute rolling matrices over windows of N samples")
+    ll.add_argument("--step", type=_positive_int, metavar="M",
+                    help="window step in samples (default: N // 4)")
+    ll.add_argument("--surrogates", type=_positive_int, metavar="K",
+                    help="test every pair against K surrogates (p-values, FDR-adjusted)")
+    ll.add_argument("--surrogate-method", default="shift", choices=["shift", "phase"],
+                    help="circular time shift (default) or Fourier phase randomisation")
+    ll.add_argument("--seed", type=int, default=0, help="random seed for surrogates (default 0)")
+    ll.add_argument("--top", type=_positive_int, default=3,
+                    help="how many leaders and laggers to list (default 3)")
+    _add_common(ll)
+    ll.set_defaults(func=_cmd_leadlag)
+
+    lp = sub.add_parser("loop", help="areas of a loop in one plane (energy per cycle, lobes)",
+                        description="Region quantities of the loop traced by two columns.")
+    _add_table(lp)
+    lp.add_argument("--x", required=True, metavar="COL", help="horizontal channel (e.g. strain)")
+    lp.add_argument("--y", required=True, metavar="COL", help="vertical channel (e.g. stress)")
+    lp.add_argument("--closure", default="chord", choices=["chord", "detrend", "require", "none"],
+                    help="how each gap-free piece is closed (default: chord)")
+    lp.add_argument("--cycles-by", metavar="COL",
+                    help="split into cycles at upward mean crossings of this column (default: --x)")
+    lp.add_argument("--level", type=_finite_float, help="crossing level (default: the mean)")
+    lp.add_argument("--hysteresis", type=_finite_float, default=0.0,
+                    help="dead band against noisy crossings (default 0)")
+    lp.add_argument("--energy", default="y_dx", choices=list(ENERGY_FORMS),
+                    help="per-cycle quantity: y_dx = ∮ y dx (stress over strain, p over V; "
+                    "default) or x_dy = ∮ x dy (H dB with H horizontal)")
+    lp.add_argument("--weight", metavar="FORMULA",
+                    help="also integrate this weight over the region, in x and y, e.g. 'x**2*y'")
+    _add_common(lp)
+    lp.set_defaults(func=_cmd_loop)
+
+    dm = sub.add_parser("demo", help="run both jobs on bundled invented data",
+                        description="Lead-lag of a ring of sensors and the loop of a cyclic "
+                        "load test, both invented, with known answers.")
+    dm.add_argument("--out", metavar="DIR", default=None,
+                    help="write the results and figures here")
+    dm.add_argument("--force", action="store_true", help="overwrite existing output files")
+    dm.add_argument("--no-figures", action="store_true", help="do not draw figures")
+    dm.add_argument("--quiet", action="store_true", help="no progress indicator")
+    dm.add_argument("--debug", action="store_true", help="show the full traceback on errors")
+    dm.set_defaults(func=_cmd_demo, json=False)
+    return parser
+
+
+# --------------------------------------------------------------------------- helpers
+def _load(args, columns=None):
+    return read_table(args.table, columns=columns, time_column=args.time, delimiter=args.delimiter)
+
+
+def _progress_flag(args):
+    return False if args.quiet else None
+
+
+def _want_figures(args):
+    if args.out is None or args.no_figures:
+        return False
+    try:
+        import matplotlib  # noqa: F401
+    except ImportError:
+        print("wedgepath: note: matplotlib is not installed; no figures drawn "
+              "(pip install 'wedgepath[plot]')", file=sys.stderr)
+        return False
+    return True
+
+
+def _emit(args, payload, summary_lines, out: Output):
+    out.add("result.json", _dump_json(payload))
+    written = out.write()
+    if args.json:
+        sys.stdout.write(_dump_json(payload))
+    else:
+        print("\n".join(summary_lines))
+        if written:
+            print(f"\nwrote {len(written)} file(s) to {args.out}: "
+                  + ", ".join(os.path.basename(w) for w in written))
+    return 0
+
+
+def _fmt(v, width=10):
+    if v is None or (isinstance(v, float) and math.isnan(v)):
+        return "nan".rjust(width)
+    return f"{v: .4g}".rjust(width)
+
+
+def _matrix_lines(M, names, indent="  "):
+    w = max(10, max(len(n) for n in names) + 1)
+    lines = [indent + " " * w + "".join(n[:w - 1].rjust(w) for n in names)]
+    for name, row in zip(names, M):
+        lines.append(indent + name[:w - 1].ljust(w) + "".join(_fmt(float(v), w) for v in row))
+    return lines
+
+
+# --------------------------------------------------------------------------- leadlag
+def leadlag_report(values, times, names, *, closure="chord", normalize=None, window=None,
+                   step=None, surrogates=None, surrogate_method="shift", seed=0, top=3,
+                   progress=None):
+    """Compute the lead-lag report as a JSON-ready dict (used by the CLI and the demo)."""
+    from .signals import area_matrix, cyclic_order, rolling_area_matrix, surrogate_test
+
+    n = values.shape[1]
+    if n < 2:
+        raise CLIError(f"lead-lag needs at least 2 channels, got {n}")
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        A = area_matrix(values, times=times, closure=closure, normalize=normalize)
+        raw = A if normalize is None else area_matrix(values, times=times, closure=closure)
+    notes = [str(w.message) for w in caught]
+    Afin = np.nan_to_num(A, nan=0.0)
+    order = cyclic_order(Afin)
+    lead = Afin.sum(axis=1)
+    rank = np.argsort(-lead, kind="stable")
+    k = min(top, n)
+    report = {
+        "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
+        "wedgepath_version": __version__,
+        "channels": list(names),
+        "samples": int(values.shape[0]),
+        "closure": closure,
+        "normalize": normalize,
+        "area_matrix": A,
+        "raw_area_matrix": raw,
+        "cyclic_order": {
+            "order": [names[i] for i in order.order],
+            "phases_rad": {names[i]: float(order.phases[i]) for i in range(n)},
+            "fit": float(order.fit),
+            "moduli": {names[i]: float(order.moduli[i]) for i in range(n)},
+        },
+        "net_lead": {names[i]: float(lead[i]) for i in range(n)},
+        "leaders": [names[i] for i in rank[:k]],
+        "laggers": [names[i] for i in rank[::-1][:k]],
+        "notes": notes,
+    }
+    if window is not None:
+        st = step if step is not None else max(1, window // 4)
+        if window > values.shape[0]:
+            raise CLIError(f"--window {window} is longer than the {values.shape[0]} samples")
+        roll = rolling_area_matrix(values, window, st, times=times, labels=True)
+        report["rolling"] = {
+            "window": window, "step": st,
+            "start_time": roll.start_time, "end_time": roll.end_time,
+            "areas": roll.areas,
+        }
+    if surrogates is not None:
+        a, b = _longest_gap_free(values)
+        if b - a < 4:
+            raise CLIError("significance needs a gap-free stretch of at least 4 samples")
+        if (a, b) != (0, values.shape[0]):
+            report["notes"].append(
+                f"surrogate significance uses the longest gap-free stretch, rows {a + 1}-{b} "
+                f"of {values.shape[0]}")
+        res = surrogate_test(values[a:b], method=surrogate_method, n_surrogates=surrogates,
+                             seed=seed, times=None if times is None else times[a:b],
+                             progress=progress)
+        report["significance"] = {
+            "rows": [a, b],
+            "method": surrogate_method, "n_surrogates": surrogates, "seed": seed,
+            "pvalues": res.pvalues, "qvalues": res.qvalues,
+            "significant_pairs": [[names[i], names[j]] for i in range(n) for j in range(n)
+                                  if i < j and res.significant()[i, j]],
+        }
+    return report
+
+
+def _longest_gap_free(values):
+    """Row range [a, b) of the longest run without NaN."""
+    good = ~np.isnan(values).any(axis=1)
+    edges = np.flatnonzero(np.diff(np.concatenate(([0], good.view(np.int8), [0]))))
+    if edges.size == 0:
+        return 0, 0
+    starts, stops = edges[0::2], edges[1::2]
+    k = int(np.argmax(stops - starts))
+    return int(starts[k]), int(stops[k])
+
+
+def leadlag_summary(rep):
+    names = rep["channels"]
+    what = "lead strength (" + rep["normalize"] + ")" if rep["normalize"] else "area matrix"
+    lines = [f"{len(names)} channels, {rep['samples']} samples, closure={rep['closure']}",
+             f"\n{what}: A[i, j] > 0 means row i leads column j"]
+    lines += _matrix_lines(np.asarray(rep["area_matrix"], dtype=float), names)
+    co = rep["cyclic_order"]
+    if len(names) == 2:
+        A = np.asarray(rep["area_matrix"], dtype=float)
+        a, b = (0, 1) if A[0, 1] >= 0 else (1, 0)
+        lines.append(f"\n{names[a]} leads {names[b]} (A = {abs(A[0, 1]):.6g})")
+    else:
+        lines.append("\ncyclic order (each leads the next): " + " -> ".join(co["order"])
+                     + f" -> {co['order'][0]}")
+        lines.append("phases behind " + co["order"][0] + " (deg): " + ", ".join(
+            f"{nm} {math.degrees(co['phases_rad'][nm]):.0f}" for nm in co["order"]))
+        fit = co["fit"]
+        verdict = ("one cycle explains the pattern well" if fit >= 0.8 else
+                   "one cycle explains part of the pattern" if fit >= 0.5 else
+                   "one cycle explains little: treat the order with caution")
+        lines.append(f"fit {fit:.3f} ({verdict})")
+        lines.append("strongest leaders: " + ", ".join(rep["leaders"]))
+        lines.append("strongest laggers: " + ", ".join(rep["laggers"]))
+    if "rolling" in rep:
+        r = rep["rolling"]
+        lines.append(f"\nrolling windows: {len(r['start_time'])} windows of {r['window']} samples, "
+                     f"step {r['step']}")
+    if "significance" in rep:
+        s = rep["significance"]
+        pairs = s["significant_pairs"]
+        lines.append(f"\nsignificance ({s['method']} surrogates, {s['n_surrogates']}, seed "
+                     f"{s['seed']}): {len(pairs)} pair(s) at 5% false discovery rate")
+        for a, b in pairs[:10]:
+            i, j = names.index(a), names.index(b)
+            lines.append(f"  {a} / {b}: q = {s['qvalues'][i][j]:.3g}")
+    for note in rep["notes"]:
+        lines.append("note: " + note)
+    return lines
+
+
+def _cmd_leadlag(args):
+    out = Output(args.out, args.force)
+    planned = ["result.json", "area_matrix.csv"]
+    if args.window:
+        planned.append("rolling.csv")
+    if args.surrogates:
+        planned.append("pvalues.csv")
+    out.check_free(planned)
+    if args.step is not None and args.window is None:
+        raise CLIError("--step needs --window")
+    tab = _load(args, args.columns)
+    rep = leadlag_report(tab.values, tab.times, tab.names, closure=args.closure,
+                         normalize=args.normalize, window=args.window, step=args.step,
+                         surrogates=args.surrogates, surrogate_method=args.surrogate_method,
+                         seed=args.seed, top=args.top, progress=_progress_flag(args))
+    rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
+    out.add("area_matrix.csv", _matrix_csv(rep["area_matrix"], tab.names))
+    if "rolling" in rep:
+        out.add("rolling.csv", _rolling_csv(rep["rolling"], tab.names))
+    if "significance" in rep:
+        out.add("pvalues.csv", _matrix_csv(rep["significance"]["qvalues"], tab.names))
+    if _want_figures(args):
+        from . import plotting
+        out_figs = plotting.leadlag_figures(rep)
+        for name, png in out_figs.items():
+            out.add(name, png)
+    return _emit(args, rep, leadlag_summary(rep), out)
+
+
+def _rolling_csv(r, names):
+    pairs = [(i, j) for i in range(len(names)) for j in range(len(names)) if i < j]
+    head = "start_time,end_time," + ",".join(f"{names[i]}|{names[j]}" for i, j in pairs)
+    lines = [head]
+    areas = np.asarray(r["areas"])
+    for k in range(areas.shape[0]):
+        vals = ",".join(_num(areas[k, i, j]) for i, j in pairs)
+        lines.append(f"{_num(r['start_time'][k])},{_num(r['end_time'][k])},{vals}")
+    return "\n".join(lines) + "\n"
+
+
+# --------------------------------------------------------------------------- loop
+ENERGY_FORMS = ("y_dx", "x_dy")
+
+
+def loop_report(xy, times, names, *, closure="chord", reference=None, reference_name=None,
+                level=None, hysteresis=0.0, energy="y_dx", weight=None):
+    """Compute the loop report of the planar curve ``xy`` (T, 2) as a JSON-ready dict.
+
+    ``energy`` chooses the per-cycle quantity: ``"y_dx"`` is ∮ y dx (work of
+    stress over strain with x = strain, y = stress; of pressure over volume
+    with x = V, y = p), ``"x_dy"`` is ∮ x dy (e.g. H dB with x = H, y = B).
+    They differ only in sign: ∮ x dy = -∮ y dx = the signed area.
+    ``reference`` (T,) is the channel whose upward crossings cut cycles
+    (default: x).
+    """
+    import sympy as sp
+
+    from .calculus import Path
+    from .planar import decompose, region_integral, region_moments, signed_area
+    from .signals import cycle_areas
+
+    if energy not in ENERGY_FORMS:
+        raise CLIError(f"unknown energy form {energy!r}; choose one of {', '.join(ENERGY_FORMS)}")
+    path = Path(xy, times=times, names=names)
+    sa = signed_area(path, closure=closure)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        dec = decompose(path, closure=closure)
+        mom = region_moments(path, closure=closure)
+    centroid = getattr(mom, "centroid", None)
+    rep = {
+        "schema": f"wedgepath.loop/{SCHEMA_VERSION}",
+        "wedgepath_version": __version__,
+        "x": names[0], "y": names[1],
+        "samples": int(xy.shape[0]),
+        "closure": closure,
+        "signed_area": float(sa),
+        "absolute_area": float(dec.absolute_area),
+        "area_by_winding": {str(k): float(v) for k, v in sorted(dec.area_by_winding.items())},
+        "faces": int(len(dec.faces)),
+        "lobes": [{"sign": lb.sign, "signed_area": lb.signed_area, "area": lb.area,
+                   "faces": lb.n_faces} for lb in dec.lobes],
+        "mixed_signs": bool(dec.mixed_signs),
+        "cancellation": float(dec.cancellation),
+        "centroid": None if centroid is None else [float(c) for c in centroid],
+        "notes": [str(w.message) for w in caught],
+    }
+    data = xy if reference is None else np.column_stack([xy, reference])
+    ref_col = 0 if reference is None else 2
+    # A[i, j] = ∮ x_i dx_j on each closed cycle: y dx is A[1, 0], x dy is A[0, 1]
+    i, j = (1, 0) if energy == "y_dx" else (0, 1)
+    cyc = cycle_areas(data, i, j, reference=ref_col, level=level, hysteresis=hysteresis,
+                      times=times)
+    rep["cycles"] = {
+        "reference": reference_name or names[0],
+        "quantity": "integral of y dx per cycle" if energy == "y_dx" else "integral of x dy per cycle",
+        "count": int(cyc.count),
+        "values": cyc.areas,
+        "start": cyc.start_times if cyc.start_times is not None else cyc.starts,
+        "stop": cyc.stop_times if cyc.stop_times is not None else cyc.stops,
+        "mean": float(cyc.mean), "std": float(cyc.std),
+    }
+    if weight is not None:
+        from .formula import parse_formula
+        x, y = sp.symbols("x y", real=True)
+        expr = parse_formula(weight, {"x": x, "y": y})
+        r = region_integral(expr, path, closure=closure, symbols=(x, y))
+        rep["weighted_integral"] = {"formula": weight, "value": float(r), "error": r.error,
+                                    "exact": r.exact, "method": r.method}
+    return rep
+
+
+def loop_summary(rep):
+    lines = [f"loop of {rep['y']} (vertical) against {rep['x']} (horizontal), "
+             f"{rep['samples']} samples, closure={rep['closure']}",
+             f"\nsigned area (counter-clockwise > 0): {rep['signed_area']:.6g}",
+             f"absolute area (|winding| weighted):  {rep['absolute_area']:.6g}",
+             f"faces: {rep['faces']}, lobes: {len(rep['lobes'])}"]
+    if rep["area_by_winding"]:
+        lines.append("area by winding number: " + ", ".join(
+            f"{k}: {v:.4g}" for k, v in rep["area_by_winding"].items()))
+    for k, lb in enumerate(rep["lobes"][:6]):
+        lines.append(f"  lobe {k + 1}: {'counter-clockwise' if lb['sign'] > 0 else 'clockwise'}, "
+                     f"signed area {lb['signed_area']:.4g} over {lb['faces']} face(s)")
+    if rep["mixed_signs"] and rep["cancellation"] >= 0.01:
+        lines.append(f"warning: lobes of opposite sign cancel ({100 * rep['cancellation']:.0f}% of "
+                     "the absolute area); the net area alone hides them")
+    elif rep["mixed_signs"]:
+        lines.append(f"note: small lobes of opposite sign ({100 * rep['cancellation']:.2g}% of the "
+                     "absolute area), typically made by noise where the curve crosses itself")
+    c = rep["cycles"]
+    lines.append(f"\ncycles (upward crossings of {c['reference']}): {c['count']} complete")
+    if c["count"]:
+        lines.append(f"{c['quantity']}: mean {c['mean']:.6g}, spread (std) {c['std']:.3g}")
+    if "weighted_integral" in rep:
+        w = rep["weighted_integral"]
+        how = "exact" if w["exact"] else f"error estimate {w['error']:.2g}"
+        lines.append(f"\nregion integral of {w['formula']}: {w['value']:.8g} ({how})")
+    for note in rep["notes"]:
+        lines.append("note: " + note)
+    return lines
+
+
+def _cmd_loop(args):
+    out = Output(args.out, args.force)
+    out.check_free(["result.json", "cycles.csv"])
+    cols = [args.x, args.y]
+    if args.x == args.y:
+        raise CLIError("--x and --y name the same column")
+    extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
+    tab = _load(args, cols + ([extra] if extra else []))
+    xy = tab.values[:, :2]
+    if args.cycles_by == args.y:
+        reference = tab.values[:, 1]
+    elif extra:
+        reference = tab.values[:, 2]
+    else:
+        reference = None
+    rep = loop_report(xy, tab.times, cols, closure=args.closure, reference=reference,
+                      reference_name=args.cycles_by, level=args.level, hysteresis=args.hysteresis,
+                      energy=args.energy, weight=args.weight)
+    rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
+    c = rep["cycles"]
+    out.add("cycles.csv", "cycle,start,stop,value\n" + "".join(
+        f"{k + 1},{_num(a)},{_num(b)},{_num(v)}\n"
+        for k, (a, b, v) in enumerate(zip(c["start"], c["stop"], c["values"]))))
+    if _want_figures(args):
+        from . import plotting
+        for name, png in plotting.loop_figures(xy, cols, rep, closure=args.closure).items():
+            out.add(name, png)
+    return _emit(args, rep, loop_summary(rep), out)
+
+
+# --------------------------------------------------------------------------- demo
+def _cmd_demo(args):
+    from . import demo
+    return demo.run(out=args.out, force=args.force, figures=not args.no_figures,
+                    quiet=args.quiet)
+
+
+# --------------------------------------------------------------------------- main
+def main(argv=None) -> int:
+    """Run the command line; returns the exit code."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    try:
+        return int(args.func(args) or 0)
+    except KeyboardInterrupt:
+        print("wedgepath: interrupted", file=sys.stderr)
+        return 130
+    except (CLIError, TableError, ValueError, TypeError, KeyError) as exc:
+        if args.debug:
+            raise
+        msg = str(exc).strip().splitlines()[0] if str(exc).strip() else type(exc).__name__
+        print(f"wedgepath: error: {msg}", file=sys.stderr)
+        return 2
+    except OSError as exc:
+        if args.debug:
+            raise
+        print(f"wedgepath: error: {exc.strerror or exc}"
+              + (f": {exc.filename}" if exc.filename else ""), file=sys.stderr)
+        return 2
+    except Exception as exc:  # a bug, not bad input: say so in one line
+        if args.debug:
+            raise
+        print(f"wedgepath: internal error: {type(exc).__name__}: {exc} "
+              "(rerun with --debug and report it)", file=sys.stderr)
+        return 1
+
+
+if __name__ == "__main__":
+    sys.exit(main())
