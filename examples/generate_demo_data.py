@@ -95,7 +95,12 @@ def load_test(rng):
            fmt="{:.10g}")
 
 
-def main():
+def main(argv=None):
+    global DATA
+    import argparse
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--out", default=str(DATA), help="folder to write into (default: the package data)")
+    DATA = Path(ap.parse_args(argv).out)
     DATA.mkdir(parents=True, exist_ok=True)
     rng = np.random.default_rng(20261202)
     gantry(rng)

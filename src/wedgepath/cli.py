@@ -586,7 +586,10 @@ def _cmd_demo(args):
 def main(argv=None) -> int:
     """Run the command line; returns the exit code."""
     parser = build_parser()
-    args = parser.parse_args(argv)
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:  # --help, --version, or a usage error already printed
+        return int(exc.code or 0)
     try:
         return int(args.func(args) or 0)
     except KeyboardInterrupt:

@@ -1,0 +1,196 @@
+"""End-to-end tests of the command line on generated files."""
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+import wedgepath as wp
+from wedgepath.cli import main
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def write_csv(path, header, rows):
+    with open(path, "w") as fh:
+        fh.write(",".join(header) + "\n")
+        for r in rows:
+            fh.write(",".join("" if (isinstance(v, float) and np.isnan(v)) else repr(float(v))
+                              for v in r) + "\n")
+    return path
+
+
+@pytest.fixture
+def three_signals(tmp_path):
+    rng = np.random.default_rng(0)
+    t = np.cumsum(rng.uniform(0.5, 1.5, 400)) * 0.01
+    X = np.c_[np.sin(2 * np.pi * t), np.sin(2 * np.pi * t - 1.0), np.sin(2 * np.pi * t - 2.0)]
+    X += 0.05 * rng.normal(size=X.shape)
+    f = write_csv(tmp_path / "sig.csv", ["t", "a", "b", "c"], np.c_[t, X])
+    return f, t, X
+
+
+def run(argv, capsys):
+    code = main([str(a) for a in argv])
+    cap = capsys.readouterr()
+    return code, cap.out, cap.err
+
+
+class TestLeadlag:
+    def test_json_matches_library(self, three_signals, tmp_path, capsys):
+        f, t, X = three_signals
+        out = tmp_path / "out"
+        code, stdout, err = run(["leadlag", f, "--time", "t", "--out", out, "--quiet",
+                                 "--no-figures"], capsys)
+        assert code == 0, err
+        rep = json.loads((out / "result.json").read_text())
+        assert rep["schema"] == "wedgepath.leadlag/1"
+        A = wp.area_matrix(X, times=t)
+        np.testing.assert_allclose(rep["area_matrix"], A, rtol=1e-12, atol=1e-12)
+        co = wp.cyclic_order(A)
+        assert rep["cyclic_order"]["order"] == [["a", "b", "c"][k] for k in co.order]
+        assert rep["cyclic_order"]["fit"] == pytest.approx(co.fit)
+        csv = np.genfromtxt(out / "area_matrix.csv", delimiter=",", skip_header=1)[:, 1:]
+        np.testing.assert_allclose(csv, A, rtol=1e-15)
+        assert "a -> b -> c -> a" in stdout
+
+    def test_rolling_and_significance(self, three_signals, tmp_path, capsys):
+        f, t, X = three_signals
+        code, stdout, err = run(["leadlag", f, "--time", "t", "--window", 100, "--step", 50,
+                                 "--surrogates", 19, "--seed", 3, "--json", "--quiet"], capsys)
+        assert code == 0, err
+        rep = json.loads(stdout)
+        R = wp.rolling_area_matrix(X, 100, 50, times=t)
+        np.testing.assert_allclose(rep["rolling"]["areas"], np.asarray(R), rtol=1e-10, atol=1e-12)
+        S = wp.surrogate_test(X, n_surrogates=19, seed=3, times=t)
+        got = np.array(rep["significance"]["pvalues"], dtype=float)  # JSON null -> NaN
+        np.testing.assert_allclose(np.nan_to_num(got, nan=-1.0), np.nan_to_num(S.pvalues, nan=-1.0))
+
+    def test_columns_and_normalize(self, three_signals, capsys):
+        f, t, X = three_signals
+        code, stdout, _ = run(["leadlag", f, "--time", "t", "--columns", "c,a",
+                               "--normalize", "zscore", "--json"], capsys)
+        rep = json.loads(stdout)
+        assert rep["channels"] == ["c", "a"]
+        np.testing.assert_allclose(rep["area_matrix"],
+                                   wp.area_matrix(X[:, [2, 0]], times=t, normalize="zscore"),
+                                   rtol=1e-12)
+
+    def test_figures_are_pngs(self, three_signals, tmp_path, capsys):
+        pytest.importorskip("matplotlib")
+        f, _, _ = three_signals
+        out = tmp_path / "figs"
+        code, _, err = run(["leadlag", f, "--time", "t", "--window", 100, "--out", out], capsys)
+        assert code == 0, err
+        for name in ("lead_matrix.png", "phases.png", "rolling_lead.png"):
+            assert (out / name).read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+class TestLoop:
+    def test_loop_matches_library(self, tmp_path, capsys):
+        # a figure-eight traced twice: two lobes of opposite sign
+        s = np.linspace(0, 4 * np.pi, 801)
+        xy = np.c_[np.sin(s), np.sin(s) * np.cos(s)]
+        f = write_csv(tmp_path / "eight.csv", ["x", "y"], xy)
+        code, stdout, err = run(["loop", f, "--x", "x", "--y", "y", "--weight", "x**2",
+                                 "--json"], capsys)
+        assert code == 0, err
+        rep = json.loads(stdout)
+        assert rep["signed_area"] == pytest.approx(wp.signed_area(xy), abs=1e-12)
+        dec = wp.decompose(xy)
+        assert rep["absolute_area"] == pytest.approx(dec.absolute_area, rel=1e-12)
+        assert rep["mixed_signs"] is True and len(rep["lobes"]) == 2
+        import sympy as sp
+        x, y = sp.symbols("x y", real=True)
+        ref = wp.region_integral(x**2, xy, symbols=(x, y))
+        assert rep["weighted_integral"]["value"] == pytest.approx(float(ref), rel=1e-12)
+        assert rep["weighted_integral"]["exact"] is True
+
+    def test_energy_per_cycle(self, tmp_path, capsys):
+        # stress = E e + eta de/dt: the energy per cycle is pi eta omega e0^2 for the
+        # continuous loop (Kelvin-Voigt solid; common practice, no source).  Sampled at N
+        # points per cycle the polygon holds (N / (2 pi)) sin(2 pi / N) of that (inscribed
+        # polygon of an ellipse).
+        N, cycles, e0, E, eta, omega = 100, 5, 0.01, 3.0, 0.2, 2.0
+        t = np.arange(N * cycles + 1) * (2 * np.pi / omega) / N
+        e = e0 * np.sin(omega * t)
+        sig = E * e + eta * e0 * omega * np.cos(omega * t)
+        f = write_csv(tmp_path / "load.csv", ["t", "strain", "stress"], np.c_[t, e, sig])
+        code, stdout, err = run(["loop", f, "--time", "t", "--x", "strain", "--y", "stress",
+                                 "--cycles-by", "stress", "--json"], capsys)
+        assert code == 0, err
+        rep = json.loads(stdout)
+        expect = np.pi * eta * omega * e0**2 * (N / (2 * np.pi)) * np.sin(2 * np.pi / N)
+        assert rep["cycles"]["count"] >= cycles - 1
+        assert rep["cycles"]["mean"] == pytest.approx(expect, rel=1e-3)
+
+
+class TestBadInput:
+    @pytest.mark.parametrize("argv, words", [
+        (["leadlag", "missing.csv"], "no such file"),
+        (["leadlag", "{f}", "--columns", "a,zz"], "unknown column 'zz'"),
+        (["leadlag", "{f}", "--time", "when"], "unknown time column"),
+        (["leadlag", "{f}", "--step", "3"], "--step needs --window"),
+        (["leadlag", "{f}", "--window", "0"], "positive whole number"),
+        (["leadlag", "{f}", "--closure", "loop"], "invalid choice"),
+        (["leadlag", "{f}", "--columns", "a"], "at least 2 channels"),
+        (["loop", "{f}", "--x", "a", "--y", "a"], "same column"),
+        (["loop", "{f}", "--x", "a", "--y", "b", "--weight", "__import__('os')"], "unknown function"),
+        (["loop", "{f}", "--x", "a", "--y", "b", "--weight", "q*x"], "unknown name 'q'"),
+        (["loop", "{f}", "--x", "a", "--y", "b", "--closure", "none"], "closure"),
+        (["leadlag", "{bad}"], "non-numeric"),
+        (["leadlag", "{empty}"], "empty"),
+        (["leadlag", "{short}"], "at least 2"),
+        (["frobnicate"], "invalid choice"),
+    ])
+    def test_one_line_exit_2(self, argv, words, tmp_path, capsys):
+        f = write_csv(tmp_path / "ok.csv", ["a", "b", "c"], np.random.default_rng(1).normal(size=(20, 3)))
+        (tmp_path / "bad.csv").write_text("a,b\n1,2\n3,oops\n")
+        (tmp_path / "empty.csv").write_text("")
+        (tmp_path / "short.csv").write_text("a,b\n1,2\n")
+        argv = [a.format(f=f, bad=tmp_path / "bad.csv", empty=tmp_path / "empty.csv",
+                         short=tmp_path / "short.csv") for a in argv]
+        code, out, err = run(argv, capsys)
+        assert code == 2
+        assert len(err.strip().splitlines()) == 1, err
+        assert words in err
+        assert "Traceback" not in err
+
+    def test_help_and_version_exit_0(self, capsys):
+        assert main(["--version"]) == 0
+        assert "wedgepath" in capsys.readouterr().out
+        assert main(["leadlag", "--help"]) == 0
+
+    def test_no_overwrite_without_force(self, three_signals, tmp_path, capsys):
+        f, _, _ = three_signals
+        out = tmp_path / "o"
+        out.mkdir()
+        (out / "result.json").write_text("keep me")
+        code, _, err = run(["leadlag", f, "--time", "t", "--out", out, "--no-figures"], capsys)
+        assert code == 2 and "--force" in err
+        assert (out / "result.json").read_text() == "keep me"
+        assert sorted(p.name for p in out.iterdir()) == ["result.json"]
+        code, _, _ = run(["leadlag", f, "--time", "t", "--out", out, "--no-figures", "--force"], capsys)
+        assert code == 0 and (out / "result.json").read_text() != "keep me"
+
+
+def test_python_dash_m_and_demo(tmp_path):
+    out = tmp_path / "demo"
+    proc = subprocess.run([sys.executable, "-m", "wedgepath", "demo", "--out", str(out),
+                           "--quiet", "--no-figures"], capture_output=True, text=True, timeout=600)
+    assert proc.returncode == 0, proc.stdout + proc.stderr
+    assert "cyclic order recovered" in proc.stdout
+    assert "all checks passed" in proc.stdout
+    rep = json.loads((out / "loop.json").read_text())
+    assert rep["schema"] == "wedgepath.loop/1"
+
+
+def test_bundled_demo_data_regenerates_identically(tmp_path):
+    proc = subprocess.run([sys.executable, str(ROOT / "examples" / "generate_demo_data.py"),
+                           "--out", str(tmp_path)], capture_output=True, text=True, timeout=300)
+    assert proc.returncode == 0, proc.stderr
+    for name in ("gantry_loop.csv", "ring_sensors.csv", "load_test.csv"):
+        assert (tmp_path / name).read_bytes() == (ROOT / "src" / "wedgepath" / "data" / name).read_bytes()
