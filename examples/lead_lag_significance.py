@@ -1,0 +1,66 @@
+"""Lead and lag across many signals, with significance: ``python examples/lead_lag_significance.py``.
+
+Invented scenario: six stations along a made-up irrigation canal record the
+water level as a gate wave travels downstream; each station sees the wave a
+little later than the one before (a chain of offsets), plus local noise.
+Two more channels are unrelated noise.  The script recovers the order of the
+stations, tests every pair against surrogates, and puts confidence intervals
+on the strongest lead.
+"""
+
+import numpy as np
+
+import wedgepath as wp
+
+from _common import figure_path, have_matplotlib
+
+
+def make_data(rng, T=4000):
+    t = np.arange(T) * 0.05
+    omegas = rng.uniform(0.8, 1.2, 30)
+    amps = rng.rayleigh(1.0, 30) / np.sqrt(30)
+    theta = rng.uniform(0, 2 * np.pi, 30)
+    stations = [f"station_{k + 1}" for k in range(6)]
+    cols = [(amps * np.sin(np.outer(t, omegas) + theta - 0.5 * k)).sum(axis=1) for k in range(6)]
+    X = np.column_stack(cols + [rng.normal(size=T), rng.normal(size=T)])
+    X += 0.2 * rng.normal(size=X.shape)
+    return t, X, stations + ["noise_a", "noise_b"]
+
+
+def main():
+    rng = np.random.default_rng(7)
+    t, X, names = make_data(rng)
+    A = wp.area_matrix(X, times=t, names=names, labels=True)
+    order = wp.cyclic_order(A.values[:6, :6])
+    print("order of the stations (each leads the next):",
+          " -> ".join(names[k] for k in order.order), f"(fit {order.fit:.3f})")
+    print("note: a chain of offsets is cyclic only up to the wrap from the last station to the first")
+
+    sig = wp.surrogate_test(X, method="phase", n_surrogates=199, seed=11, progress=False)
+    print("\npairs significant at 5% false discovery rate (phase-randomised surrogates):")
+    for i in range(len(names)):
+        for j in range(i + 1, len(names)):
+            if sig.significant()[i, j]:
+                print(f"  {names[i]:>10} / {names[j]:<10} A = {A.values[i, j]: 8.2f}  q = {sig.qvalues[i, j]:.3f}")
+    noisy = [k for k, nm in enumerate(names) if nm.startswith("noise")]
+    flagged = [(i, j) for i in noisy for j in range(len(names)) if i != j and sig.significant()[i, j]]
+    print(f"pairs involving the unrelated channels flagged: {len(flagged)} "
+          "(a 5% false discovery rate allows a few false positives)")
+
+    boot = wp.bootstrap_area(X[:, :2], n_boot=499, seed=3)
+    print(f"\nA[station_1, station_2] = {boot.estimate[0, 1]:.2f}, 95% block-bootstrap interval "
+          f"[{boot.low[0, 1]:.2f}, {boot.high[0, 1]:.2f}] (block {boot.block} samples)")
+
+    if have_matplotlib():
+        import matplotlib.pyplot as plt
+        from wedgepath import plotting
+        fig, ax = plt.subplots(figsize=(7, 6), dpi=100)
+        full = wp.cyclic_order(A.values)
+        plotting.lead_heatmap(A.values, names, full.order, ax=ax, title="Canal stations: lead matrix")
+        fig.tight_layout()
+        fig.savefig(figure_path("lead_lag_significance.png"))
+        print(f"figure: {figure_path('lead_lag_significance.png')}")
+
+
+if __name__ == "__main__":
+    main()
