@@ -8,7 +8,8 @@ conventions (orientation, closure, curve model, gaps).
 """
 
 from .calculus import (CLOSURES, Chain, Form, Integral, IntegrationWarning, OneForm, Path,
-                       TwoForm, ZeroChain, ZeroForm, dx, integrate)
+                       SimplicialChain, SimplicialComplex, TwoForm, WhitneyForm, ZeroChain,
+                       ZeroForm, cone, dx, integrate)
 
 from . import planar, signals
 from .planar import *  # noqa: F401,F403  (names listed in planar.__all__)
@@ -18,4 +19,5 @@ __version__ = "0.1.0.dev0"
 
 __all__ = ["Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm", "TwoForm", "dx",
            "integrate", "Integral", "IntegrationWarning", "CLOSURES", "__version__",
+           "SimplicialChain", "SimplicialComplex", "WhitneyForm", "cone",
            *planar.__all__, *signals.__all__]

@@ -1,0 +1,183 @@
+"""Quadrature rules on simplices.
+
+Rules are given in barycentric coordinates on the standard k-simplex
+``{u_j >= 0, sum u_j <= 1}`` (volume ``1/k!``): a rule is a pair ``(bary,
+weights)`` with ``bary`` of shape ``(q, k + 1)`` (each row sums to 1) and
+``weights`` of shape ``(q,)`` summing to ``1/k!``.  On an affine simplex with
+vertices ``v_0 .. v_k`` the nodes are ``bary @ V`` and the weights are scaled
+by ``k!`` times the simplex's k-volume (or, for forms, by the determinant of
+the pull-back, see :mod:`wedgepath.calculus.simplicial`).
+
+``grundmann_moller(k, s)``
+    The Grundmann-Möller rule of index ``s``, exact for polynomials of total
+    degree ``2 s + 1`` on a k-simplex of any dimension (A. Grundmann and
+    H. M. Möller, "Invariant integration formulas for the n-simplex by
+    combinatorial methods", SIAM J. Numer. Anal. 15 (1978) 282-290).  Its
+    weights alternate in sign for ``s >= 1``, so for high ``s`` some
+    cancellation costs a few digits; up to degree ~20 the loss is below
+    1e-13 relative.
+``simplex_rule(k, degree)``
+    The rule used by the library to integrate a polynomial of ``degree``
+    exactly: a single point for k = 0, Gauss-Legendre for k = 1 (positive
+    weights, fewest points), Grundmann-Möller for k >= 2.
+
+Examples
+--------
+>>> from wedgepath.calculus.simplex_quadrature import grundmann_moller
+>>> bary, w = grundmann_moller(2, 1)          # degree 3 on a triangle
+>>> bary.shape, float(w.sum())                # weights sum to the area 1/2
+((4, 3), 0.5)
+"""
+
+from __future__ import annotations
+
+from fractions import Fraction
+from functools import lru_cache
+from math import ceil, factorial
+
+import numpy as np
+
+from .quadrature import gauss_legendre, points_needed
+
+__all__ = ["grundmann_moller", "simplex_rule", "gm_index_for_degree"]
+
+
+def _compositions(total: int, parts: int):
+    """All tuples of ``parts`` non-negative integers summing to ``total``."""
+    if parts == 1:
+        yield (total,)
+        return
+    for first in range(total, -1, -1):
+        for rest in _compositions(total - first, parts - 1):
+            yield (first,) + rest
+
+
+def _check_nonneg_int(value, name):
+    if isinstance(value, (bool, np.bool_)) or not isinstance(value, (int, np.integer)):
+        raise TypeError(f"{name} must be an integer, got {value!r}")
+    if value < 0:
+        raise ValueError(f"{name} must be >= 0, got {value}")
+    return int(value)
+
+
+@lru_cache(maxsize=128)
+def _gm(k: int, s: int):
+    d = 2 * s + 1
+    rows, weights = [], []
+    for i in range(s + 1):
+        denom = d + k - 2 * i
+        w = Fraction((-1) ** i * denom ** d, 2 ** (2 * s) * factorial(i) * factorial(d + k - i))
+        for beta in _compositions(s - i, k + 1):
+            rows.append([Fraction(2 * b + 1, denom) for b in beta])
+            weights.append(w)
+    bary = np.array([[float(x) for x in r] for r in rows], dtype=np.float64)
+    wts = np.array([float(w) for w in weights], dtype=np.float64)
+    bary.flags.writeable = False
+    wts.flags.writeable = False
+    return bary, wts
+
+
+def grundmann_moller(k, s):
+    """The Grundmann-Möller rule of index ``s`` on the standard k-simplex.
+
+    Exact for polynomials of total degree ``2 s + 1``.  Weights are computed
+    in exact rational arithmetic and rounded once to float64.
+
+    Parameters
+    ----------
+    k : int
+        Dimension of the simplex (k >= 1; k = 0 gives the single point).
+    s : int
+        Index of the rule (s >= 0); degree ``2 s + 1``.
+
+    Returns
+    -------
+    bary : ndarray, shape (q, k + 1)
+        Barycentric coordinates of the nodes (read-only).
+    weights : ndarray, shape (q,)
+        Weights for the standard simplex (sum ``1/k!``; read-only).
+
+    Examples
+    --------
+    >>> from wedgepath.calculus.simplex_quadrature import grundmann_moller
+    >>> bary, w = grundmann_moller(2, 0)          # the centroid rule
+    >>> bary.round(4).tolist(), w.tolist()
+    ([[0.3333, 0.3333, 0.3333]], [0.5])
+    >>> grundmann_moller(3, 2)[0].shape           # degree 5 on a tetrahedron
+    (15, 4)
+    """
+    k = _check_nonneg_int(k, "simplex dimension k")
+    s = _check_nonneg_int(s, "rule index s")
+    if k == 0:
+        return _point_rule()
+    return _gm(k, s)
+
+
+@lru_cache(maxsize=1)
+def _point_rule():
+    bary = np.ones((1, 1))
+    w = np.ones(1)
+    bary.flags.writeable = False
+    w.flags.writeable = False
+    return bary, w
+
+
+@lru_cache(maxsize=128)
+def _gl_bary(m: int):
+    x, w = gauss_legendre(m)
+    bary = np.column_stack([1.0 - x, x])
+    bary.flags.writeable = False
+    w = np.array(w)
+    w.flags.writeable = False
+    return bary, w
+
+
+def gm_index_for_degree(degree: int) -> int:
+    """Smallest Grundmann-Möller index ``s`` with ``2 s + 1 >= degree``.
+
+    Examples
+    --------
+    >>> from wedgepath.calculus.simplex_quadrature import gm_index_for_degree
+    >>> [gm_index_for_degree(d) for d in range(6)]
+    [0, 0, 1, 1, 2, 2]
+    """
+    degree = _check_nonneg_int(degree, "degree")
+    return max(0, ceil((degree - 1) / 2))
+
+
+def simplex_rule(k, degree):
+    """A rule on the standard k-simplex exact for polynomials of ``degree``.
+
+    k = 0: the point itself; k = 1: Gauss-Legendre with ``ceil((degree+1)/2)``
+    points; k >= 2: Grundmann-Möller of index ``ceil((degree-1)/2)``.
+
+    Returns
+    -------
+    bary : ndarray, shape (q, k + 1)
+    weights : ndarray, shape (q,), summing to ``1/k!``
+
+    Examples
+    --------
+    >>> from wedgepath.calculus.simplex_quadrature import simplex_rule
+    >>> simplex_rule(1, 3)[0].shape, simplex_rule(2, 3)[0].shape
+    ((2, 2), (4, 3))
+    """
+    k = _check_nonneg_int(k, "simplex dimension k")
+    degree = _check_nonneg_int(degree, "degree")
+    if k == 0:
+        return _point_rule()
+    if k == 1:
+        return _gl_bary(points_needed(degree))
+    return _gm(k, gm_index_for_degree(degree))
+
+
+def rule_pair(k: int, order: int):
+    """Two rules of consecutive precision for error estimation (internal).
+
+    k = 1: Gauss-Legendre with ``order`` and ``order + 1`` points; k >= 2:
+    Grundmann-Möller of indices ``order - 1`` and ``order`` -- degrees
+    ``2 order - 1`` and ``2 order + 1`` in both cases.
+    """
+    if k == 1:
+        return _gl_bary(order), _gl_bary(order + 1)
+    return _gm(k, order - 1), _gm(k, order)
