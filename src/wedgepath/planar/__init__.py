@@ -1,3 +1,24 @@
-"""Planar regions of loops: signed area, winding numbers, Green region integrals, decomposition."""
+"""Planar regions of loops: signed area, winding numbers, Green region integrals, decomposition.
 
-__all__ = []
+Every function here takes a planar curve: a 2-channel :class:`~wedgepath.Path`
+or a ``(T, 2)`` array (for an n-channel path, select a coordinate plane with
+``path.plane(i, j)``).  Conventions shared by all of them:
+
+* Orientation: counter-clockwise travel is positive; region quantities are
+  integrals weighted by the winding number ``w(x, y)``.
+* Closure: region quantities close each open piece with ``closure="chord"``
+  by default; ``closure="none"`` refuses open pieces with a clear error.
+* Gaps: NaN rows split a path into pieces, each closed on its own; results
+  add up.
+
+Importing this package also teaches :func:`wedgepath.integrate` to integrate
+a non-constant 2-form ``f dx0^dx1`` over the region of a planar loop.
+"""
+
+from .area import RegionMoments, region_moments, signed_area
+from .arrangement import Decomposition, DecompositionWarning, Lobe, decompose
+from .green import region_integral
+from .winding import winding_number
+
+__all__ = ["signed_area", "winding_number", "region_integral", "region_moments",
+           "RegionMoments", "decompose", "Decomposition", "Lobe", "DecompositionWarning"]
