@@ -69,6 +69,17 @@ class TestLeadlag:
         got = np.array(rep["significance"]["pvalues"], dtype=float)  # JSON null -> NaN
         np.testing.assert_allclose(np.nan_to_num(got, nan=-1.0), np.nan_to_num(S.pvalues, nan=-1.0))
 
+    def test_stream_equals_in_memory(self, three_signals, capsys):
+        f, t, X = three_signals
+        code, stdout, err = run(["leadlag", f, "--time", "t", "--stream", "--chunk-rows", 37,
+                                 "--json", "--quiet"], capsys)
+        assert code == 0, err
+        rep = json.loads(stdout)
+        np.testing.assert_allclose(rep["area_matrix"], wp.area_matrix(X), rtol=1e-10, atol=1e-12)
+        assert rep["streamed"] is True
+        code, _, err = run(["leadlag", f, "--stream", "--surrogates", 9], capsys)
+        assert code == 2 and "--stream computes the area matrix only" in err
+
     def test_columns_and_normalize(self, three_signals, capsys):
         f, t, X = three_signals
         code, stdout, _ = run(["leadlag", f, "--time", "t", "--columns", "c,a",

@@ -194,6 +194,11 @@ def build_parser():
     ll.add_argument("--surrogate-method", default="shift", choices=["shift", "phase"],
                     help="circular time shift (default) or Fourier phase randomisation")
     ll.add_argument("--seed", type=int, default=0, help="random seed for surrogates (default 0)")
+    ll.add_argument("--stream", action="store_true",
+                    help="read the table in chunks (memory independent of its length); "
+                    "computes the area matrix and cyclic order only")
+    ll.add_argument("--chunk-rows", type=_positive_int, default=100_000, metavar="N",
+                    help="rows per chunk with --stream (default 100000)")
     ll.add_argument("--top", type=_positive_int, default=3,
                     help="how many leaders and laggers to list (default 3)")
     _add_common(ll)
@@ -412,6 +417,8 @@ def _cmd_leadlag(args):
     out.check_free(planned)
     if args.step is not None and args.window is None:
         raise CLIError("--step needs --window")
+    if args.stream:
+        return _cmd_leadlag_stream(args, out)
     tab = _load(args, args.columns)
     rep = leadlag_report(tab.values, tab.times, tab.names, closure=args.closure,
                          normalize=args.normalize, window=args.window, step=args.step,
@@ -427,6 +434,72 @@ def _cmd_leadlag(args):
         from . import plotting
         out_figs = plotting.leadlag_figures(rep)
         for name, png in out_figs.items():
+            out.add(name, png)
+    return _emit(args, rep, leadlag_summary(rep), out)
+
+
+def _estimated_rows(path):
+    """Rough row count of a text table from its size and its first lines (for progress)."""
+    try:
+        size = os.path.getsize(path)
+        with open(path, "rb") as fh:
+            head = fh.read(1 << 20)
+    except OSError:
+        return None
+    lines = head.count(b"\n")
+    if lines < 2:
+        return None
+    return max(1, int(size / (len(head) / lines)))
+
+
+def _cmd_leadlag_stream(args, out):
+    from ._progress import Progress
+    from .io import stream_area_matrix
+    from .signals import cyclic_order
+
+    clash = [flag for flag, val in (("--window", args.window), ("--surrogates", args.surrogates),
+                                     ("--normalize", args.normalize)) if val]
+    if clash:
+        raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
+    if args.closure != "chord":
+        raise CLIError("--stream supports --closure chord only")
+    total = _estimated_rows(args.table) or 1
+    with Progress(total, "rows read (estimate)", enabled=False if args.quiet else None) as bar:
+        last = [0]
+
+        def tick(rows):
+            bar.update(rows - last[0])
+            last[0] = rows
+        A = stream_area_matrix(args.table, columns=args.columns, time_column=args.time,
+                               delimiter=args.delimiter, chunk_rows=args.chunk_rows, progress=tick)
+    names = list(A.names)
+    M = A.values
+    order = cyclic_order(M)
+    lead = M.sum(axis=1)
+    rank = np.argsort(-lead, kind="stable")
+    k = min(args.top, len(names))
+    rep = {
+        "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
+        "wedgepath_version": __version__,
+        "channels": names, "samples": int(last[0]), "closure": "chord", "normalize": None,
+        "streamed": True, "chunk_rows": args.chunk_rows,
+        "area_matrix": M, "raw_area_matrix": M,
+        "cyclic_order": {
+            "order": [names[i] for i in order.order],
+            "phases_rad": {names[i]: float(order.phases[i]) for i in range(len(names))},
+            "fit": float(order.fit),
+            "moduli": {names[i]: float(order.moduli[i]) for i in range(len(names))},
+        },
+        "net_lead": {names[i]: float(lead[i]) for i in range(len(names))},
+        "leaders": [names[i] for i in rank[:k]],
+        "laggers": [names[i] for i in rank[::-1][:k]],
+        "notes": [],
+        "input": {"table": os.path.abspath(args.table), "time_column": args.time},
+    }
+    out.add("area_matrix.csv", _matrix_csv(M, names))
+    if _want_figures(args):
+        from . import plotting
+        for name, png in plotting.leadlag_figures(rep).items():
             out.add(name, png)
     return _emit(args, rep, leadlag_summary(rep), out)
 
