@@ -69,7 +69,7 @@ def main(quick=False):
     table.ratio("area_matrix vs per-pair Python loop", t_loop, t_area, 50.0, lower_is_better=False,
                 note=f"loop timed on {len(sample)} of {len(pairs)} pairs and scaled; "
                      f"max rel. diff {agree:.1e} (the loop's own rounding)")
-    del X
+    X = None  # free the 512 MB before the next benchmark
 
     # ---------------------------------------------------------------- rolling windows
     T, n, step = (200_000 if quick else 1_000_000), 8, 100
@@ -79,7 +79,7 @@ def main(quick=False):
                                        repeat=3 if quick else 5)
     table.ratio(f"rolling window 10000 vs 500 (T={T:.0e}, n={n}, step={step})", t_long, t_short,
                 1.5, note=f"{t_long * 1e3:.0f} ms vs {t_short * 1e3:.0f} ms")
-    del Y
+    Y = None
 
     # ---------------------------------------------------------------- streaming memory
     total, n, chunk = (2_000_000 if quick else 10_000_000), 16, 100_000

@@ -263,9 +263,10 @@ class TestClosuresAndGaps:
             return
         assert close(wp.area_matrix(X), oracle_area(X), 1e-12) or np.max(np.abs(oracle_area(X))) < 1e-12
 
-    def test_all_gap_rows_give_zero(self):
-        X = np.full((5, 2), np.nan)
-        assert np.array_equal(wp.area_matrix(X), np.zeros((2, 2)))
+    def test_all_gap_rows_refused(self):
+        # as wp.Path does: no complete sample means there is no path at all
+        with pytest.raises(ValueError, match="no complete sample"):
+            wp.area_matrix(np.full((5, 2), np.nan))
 
 
 # --------------------------------------------------------------------------- normalisation

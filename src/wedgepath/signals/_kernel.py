@@ -404,10 +404,12 @@ def piece_extent(data: SignalData, starts, stops) -> np.ndarray:
 def closed_area(data: SignalData, closure: str, tol=None, what="X"):
     """Area matrix of ``data`` under ``closure``; also returns the scan."""
     sc = scan(data, what)
+    if sc.starts.size == 0:
+        raise ValueError(f"{what} has no complete sample: every row contains NaN")
     A = sc.area
     starts, stops = sc.starts, sc.stops
     counts = stops - starts
-    if closure == "chord" or starts.size == 0:
+    if closure == "chord":
         return A, sc
     F = piece_rows(data, starts)
     L = piece_rows(data, stops - 1)

@@ -316,6 +316,12 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
         check_choice(normalize, "normalize", NORMALIZATIONS)
     if not isinstance(labels, bool):
         raise TypeError(f"labels must be True or False, got {labels!r}")
+    if tol is not None:
+        if isinstance(tol, (bool, np.bool_)) or not isinstance(tol, (int, float, np.integer,
+                                                                     np.floating)):
+            raise TypeError(f"tol must be a number, got {tol!r}")
+        if not (np.isfinite(tol) and tol >= 0):
+            raise ValueError(f"tol must be a finite number >= 0, got {tol!r}")
     data = signal_input(X, times, names)
     A, sc = closed_area(data, closure, tol)
     if normalize is not None:

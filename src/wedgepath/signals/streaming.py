@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from .._validation import as_int
-from ._kernel import SignalData, check_names, scan, skew_half, wedge
+from ._kernel import check_names, scan, skew_half, wedge
 from .areas import AreaMatrix
 
 __all__ = ["AreaAccumulator"]
