@@ -130,7 +130,8 @@ class SimplicialComplex:
                 g = int(np.flatnonzero(sizes > 1)[0])
                 a, b = sorted(order[starts[g]:starts[g] + 2])
                 raise ValueError(f"simplices {a} and {b} have the same vertices "
-                                 f"{srt[a].tolist()}; each simplex may appear once")
+                                 f"{srt[a].tolist()}; each simplex may appear once (merge a chain's "
+                                 "repeated simplices with chain.reduced() first)")
         self._vertices = verts
         self._K = K
         simp = [None] * (K + 1)
@@ -175,7 +176,9 @@ class SimplicialComplex:
 
         The chain's vertex array becomes the complex's vertices (indices are
         kept; equal coordinates are not merged); its coefficients are not
-        used (see :meth:`chain_vector`).
+        used (see :meth:`chain_vector`).  A chain that uses one simplex twice
+        (for instance the cone of a loop through only two distinct samples,
+        whose two triangles cancel) is refused: pass ``chain.reduced()``.
 
         Examples
         --------
