@@ -81,7 +81,8 @@ def rolling_area_matrix(X, window, step, times=None, *, names=None, labels=False
     Window ``k`` holds samples ``k*step : k*step + window``; each window is a
     path of its own, closed by its chord (its pieces, if it holds NaN gaps,
     each closed on their own), exactly as :func:`area_matrix` would compute
-    it on that slice.  ``K = (T - window) // step + 1``.
+    it on that slice (a window made only of gap rows gives zeros).
+    ``K = (T - window) // step + 1``.  Only the chord closure is offered.
 
     How: the series is cut into blocks of ``b = gcd(window, step)`` samples,
     and into groups of ``window`` samples.  One batched BLAS product gives
