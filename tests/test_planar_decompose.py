@@ -1,0 +1,235 @@
+"""Faces, winding numbers and lobes of a loop's arrangement (wedgepath.decompose).
+
+Face winding numbers come from walking the face adjacency; they are checked
+against an independent angle-sum winding number at a point inside each face
+(common practice, no source), and face areas against shapely/GEOS.
+"""
+
+from __future__ import annotations
+
+import warnings
+
+import numpy as np
+import pytest
+import shapely
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+import wedgepath as wp
+
+PROPS = settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+
+
+def angle_sum(poly, q):
+    P = np.asarray(poly, dtype=float)
+    P = np.vstack([P, P[:1]])
+    q = np.atleast_2d(np.asarray(q, dtype=float))
+    d1 = P[None, :-1, :] - q[:, None, :]
+    d2 = P[None, 1:, :] - q[:, None, :]
+    cross = d1[..., 0] * d2[..., 1] - d1[..., 1] * d2[..., 0]
+    dot = (d1 * d2).sum(-1)
+    return np.rint(np.arctan2(cross, dot).sum(axis=1) / (2 * np.pi)).astype(int)
+
+
+@st.composite
+def int_polygons(draw, max_size=10, span=5):
+    n = draw(st.integers(3, max_size))
+    c = st.integers(-span, span)
+    return np.array(draw(st.lists(st.tuples(c, c), min_size=n, max_size=n)), dtype=float)
+
+
+@st.composite
+def float_polygons(draw, max_size=12):
+    # Coordinates on a 1e-6 grid in [-10, 10]: arbitrary doubles, but no
+    # values like 1e-157 next to 1, where floating-point noding (GEOS) is
+    # not reliable (decompose then warns; see docs/planar.md).
+    n = draw(st.integers(3, max_size))
+    c = st.floats(-10, 10, allow_nan=False, allow_infinity=False).map(lambda v: round(v, 6))
+    return np.array(draw(st.lists(st.tuples(c, c), min_size=n, max_size=n)))
+
+
+def check_against_angle_sum(poly, d, min_area=1e-9):
+    """Windings of faces (of non-negligible area) against the angle sum at an inner point."""
+    keep = d.areas > min_area
+    if not keep.any():
+        return
+    inside = shapely.get_coordinates(shapely.point_on_surface(d.faces[keep]))
+    assert np.array_equal(d.winding[keep], angle_sum(poly, inside))
+
+
+def quiet(fn, *args, **kw):
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        return fn(*args, **kw)
+
+
+# --------------------------------------------------------------------------- properties
+@PROPS
+@given(int_polygons())
+def test_integer_polygons(poly):
+    # small integer polygons: many collinear overlaps, crossings on vertices,
+    # repeated points and back-tracking
+    d = quiet(wp.decompose, poly)
+    assert d.signed_area == pytest.approx(wp.signed_area(poly), abs=1e-9)
+    check_against_angle_sum(poly, d)
+    assert d.diagnostics["inconsistent_adjacencies"] == 0
+
+
+@PROPS
+@given(float_polygons())
+def test_float_polygons(poly):
+    d = quiet(wp.decompose, poly)
+    assert d.signed_area == pytest.approx(wp.signed_area(poly), abs=1e-9)
+    assert d.absolute_area >= abs(d.signed_area) - 1e-12
+    check_against_angle_sum(poly, d)
+
+
+@PROPS
+@given(float_polygons())
+def test_reversal_negates_everything(poly):
+    d, r = wp.decompose(poly), wp.decompose(poly[::-1])
+    assert r.signed_area == pytest.approx(-d.signed_area, abs=1e-9)
+    assert r.absolute_area == pytest.approx(d.absolute_area, abs=1e-9)
+    assert {-k: v for k, v in d.area_by_winding.items()} == pytest.approx(r.area_by_winding,
+                                                                          abs=1e-9)
+
+
+@PROPS
+@given(int_polygons(), st.integers(-1000, 1000), st.integers(-1000, 1000))
+def test_translation_invariance(poly, tx, ty):
+    d, m = wp.decompose(poly), wp.decompose(poly + [tx, ty])
+    assert m.area_by_winding == pytest.approx(d.area_by_winding, abs=1e-9)
+    assert sorted(m.winding.tolist()) == sorted(d.winding.tolist())
+
+
+def test_noisy_loop_many_faces():
+    # a loop circling 5 times with noise: thousands of faces
+    rng = np.random.default_rng(3)
+    t = np.linspace(0, 10 * np.pi, 600, endpoint=False)
+    poly = np.column_stack([np.cos(t), np.sin(t)]) + 0.08 * rng.standard_normal((600, 2))
+    d = quiet(wp.decompose, poly)
+    assert d.n_faces > 1000
+    assert d.signed_area == pytest.approx(wp.signed_area(poly), abs=1e-10)
+    check_against_angle_sum(poly, d)
+    # faces tile the region: their union has the area of the region covered
+    assert d.areas.sum() == pytest.approx(
+        shapely.area(shapely.union_all(d.faces)), rel=1e-9)
+    # lobe bookkeeping
+    assert sum(lb.signed_area for lb in d.lobes) == pytest.approx(d.signed_area, abs=1e-10)
+    for lb in d.lobes:
+        assert np.all(np.sign(lb.winding) == lb.sign)
+
+
+# --------------------------------------------------------------------------- examples
+def test_simple_polygon_is_one_face_with_shapely_area():
+    # Reference area: GEOS via shapely.area.
+    rng = np.random.default_rng(1)
+    ang = np.sort(rng.uniform(0, 2 * np.pi, 25))
+    poly = np.column_stack([np.cos(ang), np.sin(ang)]) * rng.uniform(0.5, 1, (25, 1))
+    d = wp.decompose(poly)
+    assert d.n_faces == 1 and d.winding.tolist() == [1]
+    assert d.areas[0] == pytest.approx(shapely.area(shapely.Polygon(poly)), rel=1e-13)
+    assert not d.mixed_signs and d.cancellation == pytest.approx(0.0, abs=1e-15)
+    assert wp.decompose(poly[::-1]).winding.tolist() == [-1]
+
+
+def test_figure_eight_reports_cancelling_lobes():
+    eight = [[0, 0], [2, 2], [2, 0], [0, 2]]
+    d = wp.decompose(eight)
+    assert sorted(d.winding.tolist()) == [-1, 1]
+    assert d.signed_area == 0.0 and d.absolute_area == 2.0
+    assert len(d.lobes) == 2
+    assert sorted(lb.signed_area for lb in d.lobes) == [-1.0, 1.0]
+    assert d.mixed_signs and d.cancellation == 1.0
+    assert "opposite sign cancel" in str(d)
+    assert "mixed signs" in repr(d)
+    # a smooth figure-eight (lemniscate) nets about zero too
+    t = np.linspace(0, 2 * np.pi, 400, endpoint=False)
+    lem = np.column_stack([np.sin(t), np.sin(t) * np.cos(t)])
+    d = wp.decompose(lem)
+    assert abs(d.signed_area) < 1e-12 and d.absolute_area > 1
+    assert {lb.sign for lb in d.lobes} == {-1, 1}
+
+
+def test_nested_loops_and_area_by_winding():
+    # A spiral loop around the origin twice, closed by its chord.
+    t = np.linspace(0, 4 * np.pi, 800, endpoint=False)
+    r = 1 + t / (4 * np.pi)
+    poly = np.column_stack([r * np.cos(t), r * np.sin(t)])
+    d = wp.decompose(poly)
+    assert set(d.area_by_winding) == {1, 2}
+    assert d.area_by_winding[2] == pytest.approx(shapely.area(shapely.Polygon(poly[:400])),
+                                                 rel=0.05)
+    check_against_angle_sum(poly, d)
+
+
+def test_degenerate_curves():
+    sq = [[0, 0], [1, 0], [1, 1], [0, 1]]
+    # repeated points and zero-length segments
+    d = quiet(wp.decompose, [[0, 0], [0, 0], [1, 0], [1, 0], [1, 1], [0, 1], [0, 1]])
+    assert d.winding.tolist() == [1] and d.areas[0] == 1.0
+    # back-tracking along the same line
+    d = quiet(wp.decompose, [[0, 0], [2, 0], [1, 0], [1, 1], [0, 1]])
+    assert d.winding.tolist() == [1] and d.signed_area == 1.0
+    # collinear loop: no faces, zero area
+    d = quiet(wp.decompose, [[0, 0], [1, 1], [3, 3], [2, 2]])
+    assert d.n_faces == 0 and d.signed_area == 0.0 and d.lobes == ()
+    # a path that only touches itself (at (1, 1))
+    d = quiet(wp.decompose, [[0, 0], [2, 0], [1, 1], [2, 2], [0, 2], [1, 1]])
+    assert sorted(d.winding.tolist()) == [1, 1] and len(d.lobes) == 2
+    # crossings exactly on vertices
+    d = quiet(wp.decompose, [[0, 0], [2, 0], [2, 2], [1, 1], [0, 2], [1, 1]])
+    assert d.signed_area == pytest.approx(wp.signed_area([[0, 0], [2, 0], [2, 2], [1, 1],
+                                                          [0, 2], [1, 1]]))
+    # traced twice and three times
+    assert quiet(wp.decompose, sq + sq).area_by_winding == {2: 1.0}
+    assert quiet(wp.decompose, (sq + sq + sq)[::-1]).area_by_winding == {-3: 1.0}
+    # fewer than 3 distinct points
+    assert quiet(wp.decompose, [[0, 0], [1, 1]]).n_faces == 0
+    assert quiet(wp.decompose, np.zeros((0, 2))).signed_area == 0.0
+
+
+def test_pieces_share_one_arrangement():
+    outer = np.array([[0, 0], [4, 0], [4, 4], [0, 4]], dtype=float)
+    inner_cw = np.array([[1, 1], [1, 2], [2, 2], [2, 1]], dtype=float)
+    d = wp.decompose(np.vstack([outer, [[np.nan, np.nan]], inner_cw]))
+    assert d.area_by_winding == {0: 1.0, 1: 15.0}
+    # pieces sharing an edge
+    right = np.array([[1, 0], [2, 0], [2, 1], [1, 1]], dtype=float)
+    left = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], dtype=float)
+    d = quiet(wp.decompose, np.vstack([left, [[np.nan, np.nan]], right]))
+    assert d.area_by_winding == {1: 2.0} and len(d.lobes) == 1
+
+
+def test_significant_lobes_and_summary():
+    d = wp.decompose([[0, 0], [4, 4], [4, 0], [0, 4.2]])
+    big = d.significant_lobes(0.3)
+    assert len(big) == 2
+    text = d.summary()
+    assert "faces" in text and "lobe" in text
+    with pytest.raises(ValueError, match="fraction"):
+        d.significant_lobes(2.0)
+
+
+def test_lobe_geometry_is_union_of_faces():
+    d = wp.decompose([[0, 0], [2, 2], [2, 0], [0, 2]])
+    for lb in d.lobes:
+        assert shapely.area(lb.geometry) == pytest.approx(lb.area)
+
+
+# --------------------------------------------------------------------------- bad input
+def test_bad_inputs():
+    with pytest.raises(ValueError, match=r"plane\("):
+        wp.decompose(np.zeros((5, 3)))
+    with pytest.raises(ValueError, match="'chord'.*'detrend'.*'require'"):
+        wp.decompose([[0, 0], [1, 0], [1, 1]], closure="none")
+    with pytest.raises(ValueError, match="NaN|infinite"):
+        wp.decompose([[0, 0], [1, np.inf], [1, 1]])
+
+
+def test_inputs_are_not_modified():
+    pts = np.array([[0.0, 0.0], [2.0, 2.0], [2.0, 0.0], [0.0, 2.0]])
+    keep = pts.copy()
+    pts.flags.writeable = False
+    wp.decompose(pts)
+    assert np.array_equal(pts, keep)

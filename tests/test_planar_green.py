@@ -1,0 +1,270 @@
+"""Region integrals by Green's theorem (wedgepath.region_integral and integrate).
+
+References: the exact sympy layer ``wedgepath.symbolic.polygon_region_integral``
+for polynomials on rational vertices, scipy.integrate.dblquad (QUADPACK,
+an independent adaptive quadrature) for callables on simple polygons, and
+closed forms noted beside each check.
+"""
+
+from __future__ import annotations
+
+import math
+import warnings
+
+import numpy as np
+import pytest
+import sympy as sp
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+from scipy import integrate as si
+
+import wedgepath as wp
+from wedgepath import symbolic as sy
+
+X, Y = sp.symbols("x y")
+PROPS = settings(max_examples=50, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+
+
+@st.composite
+def polygons(draw, min_size=3, max_size=10, lo=-50.0, hi=50.0):
+    n = draw(st.integers(min_size, max_size))
+    coord = st.floats(lo, hi, allow_nan=False, allow_infinity=False)
+    return np.array(draw(st.lists(st.tuples(coord, coord), min_size=n, max_size=n)))
+
+
+def random_poly_expr(rng, max_deg=4, terms=4):
+    expr = 0
+    for _ in range(terms):
+        i, j = rng.integers(0, max_deg + 1, 2)
+        if i + j > max_deg:
+            continue
+        expr += int(rng.integers(-5, 6)) * X ** int(i) * Y ** int(j)
+    return expr + 1
+
+
+def triangle_dblquad(f, tri):
+    """∬ f over a triangle with scipy.integrate.dblquad (vertical slices)."""
+    tri = sorted(map(tuple, tri))
+    (x0, y0), (x1, y1), (x2, y2) = tri
+
+    def line(xa, ya, xb, yb):
+        return lambda x: ya + (yb - ya) * (x - xa) / (xb - xa)
+    long_ = line(x0, y0, x2, y2)
+    total = 0.0
+    for (xa, ya), (xb, yb) in (((x0, y0), (x1, y1)), ((x1, y1), (x2, y2))):
+        if xb == xa:
+            continue
+        short = line(xa, ya, xb, yb)
+        lo = lambda x, s=short: min(s(x), long_(x))     # noqa: E731
+        hi = lambda x, s=short: max(s(x), long_(x))     # noqa: E731
+        val, _ = si.dblquad(lambda y, x: f(x, y), xa, xb, lo, hi, epsabs=1e-13, epsrel=1e-13)
+        total += val
+    return total
+
+
+# --------------------------------------------------------------------------- polynomials
+def test_polynomials_match_symbolic_layer_on_rational_polygons():
+    # Exact reference: wedgepath.symbolic.polygon_region_integral (sympy).
+    rng = np.random.default_rng(21)
+    for _ in range(12):
+        n = int(rng.integers(3, 8))
+        pts = rng.integers(-12, 13, size=(n, 2)) / 4.0            # exact binary rationals
+        expr = random_poly_expr(rng)
+        exact = float(sy.polygon_region_integral(expr, [X, Y], pts.tolist()))
+        got = wp.region_integral(expr, pts, symbols=(X, Y))
+        assert got.exact and got.error == 0.0
+        scale = 1.0 + float(np.abs(pts).max()) ** 6 * 50
+        assert float(got) == pytest.approx(exact, abs=1e-13 * scale)
+
+
+def test_declared_polynomial_callable_is_exact():
+    # ∬ x^2 y over the unit square = 1/6 (elementary calculus, common practice, no source)
+    sq = [[0, 0], [1, 0], [1, 1], [0, 1]]
+    r = wp.region_integral(lambda x, y: x ** 2 * y, sq, degree=3)
+    assert r.exact and float(r) == pytest.approx(1 / 6, rel=1e-14)
+
+
+def test_far_from_origin_polynomial_keeps_precision():
+    # ∬ (x - c)^2 over the unit square [c, c+1]^2 = 1/3 (common practice, no source)
+    for c in (1e3, 1e6):
+        sq = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]]) + c
+        r = wp.region_integral((X - c) ** 2, sq, symbols=(X, Y))
+        assert float(r) == pytest.approx(1 / 3, rel=1e-8)
+
+
+# --------------------------------------------------------------------------- callables
+@pytest.mark.parametrize("f", [
+    lambda x, y: np.exp(x) * np.cos(y),
+    lambda x, y: np.sin(3 * x * y) + 1.0,
+    lambda x, y: 1.0 / (1.0 + x * x + y * y),
+])
+def test_callables_match_dblquad_on_triangles(f):
+    tris = [[(0, 0), (2, 0.5), (0.7, 1.9)], [(-1, -1), (1.5, -0.3), (-0.2, 2.0)]]
+    for tri in tris:
+        expected = triangle_dblquad(f, tri)
+        ccw = np.array(tri) if wp.signed_area(tri) > 0 else np.array(tri)[::-1]
+        r = wp.region_integral(f, ccw, rtol=1e-12)
+        assert not r.exact
+        assert float(r) == pytest.approx(expected, rel=1e-10, abs=1e-12)
+        assert abs(float(r) - expected) <= max(10 * r.error, 1e-11)   # the estimate is honest
+        assert float(wp.region_integral(f, ccw[::-1], rtol=1e-12)) == pytest.approx(-expected,
+                                                                                   rel=1e-10)
+
+
+def test_callable_on_nonconvex_polygon_matches_dblquad_by_triangles():
+    # An L-shaped (non-convex) hexagon = four triangles of a fan from (0,0).
+    L = np.array([[0, 0], [2, 0], [2, 1], [1, 1], [1, 2], [0, 2]], dtype=float)
+
+    def f(x, y):
+        return np.exp(-x * y) * (1 + x)
+    expected = sum(triangle_dblquad(f, [L[0], L[k], L[k + 1]]) for k in range(1, 5))
+    assert float(wp.region_integral(f, L, rtol=1e-12)) == pytest.approx(expected, rel=1e-10)
+
+
+def test_non_polynomial_sympy_matches_closed_form():
+    # ∬ exp(x + y) over the unit square = (e - 1)^2 (common practice, no source)
+    sq = [[0, 0], [1, 0], [1, 1], [0, 1]]
+    r = wp.region_integral(sp.exp(X + Y), sq, symbols=(X, Y))
+    assert not r.exact
+    assert float(r) == pytest.approx((math.e - 1) ** 2, rel=1e-12)
+
+
+def test_disk_integral_of_radial_function():
+    # ∬ (x^2 + y^2) over the inscribed N-gon of the unit circle: polar moment
+    # of a regular N-gon of circumradius r, (N r^4 / 12) sin(2pi/N) (2 + cos(2pi/N))
+    # (sum of N isosceles triangles, common practice, no source).
+    n = 64
+    k = np.arange(n)
+    pts = np.column_stack([np.cos(2 * np.pi * k / n), np.sin(2 * np.pi * k / n)])
+    a = 2 * np.pi / n
+    expected = n / 12 * math.sin(a) * (2 + math.cos(a))
+    r = wp.region_integral(lambda x, y: x * x + y * y, pts, degree=2)
+    assert float(r) == pytest.approx(expected, rel=1e-13)
+
+
+# --------------------------------------------------------------------------- properties
+@PROPS
+@given(polygons())
+def test_integral_of_one_is_signed_area(pts):
+    scale = float(np.abs(pts).max()) ** 2 * len(pts) + 1.0
+    a = wp.signed_area(pts)
+    assert float(wp.region_integral(1.0, pts)) == pytest.approx(a, abs=1e-12 * scale)
+    r = wp.region_integral(lambda x, y: np.ones_like(x), pts, degree=0)
+    assert float(r) == pytest.approx(a, abs=1e-11 * scale)
+
+
+@PROPS
+@given(polygons(), st.floats(-100, 100), st.floats(-100, 100), st.floats(0, 2 * np.pi))
+def test_rigid_motion_invariance(pts, tx, ty, theta):
+    # f depends on the distance to a point that moves with the polygon.
+    c, s = math.cos(theta), math.sin(theta)
+    R = np.array([[c, s], [-s, c]])
+    moved = pts @ R + [tx, ty]
+    p0 = np.array([1.0, -2.0])
+    p1 = p0 @ R + [tx, ty]
+    base = wp.region_integral(lambda x, y: (x - p0[0]) ** 2 + (y - p0[1]) ** 2, pts, degree=2)
+    other = wp.region_integral(lambda x, y: (x - p1[0]) ** 2 + (y - p1[1]) ** 2, moved,
+                               degree=2)
+    scale = (float(np.abs(pts).max()) + 150.0) ** 4 * len(pts)
+    assert float(other) == pytest.approx(float(base), abs=1e-12 * scale)
+
+
+@PROPS
+@given(polygons())
+def test_reversal_negates(pts):
+    f = (lambda x, y: np.cos(0.05 * x) * np.exp(0.01 * y))
+    a = wp.region_integral(f, pts)
+    b = wp.region_integral(f, pts[::-1])
+    assert float(b) == pytest.approx(-float(a), abs=10 * (a.error + b.error) + 1e-9)
+
+
+# --------------------------------------------------------------------------- integrate() wiring
+def test_integrate_uses_region_integral_for_planar_two_forms():
+    sq = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], dtype=float)
+    w = wp.TwoForm({(0, 1): X ** 2 * Y}, symbols=(X, Y))
+    r = wp.integrate(w, sq)
+    assert r.exact and float(r) == pytest.approx(1 / 6, rel=1e-14)   # 1/6 as above
+    assert float(wp.integrate(w, wp.Path(sq))) == float(r)
+    # dx1 ^ dx0 is minus dx0 ^ dx1
+    w2 = wp.TwoForm({(1, 0): X ** 2 * Y}, symbols=(X, Y))
+    assert float(wp.integrate(w2, sq)) == pytest.approx(-1 / 6, rel=1e-14)
+    # callable coefficients take coordinates of shape (m, 2)
+    wc = wp.TwoForm({(0, 1): lambda c: np.exp(c[:, 0] + c[:, 1])})
+    rc = wp.integrate(wc, sq)
+    assert not rc.exact and float(rc) == pytest.approx((math.e - 1) ** 2, rel=1e-12)
+    # chains: linear combination of the member regions
+    shifted = sq + [3.0, 0.0]
+    chain = wp.Chain([(wp.Path(sq), 2), (wp.Path(shifted), -1)])
+    wx = wp.TwoForm({(0, 1): X}, symbols=(X, Y))
+    # ∬ x over a unit square = its centroid's x (0.5 and 3.5)
+    assert float(wp.integrate(wx, chain)) == pytest.approx(2 * 0.5 - 3.5, rel=1e-14)
+    # constant 2-forms still work as before
+    assert float(wp.integrate(wp.dx(0) ^ wp.dx(1), sq)) == 1.0
+
+
+def test_region_integral_accepts_forms_and_plane_of_nd_path():
+    t = np.linspace(0, 2 * np.pi, 257)[:-1]
+    P = wp.Path(np.column_stack([np.cos(t), 5 * np.sin(3 * t), np.sin(t)]))
+    w = wp.TwoForm({(0, 1): X ** 2}, symbols=(X, Y))
+    r = wp.region_integral(w, P.plane(0, 2))
+    # ∬ x^2 over the inscribed 256-gon: half its polar moment (symmetry),
+    # (N/24) sin(2pi/N)(2 + cos(2pi/N)) (common practice, no source)
+    a = 2 * np.pi / 256
+    assert float(r) == pytest.approx(256 / 24 * math.sin(a) * (2 + math.cos(a)), rel=1e-13)
+    assert float(wp.region_integral(wp.TwoForm({(0, 1): 0.0}), P.plane(0, 2))) == 0.0
+
+
+def test_gaps_add_and_closure_none_refuses_open_pieces():
+    sq = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], dtype=float)
+    joined = np.vstack([sq, [[np.nan, np.nan]], sq + 2])
+    # ∬ x: 0.5 + 2.5 (centroids times unit areas)
+    assert float(wp.region_integral(X, joined, symbols=(X, Y))) == pytest.approx(3.0, rel=1e-14)
+    with pytest.raises(ValueError, match="'chord'.*'detrend'.*'require'"):
+        wp.region_integral(X, joined, closure="none", symbols=(X, Y))
+
+
+def test_fewer_than_three_points_give_zero():
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        assert float(wp.region_integral(lambda x, y: np.exp(x), [[0, 0], [1, 1]])) == 0.0
+        assert float(wp.region_integral(X * Y, [[0, 0], [1, 1], [0, 0]], symbols=(X, Y))) == 0.0
+
+
+# --------------------------------------------------------------------------- bad input
+def test_bad_integrands():
+    sq = [[0, 0], [1, 0], [1, 1], [0, 1]]
+    with pytest.raises(ValueError, match="symbols=\\(x, y\\)"):
+        wp.region_integral(X * Y, sq)
+    with pytest.raises(ValueError, match="not coordinates"):
+        wp.region_integral(X * sp.Symbol("a"), sq, symbols=(X, Y))
+    with pytest.raises(ValueError, match="shape"):
+        wp.region_integral(lambda x, y: np.zeros((2, 2)), sq)
+    with pytest.raises(ValueError, match="not finite"):
+        wp.region_integral(lambda x, y: np.where(x > 0.5, np.nan, 1.0), sq)
+    with pytest.raises(TypeError, match="callable f\\(x, y\\)"):
+        wp.region_integral("x*y", sq)
+    with pytest.raises(ValueError, match="2-forms"):
+        wp.region_integral(wp.dx(0), sq)
+    with pytest.raises(ValueError, match="R\\^3"):
+        wp.region_integral(wp.TwoForm({(0, 2): X}, symbols=(X, Y, sp.Symbol("z"))), sq)
+    with pytest.raises(ValueError, match="dx2"):
+        wp.region_integral(wp.TwoForm({(1, 2): 2.0}), sq)
+    with pytest.raises(ValueError, match=r"plane\("):
+        wp.region_integral(1.0, np.zeros((4, 3)))
+    with pytest.raises(ValueError, match="rtol"):
+        wp.region_integral(lambda x, y: x, sq, rtol=-1)
+    with pytest.raises(ValueError, match="spline"):
+        wp.integrate(wp.TwoForm({(0, 1): X}, symbols=(X, Y)), sq, curve="spline")
+
+
+def test_inputs_are_not_modified():
+    pts = np.array([[0.0, 0.0], [2.0, 0.0], [2.0, 1.0], [0.0, 1.0]])
+    keep = pts.copy()
+    pts.flags.writeable = False
+    seen = []
+
+    def f(x, y):
+        seen.append(x)
+        return x * y
+    wp.region_integral(f, pts)
+    assert np.array_equal(pts, keep)
