@@ -200,6 +200,8 @@ class TestWhitney:
         for k in (0, 1):
             c = rng.normal(size=cx.shape[k])
             Wd = cx.whitney(cx.coboundary(k) @ c, k + 1)
+            # WhitneyForm.d() is the cochain-level route to the same form
+            np.testing.assert_allclose(cx.whitney(c, k).d().cochain, Wd.cochain)
             for t in (0, 3, 7):
                 dW = cx.whitney(c, k).form_on(t).d()
                 vals = dW.component_values(pts)

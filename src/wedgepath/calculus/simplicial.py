@@ -726,7 +726,7 @@ def _rule_values(V, vary, bary, w, with_abs=False):
     E = V[1:] - V[0]
     minors = _minors(E, [I for I, _ in vary]) if k else [None] * len(vary)
     # nodes, q-major: (q, S, n) -> (q*S, n) without a transpose copy
-    X = np.tensordot(bary, V, axes=(1, 0)).reshape(q * S, -1)
+    X = np.einsum("qj,jsn->qsn", bary, V, optimize=False).reshape(q * S, -1)
     g = np.zeros((q, S))
     for (I, coef), mnr in zip(vary, minors):
         f = coef.evaluate(X, _coef_label(I)).reshape(q, S)
@@ -873,8 +873,8 @@ def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
             unmet = True
             bad[:] = False
         good = ~bad
-        np.add.at(values, owner[good], hi[good])
-        np.add.at(errors, owner[good], est[good])
+        values += np.bincount(owner[good], hi[good], minlength=S)
+        errors += np.bincount(owner[good], est[good], minlength=S)
         value += float(cw[owner[good]] @ hi[good])
         error += float(weight[owner[good]] @ est[good])
         if not bad.any():
