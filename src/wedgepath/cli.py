@@ -367,6 +367,24 @@ def _longest_gap_free(values):
     return int(starts[k]), int(stops[k])
 
 
+def noise_fit_baseline(n, draws=200, seed=0):
+    """Median ``fit`` of cyclic_order for n independent white-noise channels.
+
+    For independent channels the area matrix is close to a skew-symmetric
+    matrix of independent Gaussian entries, so the baseline is simulated on
+    such matrices (seeded, so the summary is reproducible).
+    """
+    if n < 3:
+        return 1.0
+    rng = np.random.default_rng(seed)
+    G = rng.standard_normal((draws, n, n))
+    M = np.triu(G, 1)
+    M = M - np.swapaxes(M, 1, 2)
+    lam = np.linalg.eigvalsh(1j * M)  # eigenvalues +-lambda_k of the Hermitian i*M
+    top = lam[:, -1] ** 2
+    return float(np.median(2 * top / (lam ** 2).sum(axis=1)))
+
+
 def leadlag_summary(rep):
     names = rep["channels"]
     what = "lead strength (" + rep["normalize"] + ")" if rep["normalize"] else "area matrix"
@@ -384,10 +402,12 @@ def leadlag_summary(rep):
         lines.append("phases behind " + co["order"][0] + " (deg): " + ", ".join(
             f"{nm} {math.degrees(co['phases_rad'][nm]):.0f}" for nm in co["order"]))
         fit = co["fit"]
-        verdict = ("one cycle explains the pattern well" if fit >= 0.8 else
-                   "one cycle explains part of the pattern" if fit >= 0.5 else
-                   "one cycle explains little: treat the order with caution")
-        lines.append(f"fit {fit:.3f} ({verdict})")
+        base = noise_fit_baseline(len(names))
+        verdict = ("well above" if fit >= base + 0.5 * (1 - base) else
+                   "above" if fit > base + 0.1 * (1 - base) else "not above")
+        lines.append(f"fit {fit:.3f}: {verdict} the {base:.2f} that independent noise gives for "
+                     f"{len(names)} channels" + ("" if verdict != "not above" else
+                                                 " (treat the order with caution)"))
         lines.append("strongest leaders: " + ", ".join(rep["leaders"]))
         lines.append("strongest laggers: " + ", ".join(rep["laggers"]))
     if "rolling" in rep:
