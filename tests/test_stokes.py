@@ -192,6 +192,24 @@ class TestMethods:
         assert float(wp.integrate(f, c)) == pytest.approx(0 - 2 * 5 + 3 * 4)
         assert float(wp.integrate(wp.ZeroForm(2.0), c)) == pytest.approx(4.0)
 
+    def test_3_chains_volume_and_boundary(self):
+        # k = 3 works the same way: volume of a tetrahedron = det / 6 (common practice)
+        V = np.array([[0, 0, 0], [2, 0, 0], [0, 3, 0], [0, 0, 5], [1, 1, 1]], dtype=float)
+        T = wp.SimplicialChain(V, [[0, 1, 2, 3], [4, 1, 2, 3]], [1, 1])
+        vol = wp.integrate(wp.dx(0) ^ wp.dx(1) ^ wp.dx(2), T)
+        det2 = np.linalg.det(V[[1, 2, 3]] - V[4])
+        assert float(vol) == pytest.approx(30 / 6 + det2 / 6, rel=1e-14)
+        assert T.boundary().boundary() == 0
+        x, y, z = xs = sp.symbols("x y z")
+        w = wp.Form({(0, 1): x * z ** 2, (1, 2): y ** 3}, 2, 3, xs)
+        assert float(wp.integrate(w.d(), T)) == pytest.approx(float(wp.integrate(w, T.boundary())),
+                                                              rel=1e-12)
+
+    def test_complex_is_not_a_domain(self):
+        cx = wp.SimplicialComplex([[0, 0], [1, 0], [0, 1]], [[0, 1, 2]])
+        with pytest.raises(TypeError, match="de_rham"):
+            wp.integrate(wp.dx(0) ^ wp.dx(1), cx)
+
     def test_empty_chain(self):
         e = wp.SimplicialChain([[0.0, 0.0]], np.zeros((0, 3), dtype=int))
         assert float(wp.integrate(wp.dx(0) ^ wp.dx(1), e)) == 0.0

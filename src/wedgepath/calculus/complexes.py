@@ -37,7 +37,7 @@ import scipy.sparse as sps
 from .._validation import as_float_array, check_choice
 from .forms import Form
 from .integrate import _options
-from .paths import CLOSURES, Path, as_path
+from .paths import CLOSURES, as_path
 from .simplicial import (SimplicialChain, _as_index_array, _check_form_on,
                          _integrate_simplices, _minors, _permutation_parity, _readonly,
                          _row_keys)
@@ -505,8 +505,7 @@ class SimplicialComplex:
         opts = _options(rtol, atol, order, max_levels)
         S = self._simplices[kk]
         _, values, errors = _integrate_simplices(form, self._vertices, S,
-                                                 np.ones(S.shape[0], dtype=np.int64), opts,
-                                                 per_simplex=True)
+                                                 np.ones(S.shape[0], dtype=np.int64), opts)
         return (values, errors) if return_error else values
 
     # ------------------------------------------------------------- Whitney
@@ -853,7 +852,13 @@ class WhitneyForm:
         if pts.shape[1] != cx.dim:
             raise ValueError(f"points have {pts.shape[1]} coordinates but the complex is in "
                              f"R^{cx.dim}")
-        s = _as_index_array(np.asarray(simplex).reshape(-1, 1), cx.shape[-1], "simplex").ravel()
+        s = np.asarray(simplex)
+        if s.dtype.kind not in "iu":
+            raise TypeError(f"simplex must hold integer indices of top simplices, got {s.dtype}")
+        s = s.astype(np.int64).ravel()
+        if s.size and (s.min() < 0 or s.max() >= cx.shape[-1]):
+            raise ValueError(f"simplex index out of range: the complex has {cx.shape[-1]} top "
+                             "simplices")
         if s.shape[0] != pts.shape[0]:
             raise ValueError(f"{s.shape[0]} simplex indices for {pts.shape[0]} points")
         lam = self._lambda(pts, s)

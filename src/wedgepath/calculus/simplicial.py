@@ -38,14 +38,14 @@ from __future__ import annotations
 
 import warnings
 from itertools import combinations
+from math import factorial
 
 import numpy as np
 
 from .._validation import as_float_array, as_int, check_choice
 from .chains import Chain, ZeroChain
 from .forms import Form
-from .integrate import (_EPS, _NOISE, Integral, IntegrationWarning, _Acc, _options,
-                        register_domain)
+from .integrate import _EPS, _NOISE, IntegrationWarning, _Acc, register_domain
 from .paths import CLOSURES, Path, as_path
 from .simplex_quadrature import rule_pair, simplex_rule
 
@@ -680,7 +680,6 @@ def _volumes(E):
         det = G[:, 0, 0] * G[:, 1, 1] - G[:, 0, 1] ** 2
     else:
         det = np.linalg.det(G)
-    from math import factorial
     return np.sqrt(np.maximum(det, 0.0)) / factorial(k)
 
 
@@ -696,7 +695,6 @@ class _Terms:
 
 def _const_part(V, terms: _Terms, k):
     """Per-simplex exact integrals of the constant terms; V (k+1, S, n)."""
-    from math import factorial
     E = V[1:] - V[0]
     vals = np.zeros(V.shape[1])
     mag = np.zeros(V.shape[1])
@@ -778,12 +776,12 @@ def _bisect(V):
     return np.concatenate([A, Bv], axis=1)
 
 
-def _integrate_simplices(form, vertices, simplices, coefs, opts, per_simplex=False):
-    """Core: integrals of ``form`` over simplices (weighted by coefs unless per_simplex).
+def _integrate_simplices(form, vertices, simplices, coefs, opts):
+    """Core: integrals of ``form`` over simplices.
 
-    Returns (acc, values, errors); values/errors per simplex when per_simplex.
+    Returns ``(acc, values, errors)``: the accumulated sum weighted by ``coefs``
+    and the per-simplex values and error estimates (unweighted).
     """
-    from math import factorial
     k = simplices.shape[1] - 1
     S = simplices.shape[0]
     terms = _Terms(form)
@@ -934,14 +932,16 @@ def _integrate_simplicial(form, chain, closure=None, curve="linear", **opts):
     return acc.result()
 
 
+def _is_complex(form, domain) -> bool:
+    from .complexes import SimplicialComplex
+    return isinstance(domain, SimplicialComplex)
+
+
+def _refuse_complex(form, domain, **_):
+    raise TypeError("integrate needs a chain, not a SimplicialComplex: use cx.de_rham(form) for "
+                    "the integrals over every simplex, or integrate over cx.chain(coefficients, k)")
+
+
 register_domain(_is_simplicial, _integrate_simplicial)
+register_domain(_is_complex, _refuse_complex)
 
-
-def integrate_per_simplex(form, vertices, simplices, *, rtol=1e-10, atol=0.0, order=4,
-                          max_levels=30):
-    """Per-simplex integrals (values, errors, Integral of the sum) -- internal helper."""
-    opts = _options(rtol, atol, order, max_levels)
-    acc, values, errors = _integrate_simplices(form, vertices, simplices,
-                                               np.ones(simplices.shape[0], dtype=np.int64),
-                                               opts, per_simplex=True)
-    return values, errors, acc.result()
