@@ -177,7 +177,7 @@ class Decomposition:
             lines.append(f"area by winding number: {shown}")
         for lobe in self.lobes[:max_lobes]:
             lines.append(f"lobe {lobe.sign:+d}: signed area {lobe.signed_area:.6g} "
-                         f"({lobe.n_faces} faces)")
+                         f"({lobe.n_faces} face{'' if lobe.n_faces == 1 else 's'})")
         rest = self.lobes[max_lobes:]
         if rest:
             a = sum(lb.absolute_area for lb in rest)
