@@ -835,72 +835,101 @@ def _integrate_simplices(form, vertices, simplices, coefs, opts):
     return acc, values, errors
 
 
-def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
-    (b_lo, w_lo), (b_hi, w_hi) = rule_pair(k, opts["order"])
+def _two_rules(V, vary, rules):
+    """Lower and higher rule on explicit simplices V, chunked: lo, hi, mag, noise."""
+    (b_lo, w_lo), (b_hi, w_hi) = rules
     q = b_lo.shape[0] + b_hi.shape[0]
+    B = V.shape[1]
+    lo, hi, mag, noise = (np.empty(B) for _ in range(4))
+    for a, b in _chunks(B, q):
+        Vc = V[:, a:b]
+        lo[a:b] = _rule_values(Vc, vary, b_lo, w_lo)
+        hi[a:b], mag[a:b], noise[a:b] = _rule_values(Vc, vary, b_hi, w_hi, with_abs=True)
+    return lo, hi, mag, noise
+
+
+def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
+    """Adaptive quadrature: two rules per simplex, longest-edge bisection where they differ.
+
+    The first pass runs over all simplices in chunks.  Simplices that fail
+    the test are refined depth-first in batches of bounded size, so memory
+    stays bounded however many levels are needed.
+    """
+    rules = rule_pair(k, opts["order"])
+    q = rules[0][0].shape[0] + rules[1][0].shape[0]
     nvar = len(terms.vary)
     S = simplices.shape[0]
-    lo = np.empty(S)
-    hi = np.empty(S)
-    mag = np.empty(S)
-    noise = np.empty(S)
+    lo, hi, mag, noise = (np.empty(S) for _ in range(4))
     vol = np.empty(S)
     for a, b in _chunks(S, q):
         V = _gather(vertices, simplices, a, b)
-        lo[a:b] = _rule_values(V, terms.vary, b_lo, w_lo)
-        hi[a:b], mag[a:b], noise[a:b] = _rule_values(V, terms.vary, b_hi, w_hi, with_abs=True)
+        lo[a:b], hi[a:b], mag[a:b], noise[a:b] = _two_rules(V, terms.vary, rules)
         vol[a:b] = _volumes(V[1:] - V[0])
     weight = np.abs(cw)
     total_scale = float(weight @ mag)
     total_noise = float(weight @ noise)
     total_vol = float(weight @ vol)
     tol = max(opts["atol"], opts["rtol"] * total_scale)
-    evaluations = S * q * nvar
-    value = 0.0
-    error = 0.0
-    unmet = False
-    owner = np.arange(S)
-    fraction = vol / total_vol if total_vol > 0 else np.full(S, 1.0 / S)
-    Vbad = None
-    level = 0
-    while True:
+    state = {"value": 0.0, "error": 0.0, "unmet": False, "evaluations": S * q * nvar}
+    pending = []  # accepted (owner, value, estimate) arrays not yet added per simplex
+
+    def flush():
+        if pending:
+            own = np.concatenate([p[0] for p in pending])
+            values[:] += np.bincount(own, np.concatenate([p[1] for p in pending]), minlength=S)
+            errors[:] += np.bincount(own, np.concatenate([p[2] for p in pending]), minlength=S)
+            pending.clear()
+
+    def settle(owner, fraction, lo, hi, noise, level):
+        """Accept the simplices that pass; return the mask of those to refine."""
         est = np.abs(hi - lo)
-        allow = np.maximum(tol * fraction, _NOISE * noise)
-        bad = est > allow
+        bad = est > np.maximum(tol * fraction, _NOISE * noise)
         if level == opts["max_levels"] and bad.any():
-            unmet = True
+            state["unmet"] = True
             bad[:] = False
         good = ~bad
-        values += np.bincount(owner[good], hi[good], minlength=S)
-        errors += np.bincount(owner[good], est[good], minlength=S)
-        value += float(cw[owner[good]] @ hi[good])
-        error += float(weight[owner[good]] @ est[good])
-        if not bad.any():
-            break
-        Vbad = vertices[simplices[owner[bad]].T] if level == 0 else Vbad[:, bad]
-        owner = np.tile(owner[bad], 2)
-        fraction = np.tile(fraction[bad], 2) * 0.5
-        Vbad = _bisect(Vbad)
+        og, hg, eg = owner[good], hi[good], est[good]
+        state["value"] += float(cw[og] @ hg)
+        state["error"] += float(weight[og] @ eg)
+        pending.append((og, hg, eg))
+        if sum(p[0].size for p in pending) > (1 << 20):
+            flush()
+        return bad
+
+    owner = np.arange(S)
+    fraction = vol / total_vol if total_vol > 0 else np.full(S, 1.0 / S)
+    bad = settle(owner, fraction, lo, hi, noise, 0)
+    batch = 4 * max(1, _CHUNK_POINTS // q)  # parent simplices refined at once
+    stack = [(None, owner[bad], fraction[bad], 0)] if bad.any() else []
+    while stack:
+        V, own, frac, level = stack.pop()
+        if own.size > batch:
+            for a in range(0, own.size, batch)[::-1]:
+                b = min(own.size, a + batch)
+                stack.append((None if V is None else V[:, a:b], own[a:b], frac[a:b], level))
+            continue
+        if V is None:
+            V = vertices[simplices[own].T]
+        V = _bisect(V)
+        own = np.tile(own, 2)
+        frac = np.tile(frac, 2) * 0.5
         level += 1
-        B = Vbad.shape[1]
-        lo = np.empty(B)
-        hi = np.empty(B)
-        mag = np.empty(B)
-        noise = np.empty(B)
-        for a, b in _chunks(B, q):
-            V = Vbad[:, a:b]
-            lo[a:b] = _rule_values(V, terms.vary, b_lo, w_lo)
-            hi[a:b], mag[a:b], noise[a:b] = _rule_values(V, terms.vary, b_hi, w_hi,
-                                                         with_abs=True)
-        evaluations += B * q * nvar
-    if unmet and error > tol:
+        lo, hi, _, noise = _two_rules(V, terms.vary, rules)
+        state["evaluations"] += V.shape[1] * q * nvar
+        bad = settle(own, frac, lo, hi, noise, level)
+        if bad.any():
+            stack.append((V[:, bad], own[bad], frac[bad], level))
+    flush()
+    if state["unmet"] and state["error"] > tol:
         warnings.warn(f"integration tolerance {tol:.3g} not reached after {opts['max_levels']} "
-                      f"bisections; estimated error {error:.3g}", IntegrationWarning, stacklevel=5)
+                      f"bisections; estimated error {state['error']:.3g}", IntegrationWarning,
+                      stacklevel=5)
     name = "Gauss-Legendre" if k == 1 else "Grundmann-Möller"
     m = opts["order"]
     method = (f"adaptive {name} {m}/{m + 1} points" if k == 1 else
               f"adaptive {name} degree {2 * m - 1}/{2 * m + 1}")
-    acc.add(value, error, False, method, _EPS * total_noise * 4, evaluations)
+    acc.add(state["value"], state["error"], False, method, _EPS * total_noise * 4,
+            state["evaluations"])
 
 
 def _check_form_on(form, degree, dim, what="chain"):
