@@ -150,6 +150,20 @@ def test_bad_values_are_refused_clearly():
         wp.signed_area([["a", "b"], ["c", "d"], ["e", "f"]])
 
 
+def test_overflowing_coordinates_are_refused_not_nan():
+    huge = [[0, 0], [1e200, 0], [1e200, 1e200]]
+    with pytest.raises(ValueError, match="overflows float64"):
+        wp.signed_area(huge)
+    with pytest.raises(ValueError, match="overflows float64"):
+        wp.region_moments([[0, 0], [1e100, 0], [1e100, 1e100]])
+    with pytest.raises(ValueError, match="overflows float64"):
+        wp.region_integral(lambda x, y: x, huge)
+    with pytest.raises(ValueError, match="overflows float64"):
+        wp.decompose(huge)
+    with pytest.raises(ValueError, match="up to 1e\\+150"):
+        wp.winding_number(huge, [[1.0, 1.0]])
+
+
 def test_inputs_are_not_modified_and_read_only_is_fine():
     pts = np.array([[0.0, 0.0], [3.0, 0.0], [3.0, 1.0], [np.nan, np.nan], [5, 5], [6, 5], [6, 6]])
     keep = pts.copy()

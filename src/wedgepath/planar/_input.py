@@ -14,7 +14,7 @@ import numpy as np
 from .._validation import as_float_array, check_choice
 from ..calculus.paths import CLOSURES, Path
 
-__all__ = ["planar_path", "closed_pieces", "drop_repeats", "REGION_CLOSURES"]
+__all__ = ["planar_path", "closed_pieces", "drop_repeats", "finite_result", "REGION_CLOSURES"]
 
 #: Closure conventions accepted by region quantities (the same as everywhere).
 REGION_CLOSURES = CLOSURES
@@ -91,3 +91,11 @@ def drop_repeats(pts: np.ndarray) -> np.ndarray:
     if keep.all():
         return pts
     return pts[keep]
+
+
+def finite_result(value, fname: str):
+    """Return ``value`` if finite, else refuse: the coordinates overflowed float64."""
+    if not np.all(np.isfinite(value)):
+        raise ValueError(f"{fname}: the result overflows float64 for coordinates this large; "
+                         "rescale the path (e.g. divide it by its largest value)")
+    return value

@@ -21,7 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ._input import closed_pieces, planar_path
+from ._input import closed_pieces, finite_result, planar_path
 
 __all__ = ["signed_area", "region_moments", "RegionMoments"]
 
@@ -72,9 +72,10 @@ def signed_area(path2d, closure="chord") -> float:
     """
     path = planar_path(path2d, "signed_area")
     total = 0.0
-    for pts in closed_pieces(path, closure, "signed_area"):
-        total += _piece_area(pts)
-    return float(total)
+    with np.errstate(over="ignore", invalid="ignore"):
+        for pts in closed_pieces(path, closure, "signed_area"):
+            total += _piece_area(pts)
+    return float(finite_result(total, "signed_area"))
 
 
 def _too_few_points(pts: np.ndarray) -> bool:
@@ -214,20 +215,25 @@ def region_moments(path2d, closure="chord") -> RegionMoments:
     """
     path = planar_path(path2d, "region_moments")
     pieces = closed_pieces(path, closure, "region_moments")
-    if pieces:
-        ref = np.concatenate([p[:-1] for p in pieces]).mean(axis=0)
-    else:
-        ref = np.zeros(2)
     raw = np.zeros(6)
-    for pts in pieces:
-        raw += _raw_moments(pts, ref)
+    with np.errstate(over="ignore", invalid="ignore"):
+        ref = np.concatenate([p[:-1] for p in pieces]).mean(axis=0) if pieces else np.zeros(2)
+        for pts in pieces:
+            raw += _raw_moments(pts, ref)
+        a, sx, sy, sxx, sxy, syy = raw
+        rx, ry = ref
+        about_origin = np.array([
+            sx + rx * a,                                  # int_x
+            sy + ry * a,                                  # int_y
+            sxx + 2.0 * rx * sx + rx * rx * a,            # int_xx
+            sxy + rx * sy + ry * sx + rx * ry * a,        # int_xy
+            syy + 2.0 * ry * sy + ry * ry * a,            # int_yy
+        ])
+    finite_result(raw, "region_moments")
+    finite_result(about_origin, "region_moments")
     a, sx, sy, sxx, sxy, syy = (float(v) for v in raw)
     rx, ry = float(ref[0]), float(ref[1])
-    int_x = sx + rx * a
-    int_y = sy + ry * a
-    int_xx = sxx + 2.0 * rx * sx + rx * rx * a
-    int_yy = syy + 2.0 * ry * sy + ry * ry * a
-    int_xy = sxy + rx * sy + ry * sx + rx * ry * a
+    int_x, int_y, int_xx, int_xy, int_yy = (float(v) for v in about_origin)
     if a == 0.0:
         centroid = central = None
     else:

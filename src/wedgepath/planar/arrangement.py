@@ -35,7 +35,7 @@ import shapely
 from scipy.sparse import coo_matrix
 from scipy.sparse.csgraph import breadth_first_order, connected_components
 
-from ._input import closed_pieces, drop_repeats, planar_path
+from ._input import closed_pieces, drop_repeats, finite_result, planar_path
 from ._predicates import orient_sign
 from .area import _piece_area, _too_few_points
 
@@ -252,7 +252,8 @@ def decompose(path2d, closure="chord") -> Decomposition:
     path = planar_path(path2d, "decompose")
     pieces = [drop_repeats(p) for p in closed_pieces(path, closure, "decompose")]
     pieces = [p for p in pieces if not _too_few_points(p)]
-    shoelace = float(sum(_piece_area(p) for p in pieces))
+    with np.errstate(over="ignore", invalid="ignore"):
+        shoelace = float(finite_result(sum(_piece_area(p) for p in pieces), "decompose"))
     diagnostics = {"multiplicities": "none", "inconsistent_adjacencies": 0,
                    "unreached_faces": 0}
     if not pieces:
@@ -266,7 +267,9 @@ def decompose(path2d, closure="chord") -> Decomposition:
         diagnostics["multiplicities"] = "no faces"
         return _empty(shoelace, diagnostics)
 
-    rings = _Rings(faces)
+    with np.errstate(over="ignore", invalid="ignore"):
+        rings = _Rings(faces)
+    finite_result(rings.face_area, "decompose")
 
     seg = _ordered_multiplicities(noded, pieces)
     mode = "ordered"

@@ -40,7 +40,7 @@ from ..calculus.integrate import Integral, IntegrationWarning, register_domain
 from ..calculus.paths import Path
 from ..calculus.quadrature import gauss_legendre, points_needed
 from .._validation import as_int
-from ._input import closed_pieces, planar_path
+from ._input import closed_pieces, finite_result, planar_path
 from .area import _piece_area, _too_few_points
 
 __all__ = ["region_integral"]
@@ -346,19 +346,23 @@ def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rt
         raise ValueError(f"order must be >= 1 and max_levels >= 0, got {order} and {max_levels}")
 
     if fn.kind == "constant":
-        area = sum(_piece_area(p) for p in pieces)
-        value = fn.value * area
+        with np.errstate(over="ignore", invalid="ignore"):
+            area = sum(_piece_area(p) for p in pieces)
+            value = finite_result(fn.value * area, "region_integral")
         return Integral(value, error=0.0, exact=True,
                         method="constant integrand times shoelace area (exact)",
                         rounding=4 * _EPS * abs(value))
-    geo = _Segments([p for p in pieces if not _too_few_points(p)])
+    with np.errstate(over="ignore", invalid="ignore"):
+        geo = _Segments([p for p in pieces if not _too_few_points(p)])
     acc = {"value": 0.0, "error": 0.0, "exact": True, "scale": 0.0, "evaluations": 0,
            "method": "empty region"}
     if geo.n:
-        if fn.degree is not None:
-            _exact_poly(geo, fn, acc)
-        else:
-            _adaptive(geo, fn, acc, float(rtol), float(atol), order, max_levels)
+        with np.errstate(over="ignore", invalid="ignore"):
+            if fn.degree is not None:
+                _exact_poly(geo, fn, acc)
+            else:
+                _adaptive(geo, fn, acc, float(rtol), float(atol), order, max_levels)
+        finite_result([acc["value"], acc["error"]], "region_integral")
     return Integral(acc["value"], error=acc["error"], exact=acc["exact"], method=acc["method"],
                     rounding=4 * _EPS * acc["scale"], evaluations=acc["evaluations"])
 

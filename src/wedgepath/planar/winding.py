@@ -46,6 +46,7 @@ __all__ = ["winding_number"]
 _EPS = 2.0 ** -53
 _QUERY_CHUNK = 1 << 20    # queries handled per pass (bounds memory)
 _PAIR_CHUNK = 1 << 21     # (sub-edge, query) pairs tested per pass
+_MAX_COORD = 1e150        # exact orientation products stay finite below this
 
 
 def winding_number(path2d, points, closure="chord"):
@@ -113,6 +114,12 @@ def winding_number(path2d, points, closure="chord"):
     shape = q.shape[:-1]
     q = q.reshape(-1, 2)
     pieces = closed_pieces(path, closure, "winding_number")
+    for what, arr in (("path", pieces), ("points", [q])):
+        big = max((float(np.abs(a).max()) for a in arr if a.size), default=0.0)
+        if big > _MAX_COORD:
+            raise ValueError(f"winding_number: {what} has coordinates up to {big:.3g}; exact "
+                             f"tests support magnitudes up to {_MAX_COORD:g} (rescale both "
+                             "the path and the points)")
     edges = _edges(pieces)
     out = np.zeros(q.shape[0], dtype=np.int64)
     if edges is not None and q.shape[0]:
