@@ -160,6 +160,13 @@ class Decomposition:
 
         Noise in a sampled loop makes many tiny faces and lobes; this keeps
         the ones that matter for the loop's shape.
+
+        Examples
+        --------
+        >>> import wedgepath as wp
+        >>> d = wp.decompose([[0, 0], [4, 4], [4, 0], [0, 4], [0, 0], [0.1, 0.1], [0.1, 0]])
+        >>> len(d.lobes), len(d.significant_lobes(0.01))
+        (3, 2)
         """
         fraction = float(fraction)
         if not 0.0 <= fraction <= 1.0:
@@ -168,8 +175,19 @@ class Decomposition:
         return tuple(lobe for lobe in self.lobes if lobe.absolute_area >= cut)
 
     def summary(self, max_lobes=5) -> str:
-        """A short text report; says so when lobes of opposite sign cancel."""
-        lines = [f"{self.n_faces} faces, {len(self.lobes)} lobes",
+        """A short text report; says so when lobes of opposite sign cancel.
+
+        Examples
+        --------
+        >>> import wedgepath as wp
+        >>> print(wp.decompose([[0, 0], [1, 0], [1, 1], [0, 1]]).summary())
+        1 face, 1 lobe
+        signed area   1  (sum of winding x area)
+        absolute area 1  (sum of |winding| x area)
+        area by winding number: +1: 1
+        lobe +1: signed area 1 (1 face)
+        """
+        lines = [f"{_plural(self.n_faces, 'face')}, {_plural(len(self.lobes), 'lobe')}",
                  f"signed area   {self.signed_area:.6g}  (sum of winding x area)",
                  f"absolute area {self.absolute_area:.6g}  (sum of |winding| x area)"]
         if self.area_by_winding:
@@ -177,12 +195,13 @@ class Decomposition:
             lines.append(f"area by winding number: {shown}")
         for lobe in self.lobes[:max_lobes]:
             lines.append(f"lobe {lobe.sign:+d}: signed area {lobe.signed_area:.6g} "
-                         f"({lobe.n_faces} face{'' if lobe.n_faces == 1 else 's'})")
+                         f"({_plural(lobe.n_faces, 'face')})")
         rest = self.lobes[max_lobes:]
         if rest:
             a = sum(lb.absolute_area for lb in rest)
             share = a / self.absolute_area if self.absolute_area else 0.0
-            lines.append(f"... and {len(rest)} smaller lobes ({share:.2%} of the absolute area)")
+            lines.append(f"... and {_plural(len(rest), 'smaller lobe')} "
+                         f"({share:.2%} of the absolute area)")
         if self.mixed_signs:
             lines.append(f"NOTE: lobes of opposite sign cancel: the net signed area is "
                          f"{1 - self.cancellation:.1%} of the absolute area")
@@ -199,6 +218,10 @@ class Decomposition:
         return (f"Decomposition(faces={self.n_faces}, lobes={len(self.lobes)}, "
                 f"signed_area={self.signed_area:.6g}, absolute_area={self.absolute_area:.6g}"
                 f"{flag})")
+
+
+def _plural(n, word):
+    return f"{n} {word}" if n == 1 else f"{n} {word}s"
 
 
 # --------------------------------------------------------------------------- entry point

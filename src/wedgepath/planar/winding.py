@@ -308,8 +308,8 @@ def _boxed(sub: _SubEdges, e: _Edges, qx, qy) -> np.ndarray:
     stride = np.int64(nq + 1)
     keys = row_q[perm].astype(np.int64) * stride + rank[perm]
     rows = sub.row[cand].astype(np.int64) * stride
-    lo = np.searchsorted(keys, rows + np.searchsorted(xs, sub.xmin[cand], side="left"), side="left")
-    hi = np.searchsorted(keys, rows + np.searchsorted(xs, sub.xmax[cand], side="right"), side="left")
+    lo = np.searchsorted(keys, rows + np.searchsorted(xs, sub.xmin[cand], side="left"))
+    hi = np.searchsorted(keys, rows + np.searchsorted(xs, sub.xmax[cand], side="right"))
     cnt = hi - lo
     nz = np.flatnonzero(cnt)
     acc = np.zeros(nq, dtype=np.float64)
