@@ -227,7 +227,7 @@ def _has_pandas() -> bool:
         return False
 
 
-def _fields_consistent(path, n_delims, delimiter, skip_lines, block=1 << 22) -> bool:
+def _fields_consistent(path, n_delims, delimiter, skip_lines, block=1 << 20) -> bool:
     """True when every data line holds exactly ``n_delims`` delimiters (blank lines aside).
 
     A vectorised byte scan (numpy), so that the fast parser never pads short
