@@ -91,6 +91,23 @@ class TestMatrices:
         assert cx.shape[1] == len({tuple(sorted(e)) for t in tris for e in
                                    [(t[0], t[1]), (t[0], t[2]), (t[1], t[2])]})
 
+    def test_tetrahedral_complex(self):
+        # k = 3 works the same way; volumes are det / 6 (common practice, no source)
+        rng = np.random.default_rng(4)
+        V = rng.normal(size=(7, 3))
+        tets = np.array([[0, 1, 2, 3], [1, 2, 3, 4], [2, 3, 4, 5], [6, 2, 0, 1]])
+        cx = wp.SimplicialComplex(V, tets)
+        for k in (1, 2):
+            assert (cx.boundary_matrix(k) @ cx.boundary_matrix(k + 1)).count_nonzero() == 0
+        ch = cx.chain([1, -2, 3, 1], 3)
+        np.testing.assert_array_equal(cx.boundary_matrix(3) @ cx.chain_vector(ch),
+                                      cx.chain_vector(ch.boundary()))
+        vols = [np.linalg.det(V[t[1:]] - V[t[0]]) / 6 for t in tets]
+        np.testing.assert_allclose(cx.de_rham(wp.dx(0) ^ wp.dx(1) ^ wp.dx(2)), vols, rtol=1e-13)
+        for k in range(4):
+            c = rng.normal(size=cx.shape[k])
+            np.testing.assert_allclose(cx.de_rham(cx.whitney(c, k)), c, atol=1e-12)
+
     def test_path_complex(self):
         p = wp.Path([[0, 0], [1, 0], [np.nan, np.nan], [5, 5], [6, 5], [6, 6], [7, 7],
                      [np.nan, np.nan], [9, 9]])

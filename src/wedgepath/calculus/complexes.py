@@ -145,19 +145,26 @@ class SimplicialComplex:
         keys = [None] * (K + 1)
         simp[0] = np.arange(V, dtype=np.int64).reshape(-1, 1)
         keys[0] = np.arange(V, dtype=np.int64)
+        self._top_face_ids = None
         for k in range(1, K):
-            cols = list(combinations(range(K + 1), k + 1))
-            faces = np.concatenate([srt[:, list(c)] for c in cols]) if top.shape[0] else \
-                np.zeros((0, k + 1), dtype=np.int64)
+            if k == K - 1:
+                # faces of the top simplices, "drop vertex i" for i = 0..K, as given
+                faces = np.concatenate([np.sort(top[:, [j for j in range(K + 1) if j != i]],
+                                                axis=1) for i in range(K + 1)])
+            else:
+                cols = list(combinations(range(K + 1), k + 1))
+                faces = np.concatenate([srt[:, list(c)] for c in cols])
             fk = _row_keys(faces, V)
             if fk is not None:
-                uk, first = np.unique(fk, return_index=True)
+                uk, first, inv = np.unique(fk, return_index=True, return_inverse=True)
                 simp[k] = np.ascontiguousarray(faces[first])
                 keys[k] = uk
             else:
-                u = np.unique(faces, axis=0)
+                u, inv = np.unique(faces, axis=0, return_inverse=True)
                 simp[k] = np.ascontiguousarray(u)
                 keys[k] = None
+            if k == K - 1:
+                self._top_face_ids = inv.reshape(K + 1, top.shape[0])
         self._top_perm = None
         if K >= 1:
             simp[K] = np.ascontiguousarray(top)
@@ -191,7 +198,7 @@ class SimplicialComplex:
         if not isinstance(chain, SimplicialChain):
             chain = SimplicialChain.from_chain(chain)
         self = object.__new__(cls)
-        self._build(chain.vertices, np.array(chain.simplices))
+        self._build(chain.vertices, chain.simplices)
         return self
 
     @classmethod
@@ -315,18 +322,21 @@ class SimplicialComplex:
         for i in range(k + 1):
             cols = [j for j in range(k + 1) if j != i]
             f = S[:, cols]
-            if k == self._K:
-                par = _permutation_parity(f) if k > 1 else np.ones(f.shape[0], dtype=np.int64)
-                f = np.sort(f, axis=1)
+            par = 1
+            if k == self._K and k > 1:
+                par = _permutation_parity(f)  # the top keeps its given vertex order
+            if k == 1:
+                ids.append(f[:, 0])  # the faces of edges are vertices: ids are indices
+            elif k == self._K and self._top_face_ids is not None:
+                ids.append(self._top_face_ids[i])
             else:
-                par = np.ones(f.shape[0], dtype=np.int64)
-            ids.append(_lookup(self._keys[k - 1], f, self._vertices.shape[0],
-                               self._simplices[k - 1]))
-            signs.append(par * (1 if i % 2 == 0 else -1))
-        return np.array(ids), np.array(signs)
+                ids.append(_lookup(self._keys[k - 1], f if k < self._K else np.sort(f, axis=1),
+                                   self._vertices.shape[0], self._simplices[k - 1]))
+            signs.append(np.broadcast_to(par * (1 if i % 2 == 0 else -1), (S.shape[0],)))
+        return np.array(ids), np.array(signs, dtype=np.int64)
 
     def boundary_matrix(self, k):
-        """∂_k as a sparse matrix of shape (n_{k-1}, n_k), integer entries ±1.
+        """∂_k as a sparse matrix of shape (n_{k-1}, n_k), integer entries ±1 (CSC format).
 
         Column j is the boundary of the k-simplex j:
         ``∂[v_0..v_k] = sum_i (-1)^i [.. v_i omitted ..]`` in terms of the
@@ -341,11 +351,16 @@ class SimplicialComplex:
         """
         k = self._check_k(k, 1, self._K)
         if k not in self._boundary:
-            ids, signs = self._face_ids(k)
+            ids, signs = self._face_ids(k)  # (k+1, n_k): exactly k+1 entries per column
             n_k = self._simplices[k].shape[0]
-            cols = np.broadcast_to(np.arange(n_k), ids.shape)
-            M = sps.csr_matrix((signs.ravel().astype(np.int64), (ids.ravel(), cols.ravel())),
+            ids, signs = ids.T, signs.T
+            order = np.argsort(ids, axis=1)  # sorted row indices within each column
+            ids = np.take_along_axis(ids, order, axis=1)
+            signs = np.take_along_axis(signs, order, axis=1)
+            indptr = np.arange(0, (k + 1) * n_k + 1, k + 1, dtype=np.int64)
+            M = sps.csc_matrix((signs.ravel(), ids.ravel(), indptr),
                                shape=(self._simplices[k - 1].shape[0], n_k))
+            M.has_sorted_indices = True
             self._boundary[k] = M
         return self._boundary[k].copy()
 
@@ -362,7 +377,7 @@ class SimplicialComplex:
         [3.0, 5.0]
         """
         k = self._check_k(k, 0, self._K - 1)
-        return self.boundary_matrix(k + 1).T.tocsr()
+        return self.boundary_matrix(k + 1).T  # CSC transposed: CSR, no copy of the data
 
     # --------------------------------------------------------------- chains
     def chain_vector(self, chain, k=None):
