@@ -189,6 +189,17 @@ def test_degenerate_curves():
     assert quiet(wp.decompose, np.zeros((0, 2))).signed_area == 0.0
 
 
+def test_nearly_coincident_laps():
+    # An ellipse traced five times, its time stamps accumulating rounding so
+    # that the laps differ in the last bits: floating-point noding fails on
+    # such input and decompose must fall back to snap-rounding.
+    t = np.arange(501) * (np.pi / 100)
+    xy = np.c_[0.01 * np.sin(2 * t), 0.03 * np.sin(2 * t) + 0.004 * np.cos(2 * t)]
+    d = quiet(wp.decompose, xy)
+    assert list(d.area_by_winding) == [-5]
+    assert d.signed_area == pytest.approx(wp.signed_area(xy), rel=1e-9)
+
+
 def test_pieces_share_one_arrangement():
     outer = np.array([[0, 0], [4, 0], [4, 4], [0, 4]], dtype=float)
     inner_cw = np.array([[1, 1], [1, 2], [2, 2], [2, 1]], dtype=float)

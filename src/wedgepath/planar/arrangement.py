@@ -4,7 +4,10 @@ Method
 ------
 1. The closed pieces are noded (``shapely.node``: split at every crossing)
    and the noded linework is polygonized (``shapely.polygonize``); the
-   resulting polygons are the bounded faces.
+   resulting polygons are the bounded faces.  Should floating-point noding
+   fail (laps that nearly coincide can defeat it) or give inconsistent
+   faces, the linework is noded by snap-rounding (``shapely.unary_union``
+   with a ``grid_size`` of 2**-40, then 2**-32, 2**-24 times the extent).
 2. Every noded segment knows how often, and in which direction, the curve
    runs along it (its *multiplicity*).  Normally the noder returns the
    curve's segments in their own direction, each once, which is checked
@@ -42,6 +45,8 @@ from .area import _piece_area, _too_few_points
 __all__ = ["decompose", "Decomposition", "Lobe", "DecompositionWarning"]
 
 _EPS = np.finfo(np.float64).eps
+#: snap-rounding grids tried when floating-point noding fails: extent * 2**-k
+_SNAP_GRIDS = (40, 32, 24)
 
 
 class DecompositionWarning(UserWarning):
@@ -129,8 +134,11 @@ class Decomposition:
     residual : float
         ``signed_area`` minus the shoelace area of the curve.
     diagnostics : dict
-        How the windings were obtained: ``"multiplicities"`` (``"ordered"``
-        or ``"matched"``), ``"inconsistent_adjacencies"`` and
+        How the faces and windings were obtained: ``"noding"`` (GEOS
+        ``"floating point"`` noding, or ``"snap-rounded, grid g"`` when that
+        failed, as it can for laps that nearly coincide; faces are then
+        exact to within the grid), ``"multiplicities"`` (``"ordered"`` or
+        ``"matched"``), ``"inconsistent_adjacencies"`` and
         ``"unreached_faces"`` (both 0 unless the noding misbehaved).
     """
 
@@ -277,33 +285,49 @@ def decompose(path2d, closure="chord") -> Decomposition:
     pieces = [p for p in pieces if not _too_few_points(p)]
     with np.errstate(over="ignore", invalid="ignore"):
         shoelace = float(finite_result(sum(_piece_area(p) for p in pieces), "decompose"))
-    diagnostics = {"multiplicities": "none", "inconsistent_adjacencies": 0,
+    diagnostics = {"noding": "none", "multiplicities": "none", "inconsistent_adjacencies": 0,
                    "unreached_faces": 0}
     if not pieces:
         return _empty(shoelace, diagnostics)
 
     lines = shapely.linestrings(pieces[0]) if len(pieces) == 1 else \
         shapely.multilinestrings([shapely.linestrings(p) for p in pieces])
-    noded = shapely.node(lines)
-    faces = shapely.get_parts(shapely.polygonize([noded]))
-    if faces.size == 0:
-        diagnostics["multiplicities"] = "no faces"
-        return _empty(shoelace, diagnostics)
-
-    with np.errstate(over="ignore", invalid="ignore"):
-        rings = _Rings(faces)
-    finite_result(rings.face_area, "decompose")
-
-    seg = _ordered_multiplicities(noded, pieces)
-    mode = "ordered"
-    if seg is None:
-        seg = _matched_multiplicities(noded, pieces)
-        mode = "matched"
-    result = _windings(rings, seg, faces.size)
-    if mode == "ordered" and (result["inconsistent"] or result["unmatched"]):
-        seg = _matched_multiplicities(noded, pieces)
-        mode = "matched"
-        result = _windings(rings, seg, faces.size)
+    allpts = np.concatenate(pieces)
+    extent = float(np.ptp(allpts, axis=0).max())
+    result = None
+    # First GEOS's floating-point noder; if it fails (near-coincident laps
+    # can defeat it) or its output is inconsistent, snap-rounding on
+    # successively coarser grids, which always nodes.
+    for grid in (None, *(extent * 2.0 ** -k for k in _SNAP_GRIDS)):
+        try:
+            if grid is None:
+                noded = shapely.node(lines)
+            else:
+                noded = shapely.unary_union(lines, grid_size=grid)
+            faces = shapely.get_parts(shapely.polygonize([noded]))
+        except shapely.errors.GEOSException:
+            continue
+        diagnostics["noding"] = ("floating point" if grid is None
+                                 else f"snap-rounded, grid {grid:.3g}")
+        if faces.size == 0:
+            diagnostics["multiplicities"] = "no faces"
+            return _empty(shoelace, diagnostics)
+        with np.errstate(over="ignore", invalid="ignore"):
+            rings = _Rings(faces)
+        finite_result(rings.face_area, "decompose")
+        seg = _ordered_multiplicities(noded, pieces) if grid is None else None
+        mode = "ordered"
+        if seg is not None:
+            result = _windings(rings, seg, faces.size)
+        if seg is None or result["inconsistent"] or result["unmatched"]:
+            seg = _matched_multiplicities(noded, pieces, 0.0 if grid is None else 2.0 * grid)
+            mode = "matched"
+            result = _windings(rings, seg, faces.size)
+        if not (result["inconsistent"] or result["unmatched"] or result["unreached"].size):
+            break
+    if result is None:
+        raise ValueError("decompose: the curve could not be noded (GEOS failed at every "
+                         "snapping grid); check the input for extreme coordinates")
     winding = result["winding"]
     unreached = result["unreached"]
     if unreached.size:
@@ -431,8 +455,13 @@ def _ordered_multiplicities(noded, pieces):
     return _NodedSegments(a, b, np.ones(a.shape[0], dtype=np.int64))
 
 
-def _matched_multiplicities(noded, pieces):
-    """Net multiplicities from the original segments that contain each noded part."""
+def _matched_multiplicities(noded, pieces, tol=0.0):
+    """Net multiplicities from the original segments that contain each noded part.
+
+    ``tol`` is the distance within which a noded segment counts as lying on
+    an original one (at least a few thousand rounding units of the
+    coordinates; twice the grid after snap-rounding).
+    """
     parts = shapely.get_parts(noded)
     c, idx = shapely.get_coordinates(parts, return_index=True)
     same = idx[:-1] == idx[1:]
@@ -448,7 +477,7 @@ def _matched_multiplicities(noded, pieces):
     oa = np.concatenate([p[:-1] for p in pieces])
     ob = np.concatenate([p[1:] for p in pieces])
     scale = float(np.abs(np.concatenate([oa, pa])).max()) or 1.0
-    tol = 1e4 * _EPS * scale
+    tol = max(tol, 1e4 * _EPS * scale)
     tree = shapely.STRtree(shapely.linestrings(np.stack([oa, ob], axis=1)))
     mid = 0.5 * (pa + pb)
     qi, oi = tree.query(shapely.points(mid), predicate="dwithin", distance=tol)
