@@ -68,6 +68,42 @@ class TestStokes:
         assert got.exact
         assert float(got) == pytest.approx(float(exact), rel=1e-13)
 
+    def test_user_surface_with_the_same_boundary(self):
+        # a bumpy surface: every cone triangle split in three around a lifted point
+        x, y, z = syms = sp.symbols("x y z")
+        t = np.linspace(0, 2 * np.pi, 13)[:-1]
+        X = np.column_stack([np.cos(t), np.sin(t), 0.5 * np.cos(3 * t)])
+        C = wp.cone(X)
+        V = C.vertices
+        tri = C.simplices
+        bumps = V[tri].mean(axis=1) + np.array([0.1, -0.2, 0.7])
+        m = V.shape[0]
+        idx = np.arange(len(tri)) + m
+        user = np.concatenate([np.column_stack([tri[:, 0], tri[:, 1], idx]),
+                               np.column_stack([tri[:, 1], tri[:, 2], idx]),
+                               np.column_stack([tri[:, 2], tri[:, 0], idx])])
+        U = wp.SimplicialChain(np.vstack([V, bumps]), user)
+        assert U.boundary() == wp.Path(X).close("chord")
+        comps = [y ** 2 * z, x * z ** 2 - y, x * y]
+        w = wp.Form.from_sympy(comps, syms)
+        exact = float(symbolic.polyline_integral(comps, syms, X, closed=True))
+        assert float(wp.integrate(w.d(), U)) == pytest.approx(exact, rel=1e-12)
+        # a constant 2-form does not see the surface; a non-closed 2-form does
+        c2 = (wp.dx(0) ^ wp.dx(1)) - 2 * (wp.dx(1) ^ wp.dx(2))
+        assert float(wp.integrate(c2, U)) == pytest.approx(float(wp.integrate(c2, C)), rel=1e-12)
+        # for eta = z dx^dy (d eta = dx^dy^dz) the surfaces differ by the boundary of the
+        # tetrahedra [a, b, c, bump]: ∂[a,b,c,p] = [b,c,p] + [c,a,p] + [a,b,p] - [a,b,c];
+        # their signed volumes by determinants (common practice, no source)
+        eta = wp.Form({(0, 1): z}, 2, 3, syms)
+        P = np.vstack([V, bumps])
+        tets = np.column_stack([tri, idx])
+        vols = sum(np.linalg.det(P[t[1:]] - P[t[0]]) / 6 for t in tets)
+        diff = float(wp.integrate(eta, U)) - float(wp.integrate(eta, C))
+        assert abs(vols) > 0.1
+        assert diff == pytest.approx(vols, rel=1e-12)
+        T3 = wp.SimplicialChain(P, tets)
+        assert T3.boundary() == U - C
+
     def test_stokes_for_0_forms_on_1_chains(self):
         xs = sp.symbols("x0:4")
         f = wp.ZeroForm(xs[0] * xs[1] ** 2 - xs[3] ** 3, symbols=xs)
