@@ -68,7 +68,7 @@ def signed_area(path2d, closure="chord") -> float:
     >>> wp.signed_area([[0, 0], [1, 0], [1, 1]], closure="none")  # doctest: +ELLIPSIS
     Traceback (most recent call last):
     ...
-    ValueError: signed_area needs a closed curve, ... (options: 'none', 'chord', 'detrend', 'require')
+    ValueError: signed_area needs a closed curve, ... 'detrend' or 'require' (options: ...)
     """
     path = planar_path(path2d, "signed_area")
     total = 0.0
