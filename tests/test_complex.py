@@ -388,3 +388,30 @@ class TestComplexBadInput:
         B.data[:] = 7  # a copy: the complex is not affected
         assert cx.boundary_matrix(2).toarray().ravel().tolist() == [1, -1, 1]
         assert not cx.vertices.flags.writeable
+
+
+@pytest.mark.parametrize("width, big", [(3, 1_700_000), (4, 50_000)])
+def test_wide_index_keys_give_the_same_complex(width, big):
+    # with many vertices the packed simplex keys no longer fit in int64 and the complex
+    # switches to rank-compressed keys; shifting every index by a constant keeps the
+    # lexicographic order, so both complexes must have identical matrices
+    rng = np.random.default_rng(width)
+    small_V = rng.normal(size=(9, width))
+    top = np.array([rng.choice(9, width, replace=False) for _ in range(10)])
+    top = top[np.unique(np.sort(top, axis=1), axis=0, return_index=True)[1]]
+    V_big = np.zeros((big + 9, width))
+    V_big[big:] = small_V
+    a = wp.SimplicialComplex(small_V, top)
+    b = wp.SimplicialComplex(V_big, top + big)
+    K = width - 1
+    assert a.shape[1:] == b.shape[1:]
+    for k in range(2, K + 1):
+        np.testing.assert_array_equal(a.boundary_matrix(k).toarray(), b.boundary_matrix(k).toarray())
+    for k in range(1, K + 1):
+        np.testing.assert_array_equal(a.simplices(k) + big, b.simplices(k))
+    ch = b.chain(rng.integers(-3, 4, b.shape[K]), K)
+    np.testing.assert_array_equal(b.boundary_matrix(K) @ b.chain_vector(ch),
+                                  b.chain_vector(ch.boundary()))
+    c = rng.normal(size=b.shape[K - 1])
+    np.testing.assert_allclose(a.de_rham(a.whitney(c, K - 1)), c, atol=1e-9)
+    np.testing.assert_allclose(b.de_rham(b.whitney(c, K - 1)), c, atol=1e-9)

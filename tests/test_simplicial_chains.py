@@ -252,3 +252,15 @@ class TestBadInput:
         _ = ch.boundary(), ch.reduced(merge_vertices=True), -ch, 2 * ch
         assert not ch.simplices.flags.writeable and not ch.coefficients.flags.writeable
         np.testing.assert_array_equal(c, [1, 2])
+
+
+@pytest.mark.parametrize("w", [1, 2, 3, 4, 5])
+def test_row_sorting_network_matches_numpy_sort(w):
+    from wedgepath.calculus.simplicial import _sort_rows
+    rng = np.random.default_rng(w)
+    a = rng.integers(0, 6, size=(500, w))
+    tag = a * 10 + np.arange(w)  # carried along: must follow the same permutation
+    s, t = _sort_rows(a, tag)
+    np.testing.assert_array_equal(s, np.sort(a, axis=1))
+    np.testing.assert_array_equal(t // 10, s)
+    np.testing.assert_array_equal(np.sort(t % 10, axis=1), np.tile(np.arange(w), (500, 1)))

@@ -38,9 +38,10 @@ from .._validation import as_float_array, check_choice
 from .forms import Form
 from .integrate import _options
 from .paths import CLOSURES, as_path
-from .simplicial import (SimplicialChain, _as_index_array, _check_form_on,
+from .simplicial import (SimplicialChain, _as_index_array, _check_form_on, _sort_columns,
+                         _sort_rows,
                          _integrate_simplices, _minors, _permutation_parity, _readonly,
-                         _row_keys)
+                         _group_keys, _row_keys)
 
 __all__ = ["SimplicialComplex", "WhitneyForm"]
 
@@ -48,15 +49,14 @@ METRICS = ("time", "arclength")
 
 
 def _lookup(table_keys, rows, n_vertices, table_rows=None):
-    """Positions of sorted ``rows`` in a sorted table (keys or rows)."""
+    """Positions of sorted ``rows`` in a lexicographically sorted table (keys or rows)."""
     keys = _row_keys(rows, n_vertices)
     if keys is not None and table_keys is not None:
         return np.searchsorted(table_keys, keys)
-    # wide keys: lexicographic search through a structured view
-    dt = np.dtype([(f"f{j}", np.int64) for j in range(rows.shape[1])])
-    t = np.ascontiguousarray(table_rows).view(dt).ravel()
-    r = np.ascontiguousarray(rows).view(dt).ravel()
-    return np.searchsorted(t, r)
+    # wide rows: order-preserving keys computed jointly for the table and the queries
+    joint = _group_keys(np.concatenate([table_rows, rows]), n_vertices)
+    m = table_rows.shape[0]
+    return np.searchsorted(joint[:m], joint[m:])
 
 
 class SimplicialComplex:
@@ -116,7 +116,7 @@ class SimplicialComplex:
         if K > verts.shape[1]:
             raise ValueError(f"a {K}-simplex ({K + 1} vertices per row) does not fit in "
                              f"R^{verts.shape[1]}")
-        srt = np.sort(top, axis=1)
+        srt = _sort_rows(top)[0]
         if K >= 1 and top.shape[0]:
             rep = (srt[:, 1:] == srt[:, :-1]).any(axis=1)
             if rep.any():
@@ -125,15 +125,12 @@ class SimplicialComplex:
                                  "needs distinct vertices in each simplex")
         perm = top_keys = None
         if K >= 1:
-            top_keys = _row_keys(srt, V)
-            if top_keys is not None:
-                perm = np.argsort(top_keys, kind="stable")
-                top_keys = top_keys[perm]
-                dup = np.flatnonzero(top_keys[1:] == top_keys[:-1])
-            else:
-                perm = np.lexsort(srt.T[::-1])
-                ss = srt[perm]
-                dup = np.flatnonzero((ss[1:] == ss[:-1]).all(axis=1))
+            gk = _group_keys(srt, V)
+            perm = np.argsort(gk, kind="stable")
+            sk = gk[perm]
+            dup = np.flatnonzero(sk[1:] == sk[:-1])
+            # keys comparable across calls exist only when the packed key fits
+            top_keys = sk if _row_keys(srt[:1], V) is not None else None
             if dup.size:
                 a, b = sorted((int(perm[dup[0]]), int(perm[dup[0] + 1])))
                 raise ValueError(f"simplices {a} and {b} have the same vertices "
@@ -149,20 +146,15 @@ class SimplicialComplex:
         for k in range(1, K):
             if k == K - 1:
                 # faces of the top simplices, "drop vertex i" for i = 0..K, as given
-                faces = np.concatenate([np.sort(top[:, [j for j in range(K + 1) if j != i]],
-                                                axis=1) for i in range(K + 1)])
+                faces = np.concatenate([_sort_rows(top[:, [j for j in range(K + 1) if j != i]])[0]
+                                        for i in range(K + 1)])
             else:
                 cols = list(combinations(range(K + 1), k + 1))
                 faces = np.concatenate([srt[:, list(c)] for c in cols])
-            fk = _row_keys(faces, V)
-            if fk is not None:
-                uk, first, inv = np.unique(fk, return_index=True, return_inverse=True)
-                simp[k] = np.ascontiguousarray(faces[first])
-                keys[k] = uk
-            else:
-                u, inv = np.unique(faces, axis=0, return_inverse=True)
-                simp[k] = np.ascontiguousarray(u)
-                keys[k] = None
+            fk = _group_keys(faces, V)
+            uk, first, inv = np.unique(fk, return_index=True, return_inverse=True)
+            simp[k] = np.ascontiguousarray(faces[first])  # lexicographic order
+            keys[k] = uk if _row_keys(faces[:1], V) is not None else None
             if k == K - 1:
                 self._top_face_ids = inv.reshape(K + 1, top.shape[0])
         self._top_perm = None
@@ -170,7 +162,6 @@ class SimplicialComplex:
             simp[K] = np.ascontiguousarray(top)
             keys[K] = top_keys
             self._top_perm = perm
-            self._top_sorted = srt[perm]
         self._simplices = [_readonly(s) for s in simp]
         self._keys = keys
         self._boundary = {}
@@ -316,24 +307,26 @@ class SimplicialComplex:
 
     # ------------------------------------------------------------- matrices
     def _face_ids(self, k):
-        """For every k-simplex: ids of its k+1 faces (drop vertex i) and signs, (k+1, n_k)."""
+        """For every k-simplex: ids of its k+1 faces (drop vertex i) and signs, lists of (n_k,)."""
         S = self._simplices[k]
         ids, signs = [], []
         for i in range(k + 1):
             cols = [j for j in range(k + 1) if j != i]
-            f = S[:, cols]
-            par = 1
-            if k == self._K and k > 1:
-                par = _permutation_parity(f)  # the top keeps its given vertex order
+            sgn = 1 if i % 2 == 0 else -1
             if k == 1:
-                ids.append(f[:, 0])  # the faces of edges are vertices: ids are indices
+                ids.append(S[:, cols[0]])  # the faces of edges are vertices: ids are indices
             elif k == self._K and self._top_face_ids is not None:
                 ids.append(self._top_face_ids[i])
             else:
-                ids.append(_lookup(self._keys[k - 1], f if k < self._K else np.sort(f, axis=1),
+                f = S[:, cols]
+                ids.append(_lookup(self._keys[k - 1], f if k < self._K else _sort_rows(f)[0],
                                    self._vertices.shape[0], self._simplices[k - 1]))
-            signs.append(np.broadcast_to(par * (1 if i % 2 == 0 else -1), (S.shape[0],)))
-        return np.array(ids), np.array(signs, dtype=np.int64)
+            if k == self._K and k > 1:
+                # the top keeps its given vertex order
+                signs.append(sgn * _permutation_parity(S[:, cols]).astype(np.int8))
+            else:
+                signs.append(np.full(S.shape[0], sgn, dtype=np.int8))
+        return ids, signs
 
     def boundary_matrix(self, k):
         """∂_k as a sparse matrix of shape (n_{k-1}, n_k), integer entries ±1 (CSC format).
@@ -351,15 +344,19 @@ class SimplicialComplex:
         """
         k = self._check_k(k, 1, self._K)
         if k not in self._boundary:
-            ids, signs = self._face_ids(k)  # (k+1, n_k): exactly k+1 entries per column
+            ids, signs = self._face_ids(k)  # k+1 entries in every column
+            ids, signs = _sort_columns(ids, signs)  # sorted row indices within each column
             n_k = self._simplices[k].shape[0]
-            ids, signs = ids.T, signs.T
-            order = np.argsort(ids, axis=1)  # sorted row indices within each column
-            ids = np.take_along_axis(ids, order, axis=1)
-            signs = np.take_along_axis(signs, order, axis=1)
-            indptr = np.arange(0, (k + 1) * n_k + 1, k + 1, dtype=np.int64)
-            M = sps.csc_matrix((signs.ravel(), ids.ravel(), indptr),
-                               shape=(self._simplices[k - 1].shape[0], n_k))
+            n_rows = self._simplices[k - 1].shape[0]
+            nnz = (k + 1) * n_k
+            itype = np.int32 if max(n_rows, nnz) < 2 ** 31 - 1 else np.int64
+            indices = np.empty((n_k, k + 1), dtype=itype)
+            data = np.empty((n_k, k + 1), dtype=np.int64)
+            for j in range(k + 1):
+                indices[:, j] = ids[j]
+                data[:, j] = signs[j]
+            indptr = np.arange(0, nnz + 1, k + 1, dtype=itype)
+            M = sps.csc_matrix((data.ravel(), indices.ravel(), indptr), shape=(n_rows, n_k))
             M.has_sorted_indices = True
             self._boundary[k] = M
         return self._boundary[k].copy()
@@ -420,7 +417,9 @@ class SimplicialComplex:
         nondeg = (srt[:, 1:] != srt[:, :-1]).all(axis=1) if kk else np.ones(len(S), bool)
         idx, srt, coef = idx[nondeg], srt[nondeg], chain.coefficients[nondeg]
         if kk == self._K and kk >= 1:
-            pos = _lookup(self._keys[kk], srt, self._vertices.shape[0], self._top_sorted)
+            top_sorted = None if self._keys[kk] is not None else \
+                _sort_rows(self._simplices[kk])[0][self._top_perm]
+            pos = _lookup(self._keys[kk], srt, self._vertices.shape[0], top_sorted)
             pos = self._top_perm[np.minimum(pos, out.size - 1)]
             stored_sorted = np.sort(self._simplices[kk][pos], axis=1)
         else:

@@ -126,6 +126,46 @@ def _as_coefficients(coefficients, S):
     return np.array(arr, dtype=np.int64)
 
 
+_NETWORKS = {1: [], 2: [(0, 1)], 3: [(0, 1), (1, 2), (0, 1)],
+             4: [(0, 1), (2, 3), (0, 2), (1, 3), (1, 2)]}
+
+
+def _sort_columns(cols, *others):
+    """Compare-exchange sort across a list of equal-length 1-D arrays (one per position).
+
+    ``others`` are lists of arrays permuted alongside.  Lists of up to 4
+    arrays use a sorting network; the arrays are modified only through
+    rebinding (the inputs are not written to).
+    """
+    cols = list(cols)
+    others = [list(o) for o in others]
+    for a, b in _NETWORKS[len(cols)]:
+        swap = cols[a] > cols[b]
+        if not swap.any():
+            continue
+        cols[a], cols[b] = np.where(swap, cols[b], cols[a]), np.where(swap, cols[a], cols[b])
+        for oc in others:
+            oc[a], oc[b] = np.where(swap, oc[b], oc[a]), np.where(swap, oc[a], oc[b])
+    return (cols, *others)
+
+
+def _sort_rows(arr, *others):
+    """Sort each (short) row of ``arr``; apply the same permutation to ``others``.
+
+    Rows of up to 4 entries go through a compare-exchange network (linear
+    time, much faster than a per-row sort); wider rows use argsort.
+    Returns new arrays.
+    """
+    w = arr.shape[1]
+    if w not in _NETWORKS or w == 0:
+        order = np.argsort(arr, axis=1, kind="stable")
+        return (np.take_along_axis(arr, order, axis=1),
+                *(np.take_along_axis(o, order, axis=1) for o in others))
+    res = _sort_columns([arr[:, j] for j in range(w)], *[[o[:, j] for j in range(w)]
+                                                          for o in others])
+    return tuple(np.column_stack(c) for c in res)
+
+
 def _permutation_parity(arr):
     """+1/-1 per row: the sign of the permutation that sorts the row (distinct entries)."""
     w = arr.shape[1]
@@ -150,19 +190,32 @@ def _row_keys(sorted_rows, n_vertices):
     return key
 
 
-def _group(sorted_rows, n_vertices):
-    """(order, starts, inverse-in-order): stable grouping of equal rows."""
+def _group_keys(sorted_rows, n_vertices):
+    """Order-preserving int64 keys of rows, for grouping and sorting within one call.
+
+    Like :func:`_row_keys`, but when the packed key would overflow, the prefix
+    is first replaced by its dense rank (which preserves lexicographic order),
+    so the keys always exist.  Keys from different calls are not comparable.
+    """
     keys = _row_keys(sorted_rows, n_vertices)
-    if keys is None:
-        order = np.lexsort(sorted_rows.T[::-1])
-        srt = sorted_rows[order]
-        new = np.ones(len(order), dtype=bool)
-        new[1:] = (srt[1:] != srt[:-1]).any(axis=1)
-    else:
-        order = np.argsort(keys, kind="stable")
-        srt = keys[order]
-        new = np.ones(len(order), dtype=bool)
-        new[1:] = srt[1:] != srt[:-1]
+    if keys is not None:
+        return keys
+    base = max(int(n_vertices), 1)
+    key = sorted_rows[:, 0].astype(np.int64)
+    for j in range(1, sorted_rows.shape[1]):
+        if key.size and (int(key.max()) + 1) * base >= 2 ** 62:
+            key = np.unique(key, return_inverse=True)[1].ravel().astype(np.int64)
+        key = key * base + sorted_rows[:, j]
+    return key
+
+
+def _group(sorted_rows, n_vertices):
+    """(order, starts): stable sort order of the rows and the start of each group of equal rows."""
+    keys = _group_keys(sorted_rows, n_vertices)
+    order = np.argsort(keys, kind="stable")
+    srt = keys[order]
+    new = np.ones(len(order), dtype=bool)
+    new[1:] = srt[1:] != srt[:-1]
     starts = np.flatnonzero(new)
     return order, starts
 
@@ -175,7 +228,7 @@ def _reduce(simplices, coef, n_vertices):
     S, w = simplices.shape
     if S == 0:
         return simplices, coef
-    srt = np.sort(simplices, axis=1)
+    srt = _sort_rows(simplices)[0]
     if w > 1:
         ok = (srt[:, 1:] != srt[:, :-1]).all(axis=1)
         if not ok.all():
