@@ -1,0 +1,179 @@
+"""Benchmark of streaming a table from a file (a script, not a test).
+
+Target (issue 7): a 10^7 x 16 CSV streamed through the command line,
+``python -m wedgepath leadlag FILE --stream --quiet --json``, with peak
+resident memory under 300 MB.
+
+The CSV (invented lead-lag data: 16 phase-shifted sinusoids plus noise,
+fixed-point text, 1.4 GB) is written into a temporary folder and deleted at
+the end.  Every program runs in its own subprocess, started by a fresh
+runner process whose only child it is, so ``getrusage(RUSAGE_CHILDREN)``
+reports that program's peak RSS alone.  Rows:
+
+* peak RSS of the streamed command line (target < 300 MB), its time, and
+  the result against ``area_matrix`` of the same values in memory;
+* baselines in the same run: the peak RSS and time of ``pandas.read_csv`` of
+  the whole file (just parsing it, the floor for any reader) and of Python
+  importing the command line (the fixed cost);
+* the library call ``wedgepath.io.stream_area_matrix`` in a subprocess;
+* information: the same data as Parquet through ``--stream``.
+
+Run:  .venv/bin/python benchmarks/bench_streaming.py  [--quick]
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from _harness import Table  # noqa: E402
+
+import wedgepath as wp  # noqa: E402
+
+# A runner that starts one program, waits, and reports its wall time and peak RSS.
+_RUNNER = r"""
+import json, resource, subprocess, sys, time
+t0 = time.perf_counter()
+p = subprocess.run(sys.argv[1:], stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+dt = time.perf_counter() - t0
+ru = resource.getrusage(resource.RUSAGE_CHILDREN)
+json.dump({"rc": p.returncode, "time": dt, "maxrss_kb": ru.ru_maxrss,
+           "stdout": p.stdout.decode("utf-8", "replace"),
+           "stderr": p.stderr.decode("utf-8", "replace")[-2000:]}, sys.stdout)
+"""
+
+
+def run_measured(argv):
+    """Run ``argv`` as the only child of a fresh runner; (seconds, peak RSS MB, stdout)."""
+    out = subprocess.run([sys.executable, "-c", _RUNNER, *argv], capture_output=True, text=True,
+                         check=True)
+    rep = json.loads(out.stdout)
+    if rep["rc"] != 0:
+        raise RuntimeError(f"{' '.join(argv[:4])} ... failed (exit {rep['rc']}): {rep['stderr']}")
+    return rep["time"], rep["maxrss_kb"] / 1024.0, rep["stdout"]
+
+
+def block_values(start, rows, n, seed=7):
+    """Quantised (to 1/1000) invented samples of rows ``start .. start+rows-1`` as int64."""
+    t = np.arange(start, start + rows, dtype=np.float64)[:, None]
+    phase = np.arange(n) * (np.pi / (2 * n))
+    noise = np.random.default_rng([seed, start]).standard_normal((rows, n))
+    x = 5000.0 + 2000.0 * np.sin(2 * np.pi * t / 997.0 - phase) + 30.0 * noise
+    return np.rint(x * 1000.0).astype(np.int64)          # 2,800,000 .. 7,200,000
+
+
+def write_csv(path, T, n, block=1_000_000):
+    """Write the table as fixed-point text 'dddd.ddd', built with vectorised digit arithmetic."""
+    with open(path, "wb") as fh:
+        fh.write((",".join(f"c{k:02d}" for k in range(n)) + "\n").encode())
+        for start in range(0, T, block):
+            rows = min(block, T - start)
+            q = block_values(start, rows, n)
+            buf = np.empty((rows, n, 9), dtype=np.uint8)
+            for p in range(7):                              # 7 digits, '.' after the 4th
+                col = p if p < 4 else p + 1
+                buf[:, :, col] = ord("0") + (q // 10 ** (6 - p)) % 10
+            buf[:, :, 4] = ord(".")
+            buf[:, :, 8] = ord(",")
+            buf[:, -1, 8] = ord("\n")
+            fh.write(buf.tobytes())
+
+
+def reference_matrix(T, n, block=1_000_000):
+    X = np.empty((T, n))
+    for start in range(0, T, block):
+        rows = min(block, T - start)
+        X[start:start + rows] = block_values(start, rows, n) / 1000.0
+    return X
+
+
+def rel_diff(a, b):
+    a, b = np.asarray(a, dtype=float), np.asarray(b, dtype=float)
+    return float(np.max(np.abs(a - b)) / np.max(np.abs(b)))
+
+
+def main(quick=False):
+    T, n = (1_000_000 if quick else 10_000_000), 16
+    chunk_rows = 100_000
+    table = Table("streaming from files (issue 7)")
+    py = sys.executable
+    with tempfile.TemporaryDirectory(prefix="wedgepath-bench-") as tmp:
+        csv_path = os.path.join(tmp, f"signals_{T}x{n}.csv")
+        t0 = time.perf_counter()
+        write_csv(csv_path, T, n)
+        size_mb = os.path.getsize(csv_path) / 2 ** 20
+        t_write = time.perf_counter() - t0
+        X = reference_matrix(T, n)
+        A_ref = wp.area_matrix(X)
+
+        # ---------------------------------------------------------- the command line
+        cli = [py, "-m", "wedgepath", "leadlag", csv_path, "--stream", "--quiet", "--json",
+               "--chunk-rows", str(chunk_rows)]
+        runs = [run_measured(cli) for _ in range(1 if quick else 2)]
+        t_cli = min(r[0] for r in runs)
+        rss_cli = max(r[1] for r in runs)
+        A_cli = np.array(json.loads(runs[0][2])["raw_area_matrix"])
+        table.value(f"CLI leadlag --stream peak RSS ({T:.0e} x {n} CSV, {size_mb:.0f} MB)",
+                    rss_cli, 300.0, unit=" MB",
+                    note=f"chunks of {chunk_rows} rows; best time {t_cli:.1f} s "
+                         f"({size_mb / t_cli:.0f} MB/s); file written in {t_write:.0f} s")
+        table.value("  CLI result vs area_matrix in memory (max rel. diff)", rel_diff(A_cli, A_ref),
+                    1e-10, note="same values parsed from the text")
+        small = 25_000
+        t_small, rss_small, _ = run_measured(cli[:-1] + [str(small)])
+        table.info(f"  same with --chunk-rows {small}",
+                   f"{rss_small:.0f} MB RSS, {t_small:.1f} s (the chunk's share of the peak)")
+
+        # ---------------------------------------------------------- baselines, same run
+        t_imp, rss_imp, _ = run_measured([py, "-c", "import wedgepath.cli"])
+        t_pd, rss_pd, _ = run_measured([py, "-c", "import sys, numpy as np, pandas as pd; "
+                                        "pd.read_csv(sys.argv[1], dtype=np.float64, "
+                                        "engine='c')", csv_path])
+        table.info("  baseline: import wedgepath.cli", f"{rss_imp:.0f} MB RSS, {t_imp:.1f} s")
+        table.info("  baseline: pandas.read_csv of the whole file",
+                   f"{rss_pd:.0f} MB RSS, {t_pd:.1f} s")
+        table.info("  streamed CLI / whole-file read_csv",
+                   f"memory {rss_cli / rss_pd:.2f}x, time {t_cli / t_pd:.2f}x")
+
+        # ---------------------------------------------------------- the library call
+        lib = [py, "-c", "import sys, json; from wedgepath.io import stream_area_matrix; "
+               "m = stream_area_matrix(sys.argv[1], chunk_rows=int(sys.argv[2])); "
+               "print(json.dumps(m.values.tolist()))", csv_path, str(chunk_rows)]
+        t_lib, rss_lib, out = run_measured(lib)
+        A_lib = np.array(json.loads(out))
+        table.value("wedgepath.io.stream_area_matrix peak RSS (same CSV)", rss_lib, 300.0,
+                    unit=" MB", note=f"{t_lib:.1f} s; max rel. diff to in-memory "
+                                     f"{rel_diff(A_lib, A_ref):.1e}")
+        os.remove(csv_path)
+
+        # ---------------------------------------------------------- Parquet (information)
+        try:
+            import pandas as pd
+            import pyarrow  # noqa: F401
+        except ImportError:
+            table.info("Parquet --stream", "skipped (pandas/pyarrow not installed)")
+        else:
+            pq_path = os.path.join(tmp, f"signals_{T}x{n}.parquet")
+            pd.DataFrame(X, columns=[f"c{k:02d}" for k in range(n)]).to_parquet(pq_path)
+            pq_mb = os.path.getsize(pq_path) / 2 ** 20
+            X = None
+            t_pq, rss_pq, out = run_measured([py, "-m", "wedgepath", "leadlag", pq_path,
+                                              "--stream", "--quiet", "--json"])
+            A_pq = np.array(json.loads(out)["raw_area_matrix"])
+            table.info(f"Parquet --stream peak RSS (same data, {pq_mb:.0f} MB file)",
+                       f"{rss_pq:.0f} MB, {t_pq:.1f} s; max rel. diff {rel_diff(A_pq, A_ref):.1e}"
+                       " (no target: the Parquet reader loads the whole file)")
+    return table.print()
+
+
+if __name__ == "__main__":
+    ok = main(quick="--quick" in sys.argv)
+    sys.exit(0 if ok else 1)
