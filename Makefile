@@ -25,9 +25,9 @@ demo: $(VENV)/.installed-plot
 test: $(VENV)/.installed-test
 	$(PY) -m pytest -q
 
-## bench: run every benchmark, each against its baseline in the same run
-bench: $(VENV)/.installed-bench
-	@set -e; for f in benchmarks/bench_*.py; do $(PY) $$f; done
+## bench: run every benchmark, each against its baseline in the same run; writes docs/performance.md
+bench: $(VENV)/.installed-bench $(VENV)/.installed-dask
+	$(PY) benchmarks/run_all.py
 
 clean:
 	rm -rf $(VENV) build dist src/*.egg-info .pytest_cache .hypothesis
