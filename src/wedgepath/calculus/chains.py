@@ -147,7 +147,7 @@ class Chain:
     def __init__(self, terms=()):
         if isinstance(terms, Path):
             terms = [(terms, 1)]
-        paths, coefs = [], []
+        paths, coefs, slot = [], [], {}
         for item in terms:
             try:
                 path, c = item
@@ -156,11 +156,11 @@ class Chain:
             if not isinstance(path, Path):
                 path = Path(path)
             c = as_int(c, "chain coefficient")
-            for k, seen in enumerate(paths):
-                if seen is path:  # the same Path object: add coefficients
-                    coefs[k] += c
-                    break
+            k = slot.get(id(path))
+            if k is not None:  # the same Path object: add coefficients
+                coefs[k] += c
             else:
+                slot[id(path)] = len(paths)
                 paths.append(path)
                 coefs.append(c)
         keep = [k for k, c in enumerate(coefs) if c != 0]
