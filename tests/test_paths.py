@@ -66,7 +66,7 @@ class TestBadInput:
             wp.Path(pts)
 
     @pytest.mark.parametrize("times, words", [
-        ([0.0, 1.0], "2 entries but points has 3"),
+        ([0.0, 1.0], "2 entries but the data have 3 samples"),
         ([0.0, 1.0, 1.0], "strictly increasing"),
         ([0.0, 2.0, 1.0], "strictly increasing"),
         ([0.0, np.nan, 2.0], "NaN"),
@@ -77,7 +77,7 @@ class TestBadInput:
             wp.Path(np.zeros((3, 2)), times=times)
 
     @pytest.mark.parametrize("names, exc, words", [
-        (["a"], ValueError, "1 entries but points has 2"),
+        (["a"], ValueError, "1 entries but the data have 2 channels"),
         (["a", "a"], ValueError, "distinct"),
         ("ab", TypeError, "sequence of strings"),
         (["a", 2], TypeError, "strings"),

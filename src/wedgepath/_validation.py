@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import numbers
 import operator
+from collections.abc import Sequence
 
 import numpy as np
 
@@ -18,6 +19,9 @@ __all__ = [
     "as_float_array",
     "check_choice",
     "as_int",
+    "check_names",
+    "check_times",
+    "check_values",
 ]
 
 
@@ -116,3 +120,59 @@ def as_int(value, name: str) -> int:
         return operator.index(value)
     except TypeError:
         raise TypeError(f"{name} must be an integer, got {type(value).__name__} {value!r}") from None
+
+
+def check_names(names, n: int, what: str = "names") -> tuple:
+    """``names`` as a tuple of ``n`` distinct strings (one per channel)."""
+    if isinstance(names, str) or not isinstance(names, (Sequence, np.ndarray)):
+        raise TypeError(f"{what} must be a sequence of strings, one per channel")
+    names = tuple(names)
+    if len(names) != n:
+        raise ValueError(f"{what} has {len(names)} entries but the data have {n} channels")
+    for nm in names:
+        if not isinstance(nm, str):
+            raise TypeError(f"channel names must be strings, got {nm!r}")
+    if len(set(names)) != n:
+        dup = sorted({nm for nm in names if names.count(nm) > 1})
+        raise ValueError(f"channel names must be distinct; repeated: {dup}")
+    return names
+
+
+def check_times(times, T: int, what: str = "times") -> np.ndarray:
+    """``times`` as a fresh float64 array of ``T`` finite, strictly increasing values."""
+    if hasattr(times, "to_numpy") and not isinstance(times, np.ndarray):
+        times = times.to_numpy()
+    t = as_float_array(times, what, ndim=1)
+    if t.shape[0] != T:
+        raise ValueError(f"{what} has {t.shape[0]} entries but the data have {T} samples")
+    if T > 1:
+        d = np.diff(t)
+        if not np.all(d > 0):
+            k = int(np.flatnonzero(~(d > 0))[0])
+            raise ValueError(f"{what} must be strictly increasing; {what}[{k + 1}]={t[k + 1]!r} "
+                             f"does not exceed {what}[{k}]={t[k]!r}")
+    return t
+
+
+def check_values(vals, m: int, label: str, where) -> np.ndarray:
+    """Check what a user's callable returned for ``m`` points: real, shape (m,), finite.
+
+    A scalar (or shape (1,)) is broadcast.  ``where(k)`` describes point ``k``
+    for the error message.
+    """
+    vals = np.asarray(vals)
+    if vals.dtype.kind == "c":
+        raise ValueError(f"{label} returned complex values")
+    if vals.dtype.kind not in "iufb":
+        raise TypeError(f"{label} returned {vals.dtype} values; it must return real numbers")
+    if vals.shape == () or vals.shape == (1,):
+        vals = np.full(m, float(vals.reshape(())))
+    elif vals.shape != (m,):
+        raise ValueError(f"{label} returned shape {vals.shape} for {m} points; "
+                         "it must return one value per point, shape (m,)")
+    vals = vals.astype(np.float64, copy=False)
+    bad = ~np.isfinite(vals)
+    if bad.any():
+        k = int(np.flatnonzero(bad)[0])
+        raise ValueError(f"{label} is not finite at {where(k)} ({int(bad.sum())} bad points in all)")
+    return vals

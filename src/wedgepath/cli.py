@@ -286,34 +286,17 @@ def _matrix_lines(M, names, indent="  "):
 
 
 # --------------------------------------------------------------------------- leadlag
-def leadlag_report(values, times, names, *, closure="chord", normalize=None, window=None,
-                   step=None, surrogates=None, surrogate_method="shift", seed=0, top=3,
-                   progress=None):
-    """Compute the lead-lag report as a JSON-ready dict (used by the CLI and the demo)."""
-    from .signals import area_matrix, cyclic_order, rolling_area_matrix, surrogate_test
+def _order_section(A, names, top):
+    """Cyclic order, net lead and leaders/laggers of a matrix, as report entries."""
+    from .signals import cyclic_order
 
-    n = values.shape[1]
-    if n < 2:
-        raise CLIError(f"lead-lag needs at least 2 channels, got {n}")
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always")
-        A = area_matrix(values, times=times, closure=closure, normalize=normalize)
-        raw = A if normalize is None else area_matrix(values, times=times, closure=closure)
-    notes = [str(w.message) for w in caught]
-    Afin = np.nan_to_num(A, nan=0.0)
+    n = len(names)
+    Afin = np.nan_to_num(np.asarray(A, dtype=float), nan=0.0)
     order = cyclic_order(Afin)
     lead = Afin.sum(axis=1)
     rank = np.argsort(-lead, kind="stable")
     k = min(top, n)
-    report = {
-        "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
-        "wedgepath_version": __version__,
-        "channels": list(names),
-        "samples": int(values.shape[0]),
-        "closure": closure,
-        "normalize": normalize,
-        "area_matrix": A,
-        "raw_area_matrix": raw,
+    return {
         "cyclic_order": {
             "order": [names[i] for i in order.order],
             "phases_rad": {names[i]: float(order.phases[i]) for i in range(n)},
@@ -323,6 +306,33 @@ def leadlag_report(values, times, names, *, closure="chord", normalize=None, win
         "net_lead": {names[i]: float(lead[i]) for i in range(n)},
         "leaders": [names[i] for i in rank[:k]],
         "laggers": [names[i] for i in rank[::-1][:k]],
+    }
+
+
+def leadlag_report(values, times, names, *, closure="chord", normalize=None, window=None,
+                   step=None, surrogates=None, surrogate_method="shift", seed=0, top=3,
+                   progress=None):
+    """Compute the lead-lag report as a JSON-ready dict (used by the CLI and the demo)."""
+    from .signals import area_matrix, rolling_area_matrix, surrogate_test
+
+    n = values.shape[1]
+    if n < 2:
+        raise CLIError(f"lead-lag needs at least 2 channels, got {n}")
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        A = area_matrix(values, times=times, closure=closure, normalize=normalize)
+        raw = A if normalize is None else area_matrix(values, times=times, closure=closure)
+    notes = [str(w.message) for w in caught]
+    report = {
+        "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
+        "wedgepath_version": __version__,
+        "channels": list(names),
+        "samples": int(values.shape[0]),
+        "closure": closure,
+        "normalize": normalize,
+        "area_matrix": A,
+        "raw_area_matrix": raw,
+        **_order_section(A, names, top),
         "notes": notes,
     }
     if window is not None:
@@ -475,7 +485,6 @@ def _estimated_rows(path):
 def _cmd_leadlag_stream(args, out):
     from ._progress import Progress
     from .io import stream_area_matrix
-    from .signals import cyclic_order
 
     clash = [flag for flag, val in (("--window", args.window), ("--surrogates", args.surrogates),
                                      ("--normalize", args.normalize)) if val]
@@ -494,25 +503,13 @@ def _cmd_leadlag_stream(args, out):
                                delimiter=args.delimiter, chunk_rows=args.chunk_rows, progress=tick)
     names = list(A.names)
     M = A.values
-    order = cyclic_order(M)
-    lead = M.sum(axis=1)
-    rank = np.argsort(-lead, kind="stable")
-    k = min(args.top, len(names))
     rep = {
         "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
         "wedgepath_version": __version__,
         "channels": names, "samples": int(last[0]), "closure": "chord", "normalize": None,
         "streamed": True, "chunk_rows": args.chunk_rows,
         "area_matrix": M, "raw_area_matrix": M,
-        "cyclic_order": {
-            "order": [names[i] for i in order.order],
-            "phases_rad": {names[i]: float(order.phases[i]) for i in range(len(names))},
-            "fit": float(order.fit),
-            "moduli": {names[i]: float(order.moduli[i]) for i in range(len(names))},
-        },
-        "net_lead": {names[i]: float(lead[i]) for i in range(len(names))},
-        "leaders": [names[i] for i in rank[:k]],
-        "laggers": [names[i] for i in rank[::-1][:k]],
+        **_order_section(M, names, args.top),
         "notes": [],
         "input": {"table": os.path.abspath(args.table), "time_column": args.time},
     }

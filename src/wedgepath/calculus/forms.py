@@ -38,7 +38,7 @@ import numpy as np
 import sympy
 
 from .. import symbolic
-from .._validation import as_int
+from .._validation import as_int, check_values
 
 __all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient"]
 
@@ -169,22 +169,7 @@ class Coefficient:
                 vals = self.func(*coords.T)
             else:
                 vals = self.func(coords)
-        vals = np.asarray(vals)
-        if vals.dtype.kind == "c":
-            raise ValueError(f"{label} returned complex values")
-        if vals.dtype.kind not in "iufb":
-            raise TypeError(f"{label} returned {vals.dtype} values; it must return real numbers")
-        if vals.shape == () or vals.shape == (1,):
-            vals = np.full(m, float(vals.reshape(())))
-        elif vals.shape != (m,):
-            raise ValueError(f"{label} returned shape {vals.shape} for {m} points; "
-                             f"a callable coefficient must map (m, n) coordinates to shape (m,)")
-        vals = vals.astype(np.float64, copy=False)
-        if not np.all(np.isfinite(vals)):
-            bad = int(np.flatnonzero(~np.isfinite(vals))[0])
-            raise ValueError(f"{label} is not finite at the point {coords[bad].tolist()} "
-                             f"({int((~np.isfinite(vals)).sum())} bad points in all)")
-        return vals
+        return check_values(vals, m, label, lambda k: f"the point {coords[k].tolist()}")
 
     # -- algebra
     def _combine(self, other, op):

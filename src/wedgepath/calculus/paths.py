@@ -20,11 +20,9 @@ Conventions (see the user guide for figures):
 
 from __future__ import annotations
 
-from collections.abc import Sequence
-
 import numpy as np
 
-from .._validation import as_float_array, check_choice
+from .._validation import as_float_array, check_choice, check_names, check_times
 
 __all__ = ["Path", "CLOSURES", "as_path"]
 
@@ -88,8 +86,8 @@ class Path:
             raise ValueError("points has no complete sample: every row contains NaN")
         self._points = _readonly(pts)
         self._gap_rows = _readonly(gap_rows) if gap_rows.any() else None
-        self._times = None if times is None else _readonly(_check_times(times, T))
-        self._names = None if names is None else _check_names(names, n)
+        self._times = None if times is None else _readonly(check_times(times, T))
+        self._names = None if names is None else check_names(names, n)
         self._pieces = None
 
     # ------------------------------------------------------------------ views
@@ -389,33 +387,6 @@ def _join_with_gaps(pieces, names) -> Path:
         if not np.all(np.diff(tt) > 0):  # closure chords may run past the next piece's start
             tt = None
     return Path._trusted(np.vstack(arrays), tt, names)
-
-
-def _check_times(times, T: int) -> np.ndarray:
-    t = as_float_array(times, "times", ndim=1)
-    if t.shape[0] != T:
-        raise ValueError(f"times has {t.shape[0]} entries but points has {T} samples")
-    d = np.diff(t)
-    if not np.all(d > 0):
-        k = int(np.flatnonzero(~(d > 0))[0])
-        raise ValueError(f"times must be strictly increasing; times[{k + 1}]={t[k + 1]!r} "
-                         f"does not exceed times[{k}]={t[k]!r}")
-    return t
-
-
-def _check_names(names, n: int) -> tuple:
-    if isinstance(names, str) or not isinstance(names, (Sequence, np.ndarray)):
-        raise TypeError("names must be a sequence of strings, one per channel")
-    names = tuple(names)
-    if len(names) != n:
-        raise ValueError(f"names has {len(names)} entries but points has {n} channels")
-    for nm in names:
-        if not isinstance(nm, str):
-            raise TypeError(f"channel names must be strings, got {nm!r}")
-    if len(set(names)) != n:
-        dup = sorted({nm for nm in names if names.count(nm) > 1})
-        raise ValueError(f"channel names must be distinct; repeated: {dup}")
-    return names
 
 
 def _real(x, name: str) -> float:

@@ -39,7 +39,7 @@ from ..calculus.forms import Coefficient, Form
 from ..calculus.integrate import Integral, IntegrationWarning, register_domain
 from ..calculus.paths import Path
 from ..calculus.quadrature import gauss_legendre, points_needed
-from .._validation import as_int
+from .._validation import as_int, check_values
 from ._input import closed_pieces, finite_result, planar_path
 from .area import _piece_area, _too_few_points
 
@@ -62,23 +62,7 @@ class _Integrand:
 
 
 def _check_values(vals, m, label, x, y):
-    vals = np.asarray(vals)
-    if vals.dtype.kind == "c":
-        raise ValueError(f"{label} returned complex values")
-    if vals.dtype.kind not in "iufb":
-        raise TypeError(f"{label} returned {vals.dtype} values; it must return real numbers")
-    if vals.shape == () or vals.shape == (1,):
-        vals = np.full(m, float(vals.reshape(())))
-    elif vals.shape != (m,):
-        raise ValueError(f"{label} returned shape {vals.shape} for {m} points; it must map "
-                         "arrays x, y of shape (m,) to values of shape (m,)")
-    vals = vals.astype(np.float64, copy=False)
-    bad = ~np.isfinite(vals)
-    if bad.any():
-        k = int(np.flatnonzero(bad)[0])
-        raise ValueError(f"{label} is not finite at ({x[k]!r}, {y[k]!r}) "
-                         f"({int(bad.sum())} bad points in all)")
-    return vals
+    return check_values(vals, m, label, lambda k: f"({x[k]!r}, {y[k]!r})")
 
 
 def _from_coefficient(coef: Coefficient, label: str) -> _Integrand:

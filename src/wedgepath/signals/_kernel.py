@@ -24,11 +24,11 @@ from __future__ import annotations
 
 import math
 import warnings
-from collections.abc import Mapping, Sequence
+from collections.abc import Mapping
 
 import numpy as np
 
-from .._validation import as_float_array, check_choice
+from .._validation import as_float_array, check_choice, check_names, check_times  # noqa: F401 (re-exported)
 from ..calculus.paths import CLOSURES, Path
 
 __all__ = []  # internal module
@@ -94,36 +94,6 @@ def _is_dataframe(obj) -> bool:
 def _is_series(obj) -> bool:
     return (hasattr(obj, "index") and hasattr(obj, "to_numpy") and hasattr(obj, "dtype")
             and not hasattr(obj, "columns") and not isinstance(obj, np.ndarray))
-
-
-def check_names(names, n: int, what: str = "names") -> tuple:
-    if isinstance(names, str) or not isinstance(names, (Sequence, np.ndarray)):
-        raise TypeError(f"{what} must be a sequence of strings, one per channel")
-    names = tuple(names)
-    if len(names) != n:
-        raise ValueError(f"{what} has {len(names)} entries but the data have {n} channels")
-    for nm in names:
-        if not isinstance(nm, str):
-            raise TypeError(f"channel names must be strings, got {nm!r}")
-    if len(set(names)) != n:
-        dup = sorted({nm for nm in names if names.count(nm) > 1})
-        raise ValueError(f"channel names must be distinct; repeated: {dup}")
-    return names
-
-
-def check_times(times, T: int, what: str = "times") -> np.ndarray:
-    if hasattr(times, "to_numpy") and not isinstance(times, np.ndarray):
-        times = times.to_numpy()
-    t = as_float_array(times, what, ndim=1)
-    if t.shape[0] != T:
-        raise ValueError(f"{what} has {t.shape[0]} entries but the data have {T} samples")
-    if T > 1:
-        d = np.diff(t)
-        if not np.all(d > 0):
-            k = int(np.flatnonzero(~(d > 0))[0])
-            raise ValueError(f"{what} must be strictly increasing; {what}[{k + 1}]={t[k + 1]!r} "
-                             f"does not exceed {what}[{k}]={t[k]!r}")
-    return t
 
 
 def _frame_values(df, what):
