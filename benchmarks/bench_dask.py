@@ -13,8 +13,7 @@ the generation or a copy over the network.  The in-memory baseline is
 of BLAS's threads).  Best of several interleaved runs.
 
 Information rows: the threads scheduler on the in-memory array (no
-cluster), and many recordings at once (``area_matrices``) against a loop of
-in-memory calls.
+cluster), and many recordings at once (``area_matrices``) against a loop of in-memory calls.
 
 Run:  .venv/bin/python benchmarks/bench_dask.py  [--quick]
 """
