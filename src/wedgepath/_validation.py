@@ -22,6 +22,12 @@ __all__ = [
     "check_names",
     "check_times",
     "check_values",
+    "as_real",
+    "check_bool",
+    "as_rng",
+    "as_coefficients",
+    "checked_sums",
+    "scaled_coefficients",
 ]
 
 
@@ -76,11 +82,22 @@ def as_float_array(value, name: str, *, ndim=None, allow_nan: bool = False,
         for k, item in enumerate(flat_in):
             if isinstance(item, (bool, np.bool_)) or not isinstance(item, numbers.Real):
                 raise TypeError(f"{name} contains a non-real entry {item!r} at flat index {k}")
-            flat_out[k] = float(item)
+            try:
+                flat_out[k] = float(item)
+            except OverflowError:  # a Python int (or Fraction) beyond float64
+                raise ValueError(f"{name} has an entry too large for float64 at flat index {k}; "
+                                 "rescale the data") from None
         arr = out
     elif kind not in "iuf":
         raise TypeError(f"{name} has unsupported {_describe_dtype(arr)}")
     else:
+        if kind == "f" and arr.dtype.itemsize > 8 and arr.size:
+            # long double: values beyond float64 would silently become inf
+            big = np.isfinite(arr) & (np.abs(arr) > np.finfo(np.float64).max)
+            if big.any():
+                where = tuple(int(w) for w in np.argwhere(big)[0])
+                raise ValueError(f"{name} has an entry too large for float64 at index {where}; "
+                                 "rescale the data")
         if copy:
             arr = np.array(arr, dtype=np.float64, order="C")
         else:
@@ -149,8 +166,9 @@ def check_times(times, T: int, what: str = "times") -> np.ndarray:
         d = np.diff(t)
         if not np.all(d > 0):
             k = int(np.flatnonzero(~(d > 0))[0])
-            raise ValueError(f"{what} must be strictly increasing; {what}[{k + 1}]={t[k + 1]!r} "
-                             f"does not exceed {what}[{k}]={t[k]!r}")
+            raise ValueError(f"{what} must be strictly increasing; "
+                             f"{what}[{k + 1}]={float(t[k + 1])!r} "
+                             f"does not exceed {what}[{k}]={float(t[k])!r}")
     return t
 
 
@@ -176,3 +194,84 @@ def check_values(vals, m: int, label: str, where) -> np.ndarray:
         k = int(np.flatnonzero(bad)[0])
         raise ValueError(f"{label} is not finite at {where(k)} ({int(bad.sum())} bad points in all)")
     return vals
+
+
+def as_real(value, name: str) -> float:
+    """``value`` as a finite Python float; TypeError for non-numbers, ValueError for inf/NaN."""
+    if isinstance(value, (bool, np.bool_)) or not isinstance(value, (numbers.Real, np.ndarray)):
+        raise TypeError(f"{name} must be a real number, got {type(value).__name__} {value!r}")
+    if isinstance(value, np.ndarray) and (value.ndim != 0 or value.dtype.kind not in "iuf"):
+        raise TypeError(f"{name} must be a real number, got an array of shape {value.shape}")
+    try:
+        v = float(value)
+    except OverflowError:
+        raise ValueError(f"{name} is too large for float64") from None
+    if not np.isfinite(v):
+        raise ValueError(f"{name} must be finite, got {v}")
+    return v
+
+
+def check_bool(value, name: str) -> bool:
+    """Refuse anything but True or False (a string such as "no" is not a flag)."""
+    if not isinstance(value, (bool, np.bool_)):
+        raise TypeError(f"{name} must be True or False, got {value!r}")
+    return bool(value)
+
+
+def as_rng(seed, name: str = "seed") -> np.random.Generator:
+    """A numpy Generator from ``seed``: None, an int >= 0, a SeedSequence or a Generator."""
+    if isinstance(seed, np.random.Generator):
+        return seed
+    if seed is None or isinstance(seed, np.random.SeedSequence):
+        return np.random.default_rng(seed)
+    if isinstance(seed, (bool, np.bool_)) or not isinstance(seed, (numbers.Integral, np.integer)):
+        raise TypeError(f"{name} must be None, an integer >= 0 or a numpy Generator, "
+                        f"got {type(seed).__name__} {seed!r}")
+    if int(seed) < 0:
+        raise ValueError(f"{name} must be >= 0, got {int(seed)}")
+    return np.random.default_rng(int(seed))
+
+
+#: integer chain coefficients are kept within +-COEF_LIMIT, so that sums and
+#: products of them are checked before they could wrap around in int64
+COEF_LIMIT = 2 ** 62
+
+
+def _coef_overflow(what):
+    return ValueError(f"{what} exceed the supported range +-2**62 of chain coefficients "
+                      "(int64 arithmetic would wrap around)")
+
+
+def as_coefficients(values, what: str = "coefficients") -> np.ndarray:
+    """Python ints (or an integer array) as int64, refusing magnitudes above 2**62."""
+    vals = [int(v) for v in values] if not isinstance(values, np.ndarray) else values
+    if isinstance(vals, list):
+        if any(v > COEF_LIMIT or v < -COEF_LIMIT for v in vals):
+            raise _coef_overflow(what)
+        return np.array(vals, dtype=np.int64)
+    arr = np.asarray(vals)
+    if arr.size and (int(arr.max()) > COEF_LIMIT or int(arr.min()) < -COEF_LIMIT):
+        raise _coef_overflow(what)
+    return arr.astype(np.int64)
+
+
+def checked_sums(terms, starts, what: str = "coefficients") -> np.ndarray:
+    """``np.add.reduceat(terms, starts)`` for int64 ``terms``, refusing sums beyond 2**62.
+
+    The sums are also formed in float64; any true sum of magnitude 2**63 or
+    more shows there as more than 2**62, so a wrapped int64 result never
+    escapes.
+    """
+    approx = np.add.reduceat(terms.astype(np.float64), starts)
+    if approx.size and float(np.max(np.abs(approx))) > COEF_LIMIT:
+        raise _coef_overflow(what)
+    return np.add.reduceat(terms, starts)
+
+
+def scaled_coefficients(coef: np.ndarray, k: int, what: str = "coefficients") -> np.ndarray:
+    """``k * coef`` for int64 ``coef``, refusing results beyond 2**62."""
+    if not coef.any():
+        return np.zeros_like(coef)
+    if abs(k) * max(abs(int(coef.max())), abs(int(coef.min()))) > COEF_LIMIT:
+        raise _coef_overflow(what)
+    return np.int64(k) * coef

@@ -23,6 +23,7 @@ array([nan,  3.])
 
 from __future__ import annotations
 
+import contextlib
 import csv
 import io as _io
 import math
@@ -130,6 +131,9 @@ def _select(header, columns, time_column, name):
     else:
         if isinstance(columns, str):
             columns = [c.strip() for c in columns.split(",") if c.strip()]
+        elif not isinstance(columns, (list, tuple)):
+            raise TypeError(f"columns must be a list of column names or a comma-separated "
+                            f"string, got {type(columns).__name__}")
         chosen = list(columns)
         for c in chosen:
             if c not in header:
@@ -291,6 +295,7 @@ def _pandas_text_chunks(source, name, columns, time_column, delimiter, chunk_row
             pass
         raise TableError(f"{name}: could not be parsed as a numeric table")
 
+    reader = None
     try:
         reader = pd.read_csv(source, sep=delimiter, header=None, names=header, skiprows=lineno,
                              usecols=usecols, dtype={c: np.float64 for c in usecols},
@@ -309,6 +314,9 @@ def _pandas_text_chunks(source, name, columns, time_column, delimiter, chunk_row
         raise
     except (ValueError, UnicodeDecodeError, pd.errors.ParserError, pd.errors.EmptyDataError):
         locate()
+    finally:
+        if reader is not None:
+            reader.close()   # the file is shut as soon as reading stops, even on an error
 
 
 def _text_chunks(stream, name, header, delimiter, lineno, chosen, want, t_idx, time_column,
@@ -422,6 +430,8 @@ def read_table(source, *, columns=None, time_column=None, delimiter=None, min_ro
     -------
     Table
     """
+    if isinstance(min_rows, bool) or not isinstance(min_rows, int):
+        raise TypeError(f"min_rows must be an integer, got {min_rows!r}")
     chunks = list(iter_table_chunks(source, columns=columns, time_column=time_column,
                                     delimiter=delimiter, chunk_rows=1 << 16, engine=engine))
     name = _name_of(source)
@@ -457,13 +467,23 @@ def stream_area_matrix(source, *, columns=None, time_column=None, delimiter=None
     array([[ 0.,  1.],
            [-1.,  0.]])
     """
+    chunks = iter_table_chunks(source, columns=columns, time_column=time_column,
+                               delimiter=delimiter, chunk_rows=chunk_rows, engine=engine)
+    # closing() shuts the file at once when a chunk is refused below
+    with contextlib.closing(chunks):
+        acc, rows = _stream_chunks(chunks, source, progress)
+    if acc is None or rows < 2:
+        raise TableError(f"{_name_of(source)}: fewer than 2 data rows")
+    return acc.result(labels=True)
+
+
+def _stream_chunks(chunks, source, progress):
     from .signals import AreaAccumulator
 
     acc = None
     rows = 0
     last_time = None
-    for chunk in iter_table_chunks(source, columns=columns, time_column=time_column,
-                                   delimiter=delimiter, chunk_rows=chunk_rows, engine=engine):
+    for chunk in chunks:
         if acc is None:
             if len(chunk.names) < 2:
                 raise TableError(f"{_name_of(source)}: lead-lag needs at least 2 channel columns")
@@ -480,6 +500,4 @@ def stream_area_matrix(source, *, columns=None, time_column=None, delimiter=None
         rows += chunk.values.shape[0]
         if progress is not None:
             progress(rows)
-    if acc is None or rows < 2:
-        raise TableError(f"{_name_of(source)}: fewer than 2 data rows")
-    return acc.result(labels=True)
+    return acc, rows

@@ -10,7 +10,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .._validation import as_float_array, as_int
+from .._validation import (COEF_LIMIT, as_coefficients, as_float_array, as_int, checked_sums,
+                           scaled_coefficients)
 from .paths import Path
 
 __all__ = ["Chain", "ZeroChain"]
@@ -47,10 +48,13 @@ class ZeroChain:
         coef = [as_int(c, "coefficient") for c in coefficients]
         if len(coef) != pts.shape[0]:
             raise ValueError(f"{len(coef)} coefficients for {pts.shape[0]} points")
+        carr = as_coefficients(coef)
         if pts.shape[0]:
             uniq, inv = np.unique(pts, axis=0, return_inverse=True)
-            summed = np.zeros(uniq.shape[0], dtype=np.int64)
-            np.add.at(summed, inv.ravel(), np.asarray(coef, dtype=np.int64))
+            inv = inv.ravel()
+            order = np.argsort(inv, kind="stable")
+            first = np.flatnonzero(np.concatenate(([True], np.diff(inv[order]) != 0)))
+            summed = checked_sums(carr[order], first)
             keep = summed != 0
             pts, coef_arr = uniq[keep], summed[keep]
         else:
@@ -112,7 +116,7 @@ class ZeroChain:
 
     def __mul__(self, k):
         k = as_int(k, "chain multiplier")
-        return ZeroChain(self._points, (k * self._coef).tolist(), dim=self.dim)
+        return ZeroChain(self._points, scaled_coefficients(self._coef, k).tolist(), dim=self.dim)
 
     __rmul__ = __mul__
 
@@ -163,6 +167,8 @@ class Chain:
                 slot[id(path)] = len(paths)
                 paths.append(path)
                 coefs.append(c)
+        if any(abs(c) > COEF_LIMIT for c in coefs):
+            raise ValueError("chain coefficients exceed the supported range +-2**62")
         keep = [k for k, c in enumerate(coefs) if c != 0]
         paths = [paths[k] for k in keep]
         coefs = [coefs[k] for k in keep]

@@ -34,7 +34,7 @@ from math import factorial
 import numpy as np
 import scipy.sparse as sps
 
-from .._validation import as_float_array, check_choice
+from .._validation import COEF_LIMIT, as_float_array, check_choice
 from .forms import Form
 from .integrate import _options
 from .paths import CLOSURES, as_path
@@ -436,7 +436,13 @@ class SimplicialComplex:
                 sign = sign * _permutation_parity(self._simplices[kk][pos])
         else:
             sign = np.ones(idx.shape[0], dtype=np.int64)
-        np.add.at(out, pos, sign * coef)
+        terms = sign * coef
+        approx = np.zeros(out.size)
+        np.add.at(approx, pos, terms.astype(np.float64))   # int64 sums must not wrap
+        if approx.size and float(np.max(np.abs(approx))) > COEF_LIMIT:
+            raise ValueError("the chain's coefficients on a simplex sum beyond the supported "
+                             "range +-2**62")
+        np.add.at(out, pos, terms)
         return out
 
     def chain(self, coefficients, k):

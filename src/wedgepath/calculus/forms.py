@@ -32,6 +32,7 @@ True
 from __future__ import annotations
 
 import numbers
+from collections.abc import Mapping
 from itertools import combinations
 
 import numpy as np
@@ -123,7 +124,10 @@ class Coefficient:
             raise TypeError("a form coefficient cannot be a boolean")
         if isinstance(spec, numbers.Real) or (isinstance(spec, np.ndarray) and spec.ndim == 0
                                               and spec.dtype.kind in "iuf"):
-            v = float(spec)
+            try:
+                v = float(spec)
+            except OverflowError:
+                raise ValueError("form coefficient is too large for float64") from None
             if not np.isfinite(v):
                 raise ValueError(f"form coefficient must be finite, got {v}")
             return cls.constant(v)
@@ -259,7 +263,12 @@ class Form:
             elif len(symbols) != dim:
                 raise ValueError(f"{len(symbols)} symbols for a form on R^{dim}")
         clean = {}
-        for idx, coef in dict(terms).items():
+        if not isinstance(terms, Mapping):
+            raise TypeError(f"terms must be a dict {{index tuple: coefficient}}, "
+                            f"got {type(terms).__name__}")
+        for idx, coef in terms.items():
+            if not isinstance(idx, tuple):
+                raise TypeError(f"form term keys must be tuples of indices, e.g. (0, 1), got {idx!r}")
             idx = tuple(as_int(i, "form index") for i in idx)
             if len(idx) != degree:
                 raise ValueError(f"term {idx} does not have {degree} indices")
@@ -589,7 +598,10 @@ def TwoForm(components, *, dim=None, symbols=None, degree=None) -> Form:
         specs = list(components.values())
         syms = _infer_symbols(specs, symbols)
         terms = {}
-        for (i, j), c in components.items():
+        for key, c in components.items():
+            if not isinstance(key, tuple) or len(key) != 2:
+                raise ValueError(f"TwoForm keys must be index pairs (i, j), got {key!r}")
+            i, j = (as_int(v, "form index") for v in key)
             if i == j:
                 raise ValueError(f"term {(i, j)} repeats an index; dx_i ^ dx_i = 0")
             terms[(i, j)] = Coefficient.make(c, syms, degree)

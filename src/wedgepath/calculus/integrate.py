@@ -217,7 +217,17 @@ def integrate(form, chain, closure=None, curve="linear", *, rtol=1e-10, atol=0.0
     if closure is not None:
         check_choice(closure, "closure", CLOSURES)
     opts = _options(rtol, atol, order, max_levels)
+    # Overflow is reported once, as a ValueError on the result, not as
+    # floating-point warnings from deep inside the quadrature.
+    with np.errstate(over="ignore", invalid="ignore"):
+        result = _dispatch(form, chain, closure, curve, opts)
+    if not (np.isfinite(float(result)) and np.isfinite(result.error)):
+        raise ValueError("integrate: the result overflows float64 for coordinates this large; "
+                         "rescale the chain (e.g. divide it by its largest value)")
+    return result
 
+
+def _dispatch(form, chain, closure, curve, opts):
     for predicate, handler in _DOMAIN_HANDLERS:
         if predicate(form, chain):
             return handler(form, chain, closure=closure, curve=curve, **opts)
@@ -474,7 +484,7 @@ def _adaptive(geoms, varying, opts, acc: _Acc):
             evaluations += seg.shape[0] * (2 * m + 1) * nvar
     if unmet and error > tol:
         warnings.warn(f"integration tolerance {tol:.3g} not reached after {opts['max_levels']} "
-                      f"bisections; estimated error {error:.3g}", IntegrationWarning, stacklevel=4)
+                      f"bisections; estimated error {error:.3g}", IntegrationWarning, stacklevel=5)
     method = f"adaptive Gauss-Legendre {m}/{m + 1} points"
     acc.add(value, error, False, method, _EPS * total_scale * 4, evaluations)
 

@@ -42,7 +42,8 @@ from math import factorial
 
 import numpy as np
 
-from .._validation import as_float_array, as_int, check_choice
+from .._validation import (as_coefficients, as_float_array, as_int, check_choice, checked_sums,
+                           scaled_coefficients)
 from .chains import Chain, ZeroChain
 from .forms import Form
 from .integrate import _EPS, _NOISE, IntegrationWarning, _Acc, register_domain
@@ -76,6 +77,9 @@ def _as_index_array(simplices, n_vertices, name="simplices"):
                            dtype=np.int64).reshape(arr.shape)
         except TypeError as exc:
             raise TypeError(str(exc)) from None
+        except OverflowError:
+            raise ValueError(f"{name} holds a vertex index beyond int64, but there are "
+                             f"{n_vertices} vertices") from None
     elif arr.size == 0 and arr.dtype.kind == "f":
         arr = arr.astype(np.int64)
     elif arr.dtype.kind not in "iu":
@@ -108,7 +112,7 @@ def _as_coefficients(coefficients, S):
     except Exception as exc:
         raise TypeError(f"coefficients could not be read as integers: {exc}") from None
     if arr.dtype.kind == "O":
-        arr = np.array([as_int(c, "coefficient") for c in arr.ravel()], dtype=np.int64)
+        arr = as_coefficients([as_int(c, "coefficient") for c in arr.ravel()])
     elif arr.dtype.kind == "b":
         raise TypeError("coefficients must be integers, got booleans")
     elif arr.dtype.kind not in "iu":
@@ -121,9 +125,7 @@ def _as_coefficients(coefficients, S):
         raise ValueError(f"coefficients must be 1-dimensional, got shape {arr.shape}")
     if arr.shape[0] != S:
         raise ValueError(f"{arr.shape[0]} coefficients for {S} simplices")
-    if arr.dtype.kind == "u" and arr.size and int(arr.max()) > np.iinfo(np.int64).max:
-        raise ValueError("coefficients too large for int64")
-    return np.array(arr, dtype=np.int64)
+    return as_coefficients(np.array(arr))
 
 
 _NETWORKS = {1: [], 2: [(0, 1)], 3: [(0, 1), (1, 2), (0, 1)],
@@ -240,7 +242,7 @@ def _reduce(simplices, coef, n_vertices):
         return simplices, coef
     order, starts = _group(srt, n_vertices)
     signed = (sign * coef)[order]
-    sums = np.add.reduceat(signed, starts)
+    sums = checked_sums(signed, starts)
     first = order[starts]  # stable sort: the first occurrence of each group
     # value relative to the first occurrence's orientation
     sums = sums * sign[first]
@@ -467,7 +469,8 @@ class SimplicialChain:
 
     def __mul__(self, k):
         k = as_int(k, "chain multiplier")
-        return SimplicialChain._trusted(self._vertices, self._simplices, k * self._coef)
+        return SimplicialChain._trusted(self._vertices, self._simplices,
+                                        scaled_coefficients(self._coef, k))
 
     __rmul__ = __mul__
 
@@ -976,7 +979,7 @@ def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
     if state["unmet"] and state["error"] > tol:
         warnings.warn(f"integration tolerance {tol:.3g} not reached after {opts['max_levels']} "
                       f"bisections; estimated error {state['error']:.3g}", IntegrationWarning,
-                      stacklevel=5)
+                      stacklevel=6)
     name = "Gauss-Legendre" if k == 1 else "Grundmann-Möller"
     m = opts["order"]
     method = (f"adaptive {name} {m}/{m + 1} points" if k == 1 else

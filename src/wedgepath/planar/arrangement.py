@@ -47,6 +47,8 @@ __all__ = ["decompose", "Decomposition", "Lobe", "DecompositionWarning"]
 _EPS = np.finfo(np.float64).eps
 #: snap-rounding grids tried when floating-point noding fails: extent * 2**-k
 _SNAP_GRIDS = (40, 32, 24)
+#: curves whose largest coordinate lies outside [1/_SAFE, _SAFE] are rescaled for GEOS
+_SAFE = 2.0 ** 64
 
 
 class DecompositionWarning(UserWarning):
@@ -283,8 +285,15 @@ def decompose(path2d, closure="chord") -> Decomposition:
     path = planar_path(path2d, "decompose")
     pieces = [drop_repeats(p) for p in closed_pieces(path, closure, "decompose")]
     pieces = [p for p in pieces if not _too_few_points(p)]
-    with np.errstate(over="ignore", invalid="ignore"):
-        shoelace = float(finite_result(sum(_piece_area(p) for p in pieces), "decompose"))
+    # GEOS works in absolute terms: a curve of extreme magnitude is scaled by a
+    # power of two (exact, so the arrangement is the same) and scaled back.
+    big = max((float(np.abs(p).max()) for p in pieces), default=0.0)
+    e = -int(np.frexp(big)[1]) if (big > _SAFE or 0.0 < big < 1.0 / _SAFE) else 0
+    if e:
+        pieces = [np.ldexp(p, e) for p in pieces]
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        shoelace = float(np.ldexp(sum(_piece_area(p) for p in pieces), -2 * e))
+    shoelace = float(finite_result(shoelace, "decompose"))
     diagnostics = {"noding": "none", "multiplicities": "none", "inconsistent_adjacencies": 0,
                    "unreached_faces": 0}
     if not pieces:
@@ -335,7 +344,7 @@ def decompose(path2d, closure="chord") -> Decomposition:
         # adjacency graph): evaluate the winding number at a point inside it.
         from .winding import winding_number
         pts = shapely.get_coordinates(shapely.point_on_surface(faces[unreached]))
-        winding[unreached] = winding_number(path, pts, closure=closure)
+        winding[unreached] = winding_number(path, np.ldexp(pts, -e), closure=closure)
     bad = int(result["inconsistent"] + result["unmatched"])
     diagnostics.update(multiplicities=mode, inconsistent_adjacencies=bad,
                        unreached_faces=int(unreached.size))
@@ -344,8 +353,13 @@ def decompose(path2d, closure="chord") -> Decomposition:
                       f"numbers and {unreached.size} faces were not reached from the outside; "
                       "the noding of this curve is not consistent (see .diagnostics)",
                       DecompositionWarning, stacklevel=2)
-    lobes = _lobes(faces, winding, rings.face_area, result["pairs"])
-    return Decomposition(faces, winding, rings.face_area, lobes, shoelace, diagnostics)
+    face_area = rings.face_area
+    if e:
+        with np.errstate(over="ignore", under="ignore"):
+            face_area = finite_result(np.ldexp(face_area, -2 * e), "decompose")
+        faces = shapely.transform(faces, lambda c: np.ldexp(c, -e))
+    lobes = _lobes(faces, winding, face_area, result["pairs"])
+    return Decomposition(faces, winding, face_area, lobes, shoelace, diagnostics)
 
 
 def _empty(shoelace, diagnostics):

@@ -62,7 +62,7 @@ class _Integrand:
 
 
 def _check_values(vals, m, label, x, y):
-    return check_values(vals, m, label, lambda k: f"({x[k]!r}, {y[k]!r})")
+    return check_values(vals, m, label, lambda k: f"({float(x[k])!r}, {float(y[k])!r})")
 
 
 def _from_coefficient(coef: Coefficient, label: str) -> _Integrand:
@@ -114,7 +114,11 @@ def _integrand(f, symbols, degree) -> _Integrand:
         return _from_coefficient(Coefficient.from_sympy(f, syms), "f")
     if callable(f):
         def func(x, y):
-            return _check_values(f(x, y), x.size, "f", x, y)
+            # floating-point warnings of the user's function are silenced: a
+            # non-finite value is reported as a ValueError naming the point
+            with np.errstate(all="ignore"):
+                vals = f(x, y)
+            return _check_values(vals, x.size, "f", x, y)
         return _Integrand("function", func=func, degree=degree, label="f")
     raise TypeError(f"the integrand must be a number, a callable f(x, y), a sympy expression "
                     f"or a 2-form, got {type(f).__name__}")

@@ -245,7 +245,17 @@ def _paired_product(blk, r):
 
 
 def scan(data: SignalData, what="X") -> ScanResult:
-    """One pass over the data: lagged cross-products per piece (see module doc)."""
+    """One pass over the data: lagged cross-products per piece (see module doc).
+
+    Floating-point warnings are silenced: an infinite input is reported as a
+    ValueError, and an overflow leaves non-finite entries in ``M`` for the
+    caller to handle (see :func:`channel_exponents`).
+    """
+    with np.errstate(invalid="ignore", over="ignore"):
+        return _scan(data, what)
+
+
+def _scan(data: SignalData, what="X") -> ScanResult:
     values = data.values
     T, n = values.shape
     c = chunk_rows(n)
@@ -310,6 +320,56 @@ def scan(data: SignalData, what="X") -> ScanResult:
     if len(stops) < len(starts):
         stops.append(T)
     return ScanResult(M, np.asarray(starts, dtype=np.int64), np.asarray(stops, dtype=np.int64))
+
+
+# --------------------------------------------------------------------------- magnitudes
+#: a channel whose largest magnitude lies outside [2**-SAFE_EXP, 2**SAFE_EXP] is
+#: rescaled by a power of two before products are formed: products and sums of
+#: up to 2**40 of them then neither overflow nor fall into the subnormal range.
+SAFE_EXP = 400
+
+
+def channel_exponents(data: SignalData):
+    """Per channel, ``e`` with ``max|x| * 2**-e`` in [0.5, 1) (0 for an all-zero channel).
+
+    Returns ``(e, needed)``: ``needed`` is True when some channel's magnitude
+    is outside the safe range, so that products of raw samples could
+    overflow or underflow.  NaN gap rows are ignored.
+    """
+    values = data.values
+    T, n = values.shape
+    m = np.zeros(n)
+    step = max(1, CHUNK_ELEMENTS // max(n, 1))
+    for a in range(0, T, step):
+        blk = np.abs(np.asarray(values[a:a + step], dtype=np.float64))
+        m = np.fmax(m, np.fmax.reduce(blk, axis=0))
+    m = np.nan_to_num(m, nan=0.0)
+    e = np.where(m > 0, np.frexp(m)[1], 0).astype(np.int64)
+    nz = m > 0
+    needed = bool(np.any(nz & ((m < 2.0 ** -SAFE_EXP) | (m > 2.0 ** SAFE_EXP))))
+    return e, needed
+
+
+def scaled_data(data: SignalData, e) -> SignalData:
+    """``data`` with channel k multiplied by ``2**-e[k]`` (exact; a float64 copy)."""
+    values = np.ldexp(np.asarray(data.values, dtype=np.float64), -np.asarray(e)[None, :])
+    return SignalData(values, data.times, data.names)
+
+
+def unscale_pairs(A, e, what="area_matrix"):
+    """``A[..., i, j] * 2**(e[i] + e[j])``; ValueError when that overflows float64."""
+    e = np.asarray(e, dtype=np.int64)
+    with np.errstate(over="ignore", under="ignore"):
+        out = np.ldexp(A, e[:, None] + e[None, :])
+    if not np.isfinite(out[np.isfinite(A)]).all():
+        raise ValueError(f"{what}: the areas overflow float64 for data this large; rescale the "
+                         "data (e.g. divide each channel by its largest value)")
+    return out
+
+
+def overflow_error(what="area_matrix"):
+    return ValueError(f"{what}: the areas overflow float64 for data this large; rescale the "
+                      "data (e.g. divide each channel by its largest value)")
 
 
 # --------------------------------------------------------------------------- closures

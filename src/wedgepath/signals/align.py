@@ -6,7 +6,7 @@ from collections.abc import Mapping
 
 import numpy as np
 
-from .._validation import as_float_array
+from .._validation import as_float_array, check_names
 from ..calculus.paths import Path
 
 __all__ = ["align"]
@@ -77,6 +77,7 @@ def align(channels, times=None, names=None) -> Path:
         if all(s.name is not None for s in items):
             labels = [str(s.name) for s in items]
     if names is not None:
+        names = check_names(names, n)
         if labels is not None and list(names) != labels and isinstance(channels, Mapping):
             raise ValueError(f"names {list(names)} do not match the mapping keys {labels}")
         labels = list(names)
@@ -110,7 +111,7 @@ def align(channels, times=None, names=None) -> Path:
         if not np.all(d > 0):
             j = int(np.flatnonzero(~(d > 0))[0])
             raise ValueError(f"times of channel {label!r} must be strictly increasing; "
-                             f"t[{j + 1}]={t[j + 1]!r} does not exceed t[{j}]={t[j]!r}")
+                             f"t[{j + 1}]={float(t[j + 1])!r} does not exceed t[{j}]={float(t[j])!r}")
         T_list.append(t)
         X_list.append(x)
     lo = max(t[0] for t in T_list)

@@ -14,15 +14,19 @@ from __future__ import annotations
 
 import numpy as np
 
-from .._validation import check_choice
-from ._kernel import (ConstantChannelWarning, closed_area, closed_piece_rows,  # noqa: F401
-                      signal_input, check_closure, warn_constant)
+from .._validation import as_float_array, as_int, check_choice
+from ._kernel import (ConstantChannelWarning, channel_exponents, closed_area,  # noqa: F401
+                      closed_piece_rows, overflow_error, scaled_data, signal_input,
+                      check_closure, unscale_pairs, warn_constant)
 
 __all__ = ["area_matrix", "AreaMatrix", "NORMALIZATIONS", "ConstantChannelWarning",
            "hilbert_energy"]
 
 #: Accepted values of ``normalize=`` (``None`` means raw areas).
 NORMALIZATIONS = ("hilbert", "zscore", "frobenius")
+
+# raw areas below this may come from underflowing products: recheck the magnitudes
+_TINY = 2.0 ** -800
 
 # bytes of complex spectrum computed at once by the Hilbert normaliser
 _FFT_BUDGET = 1 << 26
@@ -132,10 +136,24 @@ def hilbert_energy(x, axis=0):
     >>> float(np.round(hilbert_energy(2.0 * np.sin(t)) / (3 * 4 * np.sin(np.pi / 4) * 4.0), 12))
     1.0
     """
-    x = np.asarray(x, dtype=np.float64)
+    x = as_float_array(x, "x", copy=False)
+    if x.ndim == 0:
+        raise ValueError("x must have at least one dimension (the samples)")
+    axis = as_int(axis, "axis")
+    if not -x.ndim <= axis < x.ndim:
+        raise ValueError(f"axis {axis} is out of range for x of shape {x.shape}")
+    return _hilbert_energy(x, axis)
+
+
+def _hilbert_energy(x, axis=0):
     N = x.shape[axis]
     if N < 3:
         return np.zeros(np.delete(x.shape, axis)) if x.ndim > 1 else np.float64(0.0)
+    # Each lane is scaled by a power of two (exact) so that the squared Fourier
+    # coefficients neither overflow nor underflow; the energy is scaled back.
+    big = np.max(np.abs(x), axis=axis, keepdims=True)
+    ex = np.where(big > 0, np.frexp(big)[1], 0)
+    x = np.ldexp(x, -ex)
     xc = x - x.mean(axis=axis, keepdims=True)
     F = np.fft.rfft(xc, axis=axis)
     m = np.arange(F.shape[axis])
@@ -146,14 +164,21 @@ def hilbert_energy(x, axis=0):
     shape = [1] * x.ndim
     shape[axis] = -1
     power = F.real ** 2 + F.imag ** 2
-    return (2.0 / N) * np.sum(power * w.reshape(shape), axis=axis)
+    energy = (2.0 / N) * np.sum(power * w.reshape(shape), axis=axis)
+    with np.errstate(over="ignore", under="ignore"):
+        energy = np.ldexp(energy, 2 * np.squeeze(ex, axis=axis))
+    if not np.all(np.isfinite(energy)):
+        raise ValueError("hilbert_energy: the energy overflows float64 for data this large; "
+                         "rescale the data")
+    return energy
 
 
 def _normalise(A, data, sc, closure, normalize):
     n = A.shape[0]
     names = data.names
     if normalize == "frobenius":
-        norm = float(np.sqrt(np.sum(A * A)))
+        big = float(np.max(np.abs(A)))
+        norm = big * float(np.sqrt(np.sum((A / big) ** 2))) if big > 0 else 0.0
         if norm == 0.0:
             import warnings
             warnings.warn("all areas are zero (no channel moves against another); the "
@@ -171,7 +196,7 @@ def _normalise(A, data, sc, closure, normalize):
                 continue
             varies[cols] |= x.max(axis=0) > x.min(axis=0)
             if normalize == "hilbert":
-                denom[cols] += hilbert_energy(x)
+                denom[cols] += _hilbert_energy(x)
             else:  # zscore
                 d = x - x.mean(axis=0)
                 denom[cols] += np.einsum("ij,ij->j", d, d)
@@ -323,9 +348,34 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
         if not (np.isfinite(tol) and tol >= 0):
             raise ValueError(f"tol must be a finite number >= 0, got {tol!r}")
     data = signal_input(X, times, names)
-    A, sc = closed_area(data, closure, tol)
-    if normalize is not None:
-        A = _normalise(A, data, sc, closure, normalize)
+    A = None
+    if normalize is None and closure != "require":
+        with np.errstate(invalid="ignore", over="ignore", under="ignore"):
+            A, sc = closed_area(data, closure, tol)
+        if not (np.isfinite(A).all() and np.max(np.abs(A)) >= _TINY):
+            A = None  # overflow, or areas so small that products may have underflowed
+    if A is None:
+        # Channels far from unit magnitude are rescaled by powers of two (exact),
+        # so that no product overflows or underflows; areas are scaled back.
+        e, needed = channel_exponents(data)
+        if closure == "require":
+            e = np.full_like(e, e.max())   # keep the Euclidean gap test meaningful
+            if tol is not None and needed:
+                tol = float(np.ldexp(float(tol), -int(e.max())))
+        work = scaled_data(data, e) if needed else data
+        with np.errstate(invalid="ignore", over="ignore", under="ignore"):
+            A, sc = closed_area(work, closure, tol)
+        if normalize is None:
+            A = unscale_pairs(A, e) if needed else A
+            if not np.isfinite(A).all():
+                raise overflow_error()
+        elif normalize == "frobenius":
+            if needed:  # the pattern only: a common power of two divides out
+                with np.errstate(under="ignore"):
+                    A = np.ldexp(A, e[:, None] + e[None, :] - 2 * int(e.max()))
+            A = _normalise(A, work, sc, closure, normalize)
+        else:  # per-channel normalisers are invariant to each channel's scale
+            A = _normalise(A, work, sc, closure, normalize)
     if labels:
         nm = data.names if data.names is not None else tuple(str(k) for k in range(A.shape[0]))
         return AreaMatrix(A, nm, closure, normalize)

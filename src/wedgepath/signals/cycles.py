@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .._validation import as_float_array
+from .._validation import as_float_array, as_real
 from ._kernel import signal_input
 
 __all__ = ["cycle_areas", "CycleAreas"]
@@ -161,8 +161,8 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
     if np.isinf(P).any():
         r = int(np.argwhere(np.isinf(P))[0][0])
         raise ValueError(f"X contains an infinite value at row {r}")
-    hysteresis = float(hysteresis)
-    if not (hysteresis >= 0 and np.isfinite(hysteresis)):
+    hysteresis = as_real(hysteresis, "hysteresis")
+    if not hysteresis >= 0:
         raise ValueError(f"hysteresis must be a finite number >= 0, got {hysteresis}")
     if boundaries is not None:
         if reference is not None or level is not None:
@@ -183,9 +183,7 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
         if level is None:
             lev = float(finite.mean())
         else:
-            lev = float(level)
-            if not np.isfinite(lev):
-                raise ValueError(f"level must be finite, got {level!r}")
+            lev = as_real(level, "level")
         if finite.max() == finite.min():
             raise ValueError("the reference channel is constant, so it has no crossings; "
                              "choose another reference or give boundaries")
@@ -198,11 +196,21 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
                           start_times=None if data.times is None else empty,
                           stop_times=None if data.times is None else empty,
                           mean=np.nan, std=np.nan, count=0, pair=pair)
-    areas = _loop_areas(P, pos)
+    # Each channel is scaled by a power of two (exact) so that no product,
+    # square or sum overflows or underflows; results are scaled back.
+    big = np.fmax.reduce(np.abs(P), axis=0)
+    ex = np.where(big > 0, np.frexp(np.nan_to_num(big))[1], 0)
+    areas = _loop_areas(np.ldexp(P, -ex), pos)
     good = ~np.isnan(areas)
     cnt = int(good.sum())
-    mean = float(areas[good].mean()) if cnt else np.nan
-    std = float(areas[good].std(ddof=1)) if cnt > 1 else np.nan
+    mean = areas[good].mean() if cnt else np.nan
+    std = areas[good].std(ddof=1) if cnt > 1 else np.nan
+    k = int(ex.sum())
+    with np.errstate(over="ignore", under="ignore"):
+        areas, mean, std = np.ldexp(areas, k), float(np.ldexp(mean, k)), float(np.ldexp(std, k))
+    if not (np.isfinite(areas[good]).all() and np.isfinite(std if cnt > 1 else 0.0)):
+        raise ValueError("cycle_areas: the areas overflow float64 for data this large; "
+                         "rescale the data (e.g. divide each channel by its largest value)")
     st, sp = pos[:-1], pos[1:]
     if data.times is not None:
         idx = np.arange(T, dtype=np.float64)

@@ -128,13 +128,20 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
     scale = float(np.max(np.abs(M)))
     if scale == 0.0:
         raise ValueError("A is zero: no channel leads another, so there is no cyclic order")
+    # Work with A / max|A| (the order, phases and fit do not depend on the
+    # scale), so that squares of the entries neither overflow nor underflow.
+    M = M / scale
     asym = float(np.max(np.abs(M + M.T)))
-    if asym > 1e-8 * scale:
-        raise ValueError(f"A is not skew-symmetric (max |A + A^T| = {asym:.3g}, max |A| = {scale:.3g})")
+    if asym > 1e-8:
+        raise ValueError(f"A is not skew-symmetric (max |A + A^T| = {asym * scale:.3g}, "
+                         f"max |A| = {scale:.3g})")
     M = 0.5 * (M - M.T)
     # iA is Hermitian; A v = i lambda v  <=>  (iA) v = -lambda v
     w, V = np.linalg.eigh(1j * M)
-    lam = np.sort(np.abs(w))[::-1][::2][: n // 2]
+    with np.errstate(over="ignore"):
+        lam = np.sort(np.abs(w))[::-1][::2][: n // 2] * scale
+    if not np.isfinite(lam).all():
+        raise ValueError("cyclic_order: the eigenvalues of A overflow float64; rescale A")
     v = V[:, 0]
     total = float(np.sum(M * M))
     fit = float(2.0 * w[0] ** 2 / total)

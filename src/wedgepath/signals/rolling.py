@@ -7,7 +7,8 @@ import math
 import numpy as np
 
 from .._validation import as_int
-from ._kernel import signal_input, skew_half, wedge
+from ._kernel import (channel_exponents, overflow_error, scaled_data, signal_input, skew_half,
+                      unscale_pairs, wedge)
 
 __all__ = ["rolling_area_matrix", "RollingAreas"]
 
@@ -141,7 +142,18 @@ def rolling_area_matrix(X, window, step, times=None, *, names=None, labels=False
         raise ValueError(f"step must be at least 1, got {s}")
     if not isinstance(labels, bool):
         raise TypeError(f"labels must be True or False, got {labels!r}")
-    areas = _rolling(data, w, s)
+    with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+        areas = _rolling(data, w, s)
+    if areas.size and not (np.isfinite(areas).all() and np.max(np.abs(areas)) >= 2.0 ** -800):
+        # overflow, or products that may have underflowed: rescale each channel
+        # by a power of two (exact) and scale the areas back
+        e, needed = channel_exponents(data)
+        if needed:
+            with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+                areas = unscale_pairs(_rolling(scaled_data(data, e), w, s), e,
+                                      "rolling_area_matrix")
+        if not np.isfinite(areas).all():
+            raise overflow_error("rolling_area_matrix")
     if not labels:
         return areas
     K = areas.shape[0]

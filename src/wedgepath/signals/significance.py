@@ -5,8 +5,8 @@ from __future__ import annotations
 import numpy as np
 
 from .._progress import Progress
-from .._validation import as_int, check_choice
-from ._kernel import signal_input, skew_half
+from .._validation import as_float_array, as_int, as_real, as_rng, check_bool, check_choice
+from ._kernel import signal_input, skew_half, unscale_pairs
 
 __all__ = ["surrogate_test", "SurrogateResult", "bootstrap_area", "BootstrapResult",
            "benjamini_hochberg", "SURROGATE_METHODS"]
@@ -25,7 +25,11 @@ def _gap_free(X, times, names, what="X"):
         raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; surrogates and the "
                          "bootstrap need gap-free data (split the recording at its gaps)")
     Y -= Y.mean(axis=0)
-    return Y, data.names
+    # each channel scaled by a power of two (exact): no product or square of
+    # areas overflows or underflows; areas are scaled back by unscale_pairs
+    big = np.max(np.abs(Y), axis=0)
+    ex = np.where(big > 0, np.frexp(big)[1], 0).astype(np.int64)
+    return np.ldexp(Y, -ex), data.names, ex
 
 
 def _cyclic_area(Y):
@@ -59,7 +63,7 @@ def benjamini_hochberg(pvalues):
     >>> benjamini_hochberg([0.01, 0.03, 0.02, 0.5]).round(12).tolist()
     [0.04, 0.04, 0.04, 0.5]
     """
-    p = np.array(pvalues, dtype=np.float64)
+    p = as_float_array(pvalues, "pvalues", allow_nan=True)
     flat = p.ravel()
     ok = ~np.isnan(flat)
     vals = flat[ok]
@@ -183,9 +187,9 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, seed=None, times=None
     B = as_int(n_surrogates, "n_surrogates")
     if B < 1:
         raise ValueError(f"n_surrogates must be at least 1, got {B}")
-    Y, nm = _gap_free(X, times, names)
+    rng = as_rng(seed)
+    Y, nm, ex = _gap_free(X, times, names)
     T, n = Y.shape
-    rng = np.random.default_rng(seed)
     obs = _cyclic_area(Y)
     abs_obs = np.abs(obs)
     exceed = np.zeros((n, n))
@@ -221,8 +225,11 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, seed=None, times=None
     q.T[iu] = q[iu]
     mean = s1 / B
     var = np.maximum(s2 / B - mean * mean, 0.0) * (B / max(B - 1, 1))
-    return SurrogateResult(observed=obs, pvalues=p, qvalues=q, null_mean=mean,
-                           null_std=np.sqrt(var), method=method, n_surrogates=B,
+    what = "surrogate_test"
+    return SurrogateResult(observed=unscale_pairs(obs, ex, what), pvalues=p, qvalues=q,
+                           null_mean=unscale_pairs(mean, ex, what),
+                           null_std=unscale_pairs(np.sqrt(var), ex, what), method=method,
+                           n_surrogates=B,
                            seed=seed, names=nm)
 
 
@@ -305,7 +312,7 @@ def bootstrap_area(X, *, block=None, n_boot=999, level=0.95, seed=None, times=No
     >>> bool(ci.low[0, 1] < ci.estimate[0, 1] < ci.high[0, 1]), bool(ci.low[0, 1] > 0)
     (True, True)
     """
-    Y, nm = _gap_free(X, times, names)
+    Y, nm, ex = _gap_free(X, times, names)
     T, n = Y.shape
     ell = int(np.ceil(T ** (1.0 / 3.0))) if block is None else as_int(block, "block")
     if not 1 <= ell <= T:
@@ -313,10 +320,11 @@ def bootstrap_area(X, *, block=None, n_boot=999, level=0.95, seed=None, times=No
     R = as_int(n_boot, "n_boot")
     if R < 2:
         raise ValueError(f"n_boot must be at least 2, got {R}")
-    level = float(level)
+    level = as_real(level, "level")
     if not 0.0 < level < 1.0:
         raise ValueError(f"level must lie strictly between 0 and 1, got {level}")
-    rng = np.random.default_rng(seed)
+    keep = check_bool(keep, "keep")
+    rng = as_rng(seed)
     nb = T // ell
     # block sums of the cyclic terms y_k (x) y_{k+1}, k = 0..T-1
     Ynext = np.empty_like(Y)
@@ -341,5 +349,8 @@ def bootstrap_area(X, *, block=None, n_boot=999, level=0.95, seed=None, times=No
     alpha = 1.0 - level
     low, high = np.quantile(reps, [alpha / 2, 1 - alpha / 2], axis=0)
     std = reps.std(axis=0, ddof=1)
-    return BootstrapResult(estimate=estimate, low=low, high=high, std=std, level=level,
-                           block=ell, n_boot=R, names=nm, replicates=reps if keep else None)
+    what = "bootstrap_area"
+    return BootstrapResult(estimate=unscale_pairs(estimate, ex, what),
+                           low=unscale_pairs(low, ex, what), high=unscale_pairs(high, ex, what),
+                           std=unscale_pairs(std, ex, what), level=level, block=ell, n_boot=R,
+                           names=nm, replicates=unscale_pairs(reps, ex, what) if keep else None)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .._validation import as_int
+from .._validation import as_float_array, as_int, check_bool
 from ._kernel import check_names, scan, skew_half, wedge
 from .areas import AreaMatrix
 
@@ -93,8 +93,12 @@ class AreaAccumulator:
 
         With ``labels=True`` an :class:`AreaMatrix` with the names.
         """
+        labels = check_bool(labels, "labels")
         if self.count < 2:
             raise ValueError(f"the accumulator has seen {self.count} sample(s); at least 2 are needed")
+        if not np.isfinite(self.area).all():
+            raise ValueError("AreaAccumulator: the areas overflow float64 for data this large; "
+                             "rescale the data (e.g. divide each channel by its largest value)")
         A = self.area.copy()
         if labels:
             nm = self.names if self.names is not None else tuple(str(k) for k in range(self.n))
@@ -130,15 +134,15 @@ class AreaAccumulator:
             raise ValueError(f"count must be >= 0, got {count}")
         self.count = count
         for key in ("first", "last", "head_end", "tail_start"):
-            v = np.array(state[key], dtype=np.float64)
+            v = as_float_array(state[key], f"state[{key!r}]", allow_nan=True)
             if v.shape != (n,):
                 raise ValueError(f"state[{key!r}] must have {n} entries, got shape {v.shape}")
             setattr(self, key, v)
-        area = np.array(state["area"], dtype=np.float64)
+        area = as_float_array(state["area"], "state['area']")
         if area.shape != (n, n):
             raise ValueError(f"state['area'] must be {n}x{n}, got shape {area.shape}")
         self.area = area
-        self.gapped = bool(state["gapped"])
+        self.gapped = check_bool(state["gapped"], "state['gapped']")
         return self
 
     def __repr__(self):
@@ -184,7 +188,8 @@ class AreaAccumulator:
             st.gapped = not ok
             return st
         sc = scan(data, "chunk")
-        st.area = skew_half(sc.M)
+        with np.errstate(over="ignore", invalid="ignore"):  # result() reports overflow
+            st.area = skew_half(sc.M)
         starts, stops = sc.starts, sc.stops
         if starts.size == 0:
             st.head_end = np.full(n, np.nan)
@@ -238,7 +243,8 @@ class AreaAccumulator:
             j = y.first - self.last
             d2 = y.first - ts
             d3 = y.head_end - y.first
-            self.area = self.area + y.area + 0.5 * (wedge(d1, j) + wedge(d2, d3))
+            with np.errstate(over="ignore", invalid="ignore"):  # result() reports overflow
+                self.area = self.area + y.area + 0.5 * (wedge(d1, j) + wedge(d2, d3))
             head_end = self.head_end if self.gapped else y.head_end
             tail_start = y.tail_start if y.gapped else self.tail_start
             self.head_end = np.array(head_end, dtype=np.float64)
