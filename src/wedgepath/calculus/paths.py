@@ -342,19 +342,26 @@ def _close_piece(pc: Path, how: str, tol) -> Path:
         if t is not None:
             step = float(np.median(np.diff(t)))
             new_t = np.append(t, t[-1] + step)
+            if not np.isfinite(new_t[-1]):
+                raise ValueError("closure='chord': the time of the closing sample overflows "
+                                 "float64; shift the times (e.g. start them at 0)")
         return Path._trusted(np.vstack([pts, first]), new_t, pc._names, gap_rows=None)
     if how == "detrend":
         if t is None:
             s = np.linspace(0.0, 1.0, pc.n_samples)
         else:
             s = (t - t[0]) / (t[-1] - t[0])
-        out = pts - s[:, None] * (last - first)
+        with np.errstate(over="ignore", invalid="ignore"):
+            out = pts - s[:, None] * (last - first)
+        if not np.isfinite(out).all():
+            raise ValueError("closure='detrend' overflows float64 for coordinates this large; "
+                             "rescale the path")
         out[-1] = first  # exact closure despite rounding
         return Path._trusted(out, t, pc._names, gap_rows=None)
     # require
-    gap = float(np.linalg.norm(last - first))
+    gap = _norm(last, first)
     if tol is None:
-        extent = float(np.linalg.norm(pts.max(axis=0) - pts.min(axis=0)))
+        extent = _norm(pts.max(axis=0), pts.min(axis=0))
         tol_eff = 1e-9 * extent
     else:
         tol_eff = tol
@@ -365,6 +372,15 @@ def _close_piece(pc: Path, how: str, tol) -> Path:
     out = pts.copy()
     out[-1] = first
     return Path._trusted(out, t, pc._names, gap_rows=None)
+
+
+def _norm(a, b) -> float:
+    """Euclidean ``|a - b|`` without overflow or underflow in the squares (inf if it overflows)."""
+    big = float(max(np.max(np.abs(a)), np.max(np.abs(b))))
+    if big == 0.0:
+        return 0.0
+    with np.errstate(over="ignore"):
+        return big * float(np.linalg.norm(a / big - b / big))
 
 
 def _join_with_gaps(pieces, names) -> Path:
