@@ -16,6 +16,8 @@ import math
 
 import numpy as np
 
+from ._validation import as_float_array
+
 __all__ = ["lead_heatmap", "phase_circle", "loop_faces", "rolling_lead", "cycle_bars",
            "leadlag_figures", "loop_figures", "DIVERGING"]
 
@@ -41,6 +43,25 @@ def _diverging():
 DIVERGING = "wedgepath_div"
 
 
+def _labels(names, n, what="names"):
+    """``names`` as a list of n strings (checked before any figure is made)."""
+    if isinstance(names, str) or not hasattr(names, "__len__"):
+        raise TypeError(f"{what} must be a sequence of {n} channel names")
+    names = list(names)
+    if len(names) != n:
+        raise ValueError(f"{what} has {len(names)} entries for {n} channels")
+    return [str(nm) for nm in names]
+
+
+def _order(order, n):
+    if order is None:
+        return np.arange(n)
+    o = np.asarray(order)
+    if o.ndim != 1 or o.dtype.kind not in "iu" or sorted(o.tolist()) != list(range(n)):
+        raise ValueError(f"order must be a permutation of the {n} channel indices, got {order!r}")
+    return o
+
+
 def _axes(ax, size=(6, 5)):
     _, plt, _ = _mpl()
     if ax is None:
@@ -54,8 +75,11 @@ def lead_heatmap(A, names, order=None, ax=None, title="Lead matrix", label="A[i,
     Row i, column j is coloured by ``A[i, j]``: orange where row i leads
     column j, teal where it lags.
     """
-    A = np.asarray(A, dtype=float)
-    order = np.arange(A.shape[0]) if order is None else np.asarray(order)
+    A = as_float_array(A, "A", ndim=2, allow_nan=True)
+    if A.shape[0] != A.shape[1] or A.shape[0] == 0:
+        raise ValueError(f"A must be a non-empty square matrix, got shape {A.shape}")
+    names = _labels(names, A.shape[0])
+    order = _order(order, A.shape[0])
     M = A[np.ix_(order, order)]
     ax = _axes(ax)
     lim = np.nanmax(np.abs(M)) or 1.0
@@ -73,9 +97,14 @@ def lead_heatmap(A, names, order=None, ax=None, title="Lead matrix", label="A[i,
 
 def phase_circle(phases, names, moduli=None, order=None, ax=None, title="Phase of each channel"):
     """Channels placed on a circle at their phase (clockwise = later), radius = participation."""
+    phases = as_float_array(phases, "phases", ndim=1)
+    r = np.ones_like(phases) if moduli is None else as_float_array(moduli, "moduli", ndim=1)
+    if r.shape != phases.shape:
+        raise ValueError(f"moduli has {r.shape[0]} entries for {phases.shape[0]} phases")
+    names = _labels(names, phases.shape[0])
+    if order is not None:
+        order = _order(order, phases.shape[0]).tolist()
     _, plt, _ = _mpl()
-    phases = np.asarray(phases, dtype=float)
-    r = np.ones_like(phases) if moduli is None else np.asarray(moduli, dtype=float)
     if ax is None:
         fig = plt.figure(figsize=(5.5, 5.5), dpi=110)
         ax = fig.add_subplot(projection="polar")
@@ -98,6 +127,15 @@ def phase_circle(phases, names, moduli=None, order=None, ax=None, title="Phase o
 def loop_faces(decomposition, xy=None, names=("x", "y"), ax=None, title="Loop and its faces",
                max_faces=20000):
     """The curve in its plane with each face shaded by its winding number."""
+    from .planar import Decomposition
+    if not isinstance(decomposition, Decomposition):
+        raise TypeError(f"loop_faces needs a Decomposition (from wp.decompose), got "
+                        f"{type(decomposition).__name__}")
+    if xy is not None:
+        xy = as_float_array(xy, "xy", ndim=2, allow_nan=True)
+        if xy.shape[1] != 2:
+            raise ValueError(f"xy must have shape (T, 2), got {xy.shape}")
+    names = _labels(names, 2)
     _, plt, _ = _mpl()
     import shapely
     from matplotlib.collections import PatchCollection
@@ -123,7 +161,6 @@ def loop_faces(decomposition, xy=None, names=("x", "y"), ax=None, title="Loop an
         cb = ax.figure.colorbar(pc, ax=ax, fraction=0.046, pad=0.04)
         cb.set_label("winding number (counter-clockwise > 0)")
     if xy is not None:
-        xy = np.asarray(xy, dtype=float)
         ax.plot(xy[:, 0], xy[:, 1], color=_INK, lw=0.35, alpha=0.55)
     from matplotlib.ticker import MaxNLocator
     ax.xaxis.set_major_locator(MaxNLocator(5))
@@ -139,9 +176,21 @@ def loop_faces(decomposition, xy=None, names=("x", "y"), ax=None, title="Loop an
 def rolling_lead(start_time, end_time, areas, names, pairs=None, ax=None, top=4,
                  title="Rolling lead", xlabel="time at window centre"):
     """``A[i, j]`` over sliding windows for the strongest pairs."""
-    areas = np.asarray(areas, dtype=float)
-    t = 0.5 * (np.asarray(start_time, dtype=float) + np.asarray(end_time, dtype=float))
-    n = areas.shape[1]
+    areas = as_float_array(areas, "areas", ndim=3, allow_nan=True)
+    K, n = areas.shape[0], areas.shape[1]
+    if areas.shape[2] != n:
+        raise ValueError(f"areas must have shape (windows, n, n), got {areas.shape}")
+    t0 = as_float_array(start_time, "start_time", ndim=1)
+    t1 = as_float_array(end_time, "end_time", ndim=1)
+    if t0.shape != (K,) or t1.shape != (K,):
+        raise ValueError(f"start_time and end_time need {K} entries (one per window), got "
+                         f"{t0.shape[0]} and {t1.shape[0]}")
+    names = _labels(names, n)
+    if pairs is not None:
+        pairs = [tuple(int(v) for v in pq) for pq in pairs]
+        if any(len(pq) != 2 or not all(0 <= v < n for v in pq) for pq in pairs):
+            raise ValueError(f"pairs must be (i, j) channel index pairs below {n}")
+    t = 0.5 * (t0 + t1)
     if pairs is None:
         strength = np.nanmean(np.abs(areas), axis=0)
         cand = [(strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)]
@@ -161,7 +210,7 @@ def rolling_lead(start_time, end_time, areas, names, pairs=None, ax=None, top=4,
 
 def cycle_bars(values, ax=None, title="Per-cycle loop integral", ylabel="value per cycle"):
     """Bar chart of per-cycle values with their mean."""
-    vals = np.asarray(values, dtype=float)
+    vals = as_float_array(values, "values", ndim=1, allow_nan=True)
     ax = _axes(ax, (7, 3.6))
     k = np.arange(1, vals.size + 1)
     ax.bar(k, np.nan_to_num(vals), color=np.where(np.isnan(vals), "#c9c2b4", _TEAL))

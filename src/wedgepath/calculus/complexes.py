@@ -34,7 +34,7 @@ from math import factorial
 import numpy as np
 import scipy.sparse as sps
 
-from .._validation import COEF_LIMIT, as_float_array, check_choice
+from .._validation import COEF_LIMIT, as_float_array, as_int, check_choice
 from .forms import Form
 from .integrate import _options
 from .paths import CLOSURES, as_path
@@ -900,7 +900,7 @@ class WhitneyForm:
         import sympy
         from ..symbolic import to_rational
         cx = self.complex
-        s = int(simplex)
+        s = as_int(simplex, "simplex")
         if not 0 <= s < cx.shape[-1]:
             raise ValueError(f"simplex {s} out of range 0..{cx.shape[-1] - 1}")
         xs = sympy.symbols(f"x0:{cx.dim}")

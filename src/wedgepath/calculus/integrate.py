@@ -49,6 +49,8 @@ _NOISE = 64 * _EPS
 #: quadrature points evaluated per chunk (bounds memory to about
 #: ``_CHUNK_POINTS * n * 8`` bytes per temporary array)
 _CHUNK_POINTS = 1 << 18
+#: at most this many sub-segments (or 4 per segment) are refined at once: bounds memory and time
+_MAX_ACTIVE = 1 << 20
 
 
 class IntegrationWarning(UserWarning):
@@ -468,10 +470,14 @@ def _adaptive(geoms, varying, opts, acc: _Acc):
             error += float(est[good].sum())
             if not bad.any():
                 break
-            if level == opts["max_levels"]:
+            if level == opts["max_levels"] or 2 * int(bad.sum()) > max(_MAX_ACTIVE,
+                                                                        4 * g.n_segments):
+                # out of levels, or an integrand that does not settle (e.g. wildly
+                # oscillating): stop before the sub-segments outgrow memory; warn below
                 value += float(hi_rule[bad].sum())
                 error += float(est[bad].sum())
                 unmet = True
+                levels_used = max(levels_used, level)
                 break
             levels_used = max(levels_used, level + 1)
             seg_b, lo_b, hi_b = seg[bad], lo[bad], hi[bad]
@@ -483,7 +489,7 @@ def _adaptive(geoms, varying, opts, acc: _Acc):
             hi_rule, mag = _rule_on_intervals(g, varying, seg, lo, hi, m + 1, with_abs=True)
             evaluations += seg.shape[0] * (2 * m + 1) * nvar
     if unmet and error > tol:
-        warnings.warn(f"integration tolerance {tol:.3g} not reached after {opts['max_levels']} "
+        warnings.warn(f"integration tolerance {tol:.3g} not reached after {levels_used} "
                       f"bisections; estimated error {error:.3g}", IntegrationWarning, stacklevel=5)
     method = f"adaptive Gauss-Legendre {m}/{m + 1} points"
     acc.add(value, error, False, method, _EPS * total_scale * 4, evaluations)

@@ -54,6 +54,9 @@ __all__ = ["SimplicialChain", "cone"]
 
 #: quadrature points evaluated per chunk (bounds the temporaries' memory)
 _CHUNK_POINTS = 1 << 18
+#: refinement stops (with an IntegrationWarning) after this many coefficient evaluations,
+#: or 8 times those of the first pass: bounded time for integrands that never settle
+_MAX_EVALUATIONS = 1 << 25
 
 
 def _readonly(a):
@@ -927,6 +930,7 @@ def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
     total_vol = float(weight @ vol)
     tol = max(opts["atol"], opts["rtol"] * total_scale)
     state = {"value": 0.0, "error": 0.0, "unmet": False, "evaluations": S * q * nvar}
+    budget = max(_MAX_EVALUATIONS, 8 * state["evaluations"])
     pending = []  # accepted (owner, value, estimate) arrays not yet added per simplex
 
     def flush():
@@ -940,7 +944,8 @@ def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
         """Accept the simplices that pass; return the mask of those to refine."""
         est = np.abs(hi - lo)
         bad = est > np.maximum(tol * fraction, _NOISE * noise)
-        if level == opts["max_levels"] and bad.any():
+        if (level == opts["max_levels"] or state["evaluations"] > budget) and bad.any():
+            # out of levels, or an integrand that does not settle: stop (bounded time)
             state["unmet"] = True
             bad[:] = False
         good = ~bad
@@ -977,8 +982,8 @@ def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
             stack.append((V[:, bad], own[bad], frac[bad], level))
     flush()
     if state["unmet"] and state["error"] > tol:
-        warnings.warn(f"integration tolerance {tol:.3g} not reached after {opts['max_levels']} "
-                      f"bisections; estimated error {state['error']:.3g}", IntegrationWarning,
+        warnings.warn(f"integration tolerance {tol:.3g} not reached (bisection stopped); "
+                      f"estimated error {state['error']:.3g}", IntegrationWarning,
                       stacklevel=6)
     name = "Gauss-Legendre" if k == 1 else "Grundmann-Möller"
     m = opts["order"]

@@ -47,6 +47,8 @@ __all__ = ["region_integral"]
 
 _EPS = np.finfo(np.float64).eps
 _CHUNK_POINTS = 1 << 18
+#: at most this many cells (or 4 per segment) are refined at once: bounds memory and time
+_MAX_ACTIVE = 1 << 20
 
 
 # --------------------------------------------------------------------------- integrands
@@ -215,7 +217,9 @@ def _adaptive(geo, fn, acc, rtol, atol, order, max_levels):
         error += float(est[good].sum())
         if not bad.any():
             break
-        if level == max_levels:
+        if level == max_levels or 2 * int(bad.sum()) > max(_MAX_ACTIVE, 4 * K):
+            # out of levels, or an integrand that does not settle (e.g. wildly
+            # oscillating): stop before the cells outgrow memory; warn below
             value += float(hi[bad].sum())
             error += float(est[bad].sum())
             unmet = True
@@ -238,7 +242,7 @@ def _adaptive(geo, fn, acc, rtol, atol, order, max_levels):
         hi, absw = _rule(geo, fn, seg, s0, s1, u0, u1, m + 1, m + 1)
         evaluations += seg.size * (m * m + (m + 1) ** 2)
     if unmet and error > tol:
-        warnings.warn(f"region integral tolerance {tol:.3g} not reached after {max_levels} "
+        warnings.warn(f"region integral tolerance {tol:.3g} not reached after {level} "
                       f"bisections; estimated error {error:.3g}", IntegrationWarning,
                       stacklevel=3)
     acc["value"] += value
