@@ -230,6 +230,13 @@ def region_moments(path2d, closure="chord") -> RegionMoments:
     """
     path = planar_path(path2d, "region_moments")
     pieces = closed_pieces(path, closure, "region_moments")
+    # A curve of extreme magnitude is scaled by a power of two (exact) so that
+    # third and fourth powers of its coordinates neither overflow nor
+    # underflow; each moment is scaled back by its own power.
+    big = max((float(np.abs(p).max()) for p in pieces), default=0.0)
+    k = int(np.frexp(big)[1]) if (big > 2.0 ** 64 or 0.0 < big < 2.0 ** -64) else 0
+    if k:
+        pieces = [np.ldexp(p, -k) for p in pieces]
     raw = np.zeros(6)
     with np.errstate(over="ignore", invalid="ignore"):
         ref = np.concatenate([p[:-1] for p in pieces]).mean(axis=0) if pieces else np.zeros(2)
@@ -248,12 +255,24 @@ def region_moments(path2d, closure="chord") -> RegionMoments:
     finite_result(about_origin, "region_moments")
     a, sx, sy, sxx, sxy, syy = (float(v) for v in raw)
     rx, ry = float(ref[0]), float(ref[1])
-    int_x, int_y, int_xx, int_xy, int_yy = (float(v) for v in about_origin)
     if a == 0.0:
         centroid = central = None
     else:
         cx, cy = sx / a, sy / a
         centroid = (cx + rx, cy + ry)
         central = (sxx - cx * sx, sxy - cx * sy, syy - cy * sy)
+    powers = np.array([2, 3, 3, 4, 4, 4])
+    with np.errstate(over="ignore", under="ignore"):
+        raw = np.ldexp(raw, k * powers)
+        about_origin = np.ldexp(about_origin, k * powers[1:])
+        if centroid is not None:
+            centroid = tuple(float(v) for v in np.ldexp(centroid, k))
+            central = tuple(float(v) for v in np.ldexp(central, 4 * k))
+    finite_result(raw, "region_moments")
+    finite_result(about_origin, "region_moments")
+    if central is not None:
+        finite_result(central, "region_moments")
+    a = float(raw[0])
+    int_x, int_y, int_xx, int_xy, int_yy = (float(v) for v in about_origin)
     return RegionMoments(area=a, int_x=int_x, int_y=int_y, int_xx=int_xx, int_xy=int_xy,
                          int_yy=int_yy, centroid=centroid, central=central)
