@@ -52,7 +52,8 @@ _SAFE = 2.0 ** 64
 
 
 class DecompositionWarning(UserWarning):
-    """Some face adjacencies disagree with the assigned winding numbers (see ``diagnostics``)."""
+    """Some face adjacencies disagree with the assigned winding numbers, or the faces do not
+    account for the curve's signed area (see ``diagnostics`` and ``residual``)."""
 
 
 # --------------------------------------------------------------------------- results
@@ -303,24 +304,34 @@ def decompose(path2d, closure="chord") -> Decomposition:
         shapely.multilinestrings([shapely.linestrings(p) for p in pieces])
     allpts = np.concatenate(pieces)
     extent = float(np.ptp(allpts, axis=0).max())
+    # rounding scale of the shoelace sum (eps times the sum of its terms' sizes), caller's units
+    terms = 0.0
+    for p in pieces:
+        c = p - p[:-1].mean(axis=0)
+        terms += float(np.sum(np.abs(c[:-1, 0] * c[1:, 1]) + np.abs(c[1:, 0] * c[:-1, 1])))
+    with np.errstate(over="ignore", under="ignore"):
+        noise = float(np.ldexp(64 * _EPS * terms, -2 * e))
     result = None
     # First GEOS's floating-point noder; if it fails (near-coincident laps
     # can defeat it) or its output is inconsistent, snap-rounding on
     # successively coarser grids, which always nodes.
     for grid in (None, *(extent * 2.0 ** -k for k in _SNAP_GRIDS)):
         try:
-            if grid is None:
-                noded = shapely.node(lines)
-            else:
-                noded = shapely.unary_union(lines, grid_size=grid)
-            faces = shapely.get_parts(shapely.polygonize([noded]))
+            # GEOS may raise floating-point flags on degenerate input (numpy turns
+            # them into RuntimeWarnings); its output is checked for consistency below
+            with np.errstate(all="ignore"):
+                if grid is None:
+                    noded = shapely.node(lines)
+                else:
+                    noded = shapely.unary_union(lines, grid_size=grid)
+                faces = shapely.get_parts(shapely.polygonize([noded]))
         except shapely.errors.GEOSException:
             continue
         diagnostics["noding"] = ("floating point" if grid is None
                                  else f"snap-rounded, grid {grid:.3g}")
         if faces.size == 0:
             diagnostics["multiplicities"] = "no faces"
-            return _empty(shoelace, diagnostics)
+            return _checked(_empty(shoelace, diagnostics), noise)
         with np.errstate(over="ignore", invalid="ignore"):
             rings = _Rings(faces)
         finite_result(rings.face_area, "decompose")
@@ -359,7 +370,23 @@ def decompose(path2d, closure="chord") -> Decomposition:
             face_area = finite_result(np.ldexp(face_area, -2 * e), "decompose")
         faces = shapely.transform(faces, lambda c: np.ldexp(c, -e))
     lobes = _lobes(faces, winding, face_area, result["pairs"])
-    return Decomposition(faces, winding, face_area, lobes, shoelace, diagnostics)
+    return _checked(Decomposition(faces, winding, face_area, lobes, shoelace, diagnostics), noise)
+
+
+def _checked(dec, noise):
+    """Warn when the faces do not account for the curve's shoelace area.
+
+    Noding of extremely thin loops (aspect ratios near the float64 range)
+    can lose faces when snap rounding is needed; the signed area is then
+    still right in ``residual``'s other term but the faces are not.
+    """
+    shoelace = dec.signed_area - dec.residual
+    if abs(dec.residual) > max(0.01 * max(abs(shoelace), dec.absolute_area), noise):
+        warnings.warn(f"decompose: the faces account for {dec.signed_area:.6g} of the curve's "
+                      f"signed area {shoelace:.6g} (residual {dec.residual:.3g}); the noding "
+                      "of this curve lost faces (see .diagnostics)", DecompositionWarning,
+                      stacklevel=3)
+    return dec
 
 
 def _empty(shoelace, diagnostics):
