@@ -197,8 +197,8 @@ def build_parser():
     ll.add_argument("--stream", action="store_true",
                     help="read the table in chunks (memory independent of its length); "
                     "computes the area matrix and cyclic order only")
-    ll.add_argument("--chunk-rows", type=_positive_int, default=100_000, metavar="N",
-                    help="rows per chunk with --stream (default 100000)")
+    ll.add_argument("--chunk-rows", type=_positive_int, default=50_000, metavar="N",
+                    help="rows per chunk with --stream (default 50000)")
     ll.add_argument("--top", type=_positive_int, default=3,
                     help="how many leaders and laggers to list (default 3)")
     _add_common(ll)
