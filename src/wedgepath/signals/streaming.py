@@ -66,7 +66,7 @@ class AreaAccumulator:
     True
     """
 
-    __slots__ = _STATE_KEYS
+    __slots__ = tuple(k for k in _STATE_KEYS if k != "area") + ("_area", "_comp")
 
     def __init__(self, n, names=None):
         n = as_int(n, "n")
@@ -83,6 +83,24 @@ class AreaAccumulator:
         self.gapped = False
 
     # ------------------------------------------------------------ views
+    @property
+    def area(self) -> np.ndarray:
+        """The chord-closed area matrix of the pieces seen so far (see the class notes)."""
+        return self._area + self._comp
+
+    @area.setter
+    def area(self, value):
+        self._area = np.array(value, dtype=np.float64)
+        self._comp = np.zeros_like(self._area)
+
+    def _add(self, x):
+        """``area += x`` with Neumaier's compensation: the rounding error of many
+        updates or merges stays at the last bit instead of growing with their number."""
+        t = self._area + x
+        big = np.abs(self._area) >= np.abs(x)
+        self._comp = self._comp + np.where(big, (self._area - t) + x, (x - t) + self._area)
+        self._area = t
+
     @property
     def increment(self) -> np.ndarray:
         """``last - first`` (NaN where either is a gap row)."""
@@ -244,14 +262,16 @@ class AreaAccumulator:
             d2 = y.first - ts
             d3 = y.head_end - y.first
             with np.errstate(over="ignore", invalid="ignore"):  # result() reports overflow
-                self.area = self.area + y.area + 0.5 * (wedge(d1, j) + wedge(d2, d3))
+                self._add(y.area)
+                self._add(0.5 * (wedge(d1, j) + wedge(d2, d3)))
             head_end = self.head_end if self.gapped else y.head_end
             tail_start = y.tail_start if y.gapped else self.tail_start
             self.head_end = np.array(head_end, dtype=np.float64)
             self.tail_start = np.array(tail_start, dtype=np.float64)
             self.gapped = self.gapped or y.gapped
         else:
-            self.area = self.area + y.area
+            with np.errstate(over="ignore", invalid="ignore"):
+                self._add(y.area)
             self.tail_start = np.array(y.tail_start, dtype=np.float64)
             self.gapped = True
         self.last = np.array(y.last, dtype=np.float64)
