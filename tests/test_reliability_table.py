@@ -1022,6 +1022,9 @@ row("wp.io.stream_area_matrix(source)", "times", "a repeated time",
 row("wp.io.stream_area_matrix(source)", "single", "one data row",
     lambda: wio.stream_area_matrix(tfile("one.csv", "a,b\n1,2\n")), wio.TableError,
     "fewer than 2 data rows")
+row("wp.io.stream_area_matrix(source)", "empty", "a header and no rows, with a time column",
+    lambda: wio.stream_area_matrix(tfile("hdr.csv", "t,a,b\n"), time_column="t"), wio.TableError,
+    "fewer than 2 data rows")
 row("wp.io.stream_area_matrix(source)", "file", "a non-UTF-8 byte mid-file",
     lambda: wio.stream_area_matrix(tfile("nu2.csv", b"a,b\n1,2\n\xff,4\n")), wio.TableError,
     "not UTF-8")

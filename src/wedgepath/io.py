@@ -484,6 +484,8 @@ def _stream_chunks(chunks, source, progress):
     rows = 0
     last_time = None
     for chunk in chunks:
+        if chunk.values.shape[0] == 0:   # a header without rows reads as one empty chunk
+            continue
         if acc is None:
             if len(chunk.names) < 2:
                 raise TableError(f"{_name_of(source)}: lead-lag needs at least 2 channel columns")
