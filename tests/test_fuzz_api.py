@@ -55,7 +55,7 @@ if _LONG:
                     deadline=None, derandomize=False, database=None,
                     suppress_health_check=_HEALTH)
 else:
-    FUZZ = settings(max_examples=int(os.environ.get("WEDGEPATH_FUZZ_EXAMPLES", "25")),
+    FUZZ = settings(max_examples=int(os.environ.get("WEDGEPATH_FUZZ_EXAMPLES", "100")),
                     deadline=None, derandomize=True, database=None,
                     suppress_health_check=_HEALTH)
 

@@ -487,3 +487,26 @@ def report():
 
 if __name__ == "__main__":
     report()
+
+
+def test_near_tangent_crossing_far_from_the_origin():
+    # an edge passing 9e-9 below the vertex (2, 1) of a loop that sits at 1e8, where the
+    # spacing of doubles is 1.5e-8: worked next to the origin, the sliver face survives
+    P = np.array([[0.5, 1.0], [11.0, 1.0 - 9e-9], [2.0, 1.0], [-1.0, -1.0]]) + 1e8
+    d = wp.decompose(P)
+    A, S = exact_area(P)
+    assert len(d.faces) == 2 and d.areas.min() > 0
+    assert err_units(d.signed_area, A, S) <= 64
+
+
+def test_lost_faces_are_reported_not_silent():
+    # found by the fuzz tests: the crossing lies 2e-9 from a vertex at 1e8 and the far
+    # vertex at 1.1e9 stretches the sliver face to area 0.75; no double can hold the
+    # crossing, the face is lost, and decompose says so
+    P = np.array([[100000000.5, 100000001.0], [1100000000.0, 100000000.0],
+                  [100000002.0, 100000001.0], [99999999.0, 99999999.0]])
+    with pytest.warns(wp.DecompositionWarning, match="lost faces"):
+        d = wp.decompose(P)
+    A, _ = exact_area(P)
+    assert A == Fr(-3, 4) and wp.signed_area(P) == -0.75      # signed_area stays exact
+    assert abs(d.residual - (d.signed_area + 0.75)) < 1e-12

@@ -292,6 +292,12 @@ def decompose(path2d, closure="chord") -> Decomposition:
     e = -int(np.frexp(big)[1]) if (big > _SAFE or 0.0 < big < 1.0 / _SAFE) else 0
     if e:
         pieces = [np.ldexp(p, e) for p in pieces]
+    # GEOS nodes in absolute coordinates: a curve far from the origin (relative to
+    # its size) is moved next to it first, so that crossings a hair from a vertex
+    # stay resolvable; faces are moved back at the end.
+    shift = _local_origin(pieces)
+    if shift is not None:
+        pieces = [p - shift for p in pieces]
     with np.errstate(over="ignore", invalid="ignore", under="ignore"):
         shoelace = float(np.ldexp(sum(_piece_area(p) for p in pieces), -2 * e))
     shoelace = float(finite_result(shoelace, "decompose"))
@@ -355,6 +361,8 @@ def decompose(path2d, closure="chord") -> Decomposition:
         # adjacency graph): evaluate the winding number at a point inside it.
         from .winding import winding_number
         pts = shapely.get_coordinates(shapely.point_on_surface(faces[unreached]))
+        if shift is not None:
+            pts = pts + shift
         winding[unreached] = winding_number(path, np.ldexp(pts, -e), closure=closure)
     bad = int(result["inconsistent"] + result["unmatched"])
     diagnostics.update(multiplicities=mode, inconsistent_adjacencies=bad,
@@ -365,12 +373,32 @@ def decompose(path2d, closure="chord") -> Decomposition:
                       "the noding of this curve is not consistent (see .diagnostics)",
                       DecompositionWarning, stacklevel=2)
     face_area = rings.face_area
+    if shift is not None:
+        faces = shapely.transform(faces, lambda c: c + shift)
     if e:
         with np.errstate(over="ignore", under="ignore"):
             face_area = finite_result(np.ldexp(face_area, -2 * e), "decompose")
         faces = shapely.transform(faces, lambda c: np.ldexp(c, -e))
     lobes = _lobes(faces, winding, face_area, result["pairs"])
     return _checked(Decomposition(faces, winding, face_area, lobes, shoelace, diagnostics), noise)
+
+
+def _local_origin(pieces):
+    """A point near the curve to work relative to, or None when the curve is near the origin.
+
+    The centre of the bounding box, rounded to a multiple of a power of two about
+    2**-20 of the extent, so that most coordinate differences are exact.
+    """
+    if not pieces:
+        return None
+    allpts = np.concatenate(pieces)
+    lo, hi = allpts.min(axis=0), allpts.max(axis=0)
+    extent = float((hi - lo).max())
+    mid = 0.5 * lo + 0.5 * hi
+    if extent == 0.0 or float(np.abs(mid).max()) <= extent:
+        return None
+    q = 2.0 ** (int(np.frexp(extent)[1]) - 20)
+    return np.round(mid / q) * q
 
 
 def _checked(dec, noise):
