@@ -686,7 +686,9 @@ def cone(path, apex=None, closure="chord"):
     piece_id = np.repeat(np.arange(P), lengths)
     new_start = np.concatenate([[0], np.cumsum(lengths)[:-1]])
     if apex is None:
-        apexes = np.add.reduceat(samples, new_start, axis=0) / lengths[:, None]
+        # the mean of each piece, summing samples already divided by the count so that
+        # coordinates near the float64 limit do not overflow the sum
+        apexes = np.add.reduceat(samples / lengths[piece_id][:, None], new_start, axis=0)
     else:
         a = as_float_array(apex, "apex", ndim=(1, 2))
         if a.ndim == 1:
