@@ -25,6 +25,7 @@ from fractions import Fraction as Fr
 
 import numpy as np
 import pytest
+import sympy as sp
 
 import wedgepath as wp
 
@@ -510,3 +511,15 @@ def test_lost_faces_are_reported_not_silent():
     A, _ = exact_area(P)
     assert A == Fr(-3, 4) and wp.signed_area(P) == -0.75      # signed_area stays exact
     assert abs(d.residual - (d.signed_area + 0.75)) < 1e-12
+
+
+@pytest.mark.parametrize("a,b", [(10, 3), (25, 10), (40, 13), (50, 3)])
+def test_high_degree_polynomials_over_a_triangle(a, b):
+    # Dirichlet's integral over the standard triangle: x^a y^b integrates to
+    # a! b! / (a + b + 2)! (common practice, no source); exact rational reference
+    x, y = sp.symbols("x y")
+    tri = wp.SimplicialChain([[0, 0], [1, 0], [0, 1]], [[0, 1, 2]])
+    r = wp.integrate(wp.TwoForm({(0, 1): x ** a * y ** b}, symbols=(x, y)), tri)
+    exact = Fr(math.factorial(a) * math.factorial(b), math.factorial(a + b + 2))
+    assert r.exact
+    assert abs(Fr(float(r)) - exact) <= 16 * Fr(EPS) * exact
