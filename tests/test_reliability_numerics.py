@@ -521,5 +521,10 @@ def test_high_degree_polynomials_over_a_triangle(a, b):
     tri = wp.SimplicialChain([[0, 0], [1, 0], [0, 1]], [[0, 1, 2]])
     r = wp.integrate(wp.TwoForm({(0, 1): x ** a * y ** b}, symbols=(x, y)), tri)
     exact = Fr(math.factorial(a) * math.factorial(b), math.factorial(a + b + 2))
-    assert r.exact
-    assert abs(Fr(float(r)) - exact) <= 16 * Fr(EPS) * exact
+    assert r.exact and "conical product" in r.method
+    # the nodes are rounded to float64, and x^a y^b magnifies a relative change of its
+    # arguments (a + b)-fold: a rule with positive weights is good to about (a + b) eps;
+    # Grundmann-Moller rules of these degrees were off by 24 eps (degree 13) to 8e8 eps
+    # (degree 53), which this bound refuses
+    bound = max(16, 2 * (a + b))
+    assert abs(Fr(float(r)) - exact) <= bound * Fr(EPS) * exact

@@ -114,3 +114,39 @@ def test_bad_rule_arguments(bad, exc):
         grundmann_moller(2, bad)
     with pytest.raises(exc):
         grundmann_moller(bad, 1)
+
+
+@pytest.mark.parametrize("k, max_degree", [(2, 21), (3, 15), (4, 9)])
+def test_simplex_rule_exact_beyond_the_grundmann_moller_switch(k, max_degree):
+    # Dirichlet's formula (see `dirichlet`) for every monomial up to degrees where
+    # simplex_rule has switched to the conical product rule.  Tolerance: each integrand
+    # value is off by about (k degree + 4) eps relative (a node coordinate is a product of
+    # up to k rounded factors, raised to the degree), and the rule amplifies that by
+    # sum |w| / sum w (1 for positive weights)
+    for deg in range(0, max_degree + 1, 2):
+        bary, w = simplex_rule(k, deg)
+        amp = np.abs(w).sum() / w.sum()
+        assert np.allclose(bary.sum(axis=1), 1.0, rtol=0, atol=4e-16)
+        assert w.sum() == pytest.approx(1 / math.factorial(k), rel=1e-14)
+        for a in monomials(k, deg):
+            exact = float(dirichlet(a))
+            tol = 2 * (k * deg + 4) * amp * 2.3e-16
+            assert rule_value(bary, w, a) == pytest.approx(exact, rel=tol, abs=0), (k, deg, a)
+
+
+def test_simplex_rule_keeps_rounding_amplification_bounded():
+    # sum |w| / sum w is the factor by which a rule amplifies rounding in the integrand;
+    # Grundmann-Moller's grows without bound (81 at index 6 on a triangle), simplex_rule
+    # keeps it at most 64 (common practice, no source: positive-weight rules have factor 1)
+    from wedgepath.calculus.simplex_quadrature import rule_name
+    for k in (2, 3, 4):
+        for deg in range(0, 40, 3):
+            bary, w = simplex_rule(k, deg)
+            assert np.abs(w).sum() / w.sum() <= 64.0, (k, deg)
+            name = rule_name(k, deg)
+            assert name in ("Grundmann-Möller", "conical product")
+            if name == "conical product":
+                assert (w > 0).all()
+    assert grundmann_moller(2, 6)[1].min() < 0          # the factor the switch avoids
+    assert np.abs(grundmann_moller(2, 6)[1]).sum() / 0.5 > 64
+    assert rule_name(2, 5) == "Grundmann-Möller" and rule_name(2, 13) == "conical product"

@@ -14,8 +14,9 @@ constant 2-form             primitive (1/2)(x_i dx_j - x_j dx_i) on the      exa
 0-form on a 0-chain         point evaluation                                 exact
 2-form f dx0^dx1, planar    Green's theorem (``planar.region_integral``,     exact for
 path                        registered when ``wedgepath.planar`` loads)      polynomials
-k-form on a simplicial      determinants / Grundmann-Moller rules /          exact or
-chain (surfaces, cones)     adaptive (``calculus.simplicial``)               estimate
+k-form on a simplicial      determinants / simplex rules (Grundmann-Möller,   exact or
+chain (surfaces, cones)     conical product) / adaptive                      estimate
+                            (``calculus.simplicial``)
 ==========================  ===============================================  =========
 
 "Exact" means exact in exact arithmetic; the result's ``rounding`` attribute

@@ -13,9 +13,9 @@ the pull-back, see :mod:`wedgepath.calculus.simplicial`).
     degree ``2 s + 1`` on a k-simplex of any dimension (A. Grundmann and
     H. M. Möller, "Invariant integration formulas for the n-simplex by
     combinatorial methods", SIAM J. Numer. Anal. 15 (1978) 282-290).  Its
-    weights alternate in sign for ``s >= 1``, so for high ``s`` some
-    cancellation costs a few digits; up to degree ~20 the loss is below
-    1e-13 relative.
+    weights alternate in sign for ``s >= 1``: ``sum |w| / sum w`` is 18 at
+    ``s = 4`` and 2e5 at ``s = 17`` on triangles, and rounding in the integrand
+    is amplified by that factor.
 ``simplex_rule(k, degree)``
     The rule used by the library to integrate a polynomial of ``degree``
     exactly: a single point for k = 0, Gauss-Legendre for k = 1 (positive
@@ -39,7 +39,7 @@ import numpy as np
 
 from .quadrature import gauss_legendre, points_needed
 
-__all__ = ["grundmann_moller", "simplex_rule", "gm_index_for_degree"]
+__all__ = ["grundmann_moller", "simplex_rule", "gm_index_for_degree", "rule_name"]
 
 
 def _compositions(total: int, parts: int):
@@ -113,10 +113,38 @@ def grundmann_moller(k, s):
     return _gm(k, s)
 
 
-#: Grundmann-Moller weights alternate in sign and their magnitudes grow about 24-fold per
-#: index (sum |w| / sum w is 18 at s = 4, 2e5 at s = 16 on triangles): beyond this index a
-#: conical product rule with positive weights is used instead
-_GM_MAX_INDEX = 8
+#: Grundmann-Moller weights alternate in sign and sum |w| / sum w, the factor by which they
+#: amplify rounding in the integrand, grows about two-fold per index (18 at s = 4, 81 at
+#: s = 6, 2e5 at s = 17 on triangles).  A Grundmann-Moller rule is used only while that factor
+#: stays at or below this bound and the rule has fewer nodes than the conical product rule of
+#: the same degree (whose weights are positive); otherwise the conical rule is used.
+_GM_MAX_AMPLIFICATION = 64.0
+
+
+@lru_cache(maxsize=128)
+def _prefer_gm(k: int, s: int) -> bool:
+    """Whether the Grundmann-Moller rule of index ``s`` is the better rule on a k-simplex."""
+    if s == 0:
+        return True                                   # the centroid rule: one positive weight
+    bary, w = _gm(k, s)
+    amplification = float(np.abs(w).sum() * factorial(k))
+    n_conical = 1
+    for i in range(1, k + 1):
+        n_conical *= points_needed(2 * s + 1 + k - i)
+    return amplification <= _GM_MAX_AMPLIFICATION and bary.shape[0] < n_conical
+
+
+def _rule_for_index(k: int, s: int):
+    return _gm(k, s) if _prefer_gm(k, s) else _conical(k, 2 * s + 1)
+
+
+def rule_name(k: int, degree: int) -> str:
+    """Name of the rule :func:`simplex_rule` uses for ``(k, degree)`` (for result labels)."""
+    if k == 0:
+        return "point evaluation"
+    if k == 1:
+        return "Gauss-Legendre"
+    return "Grundmann-Möller" if _prefer_gm(k, gm_index_for_degree(degree)) else "conical product"
 
 
 @lru_cache(maxsize=32)
@@ -183,7 +211,11 @@ def simplex_rule(k, degree):
     """A rule on the standard k-simplex exact for polynomials of ``degree``.
 
     k = 0: the point itself; k = 1: Gauss-Legendre with ``ceil((degree+1)/2)``
-    points; k >= 2: Grundmann-Möller of index ``ceil((degree-1)/2)``.
+    points; k >= 2: Grundmann-Möller of index ``s = ceil((degree-1)/2)`` while
+    its alternating weights amplify rounding by at most 64 (``sum |w| / sum w``)
+    and it has fewer nodes than the conical product rule of degree ``2 s + 1``;
+    that positive-weight rule otherwise (on triangles from degree 7 on, on
+    tetrahedra from degree 13 on).
 
     Returns
     -------
@@ -202,21 +234,17 @@ def simplex_rule(k, degree):
         return _point_rule()
     if k == 1:
         return _gl_bary(points_needed(degree))
-    sidx = gm_index_for_degree(degree)
-    if sidx > _GM_MAX_INDEX:
-        return _conical(k, 2 * sidx + 1)
-    return _gm(k, sidx)
+    return _rule_for_index(k, gm_index_for_degree(degree))
 
 
 def rule_pair(k: int, order: int):
     """Two rules of consecutive precision for error estimation (internal).
 
     k = 1: Gauss-Legendre with ``order`` and ``order + 1`` points; k >= 2:
-    Grundmann-Möller of indices ``order - 1`` and ``order`` -- degrees
-    ``2 order - 1`` and ``2 order + 1`` in both cases.
+    rules of degrees ``2 order - 1`` and ``2 order + 1`` chosen as in
+    :func:`simplex_rule` (Grundmann-Möller indices ``order - 1`` and ``order``
+    while their weights are tame, conical product rules beyond).
     """
     if k == 1:
         return _gl_bary(order), _gl_bary(order + 1)
-    if order > _GM_MAX_INDEX:
-        return _conical(k, 2 * order - 1), _conical(k, 2 * order + 1)
-    return _gm(k, order - 1), _gm(k, order)
+    return _rule_for_index(k, order - 1), _rule_for_index(k, order)

@@ -26,7 +26,8 @@ form                        method                                           err
 ==========================  ===============================================  =========
 constant k-form             sum of determinants ``c_I det(J[I, :]) / k!``    exact
 polynomial coefficients     Grundmann-Möller rule of degree >= the           exact
-                            polynomial degree (Gauss-Legendre for k = 1)
+                            polynomial degree, a conical product rule for
+                            high degrees (Gauss-Legendre for k = 1)
 other coefficients          two rules of consecutive degree on every         estimate
                             simplex; simplices bisected at their longest
                             edge until the estimate meets the tolerance
@@ -48,7 +49,7 @@ from .chains import Chain, ZeroChain
 from .forms import Form
 from .integrate import _EPS, _NOISE, IntegrationWarning, _Acc, register_domain
 from .paths import CLOSURES, Path, as_path
-from .simplex_quadrature import rule_pair, simplex_rule
+from .simplex_quadrature import rule_name, rule_pair, simplex_rule
 
 __all__ = ["SimplicialChain", "cone"]
 
@@ -888,7 +889,7 @@ def _integrate_simplices(form, vertices, simplices, coefs, opts):
             values[a:b] += v
             tot += float(cw[a:b] @ v)
             mag += float(np.abs(cw[a:b]) @ mg)
-        name = "Gauss-Legendre" if k == 1 else "Grundmann-Möller"
+        name = rule_name(k, terms.poly)
         acc.add(tot, 0.0, True, f"{name}, {q} points per simplex (exact for degree {terms.poly})",
                 _EPS * mag * 8 * factorial(k), S * q * len(terms.vary))
         return acc, values, errors
@@ -987,8 +988,8 @@ def _adaptive(vertices, simplices, cw, terms, k, opts, acc, values, errors):
         warnings.warn(f"integration tolerance {tol:.3g} not reached (bisection stopped); "
                       f"estimated error {state['error']:.3g}", IntegrationWarning,
                       stacklevel=6)
-    name = "Gauss-Legendre" if k == 1 else "Grundmann-Möller"
     m = opts["order"]
+    name = rule_name(k, 2 * m + 1)
     method = (f"adaptive {name} {m}/{m + 1} points" if k == 1 else
               f"adaptive {name} degree {2 * m - 1}/{2 * m + 1}")
     acc.add(state["value"], state["error"], False, method, _EPS * total_noise * 4,
