@@ -284,7 +284,9 @@ def decompose(path2d, closure="chord") -> Decomposition:
     {2: 1.0}
     """
     path = planar_path(path2d, "decompose")
-    pieces = [drop_repeats(p) for p in closed_pieces(path, closure, "decompose")]
+    # "+ 0.0" turns -0.0 into 0.0: GEOS keeps one of two coordinates that compare
+    # equal, and which one it keeps can change from call to call
+    pieces = [drop_repeats(p) + 0.0 for p in closed_pieces(path, closure, "decompose")]
     pieces = [p for p in pieces if not _too_few_points(p)]
     # GEOS works in absolute terms: a curve of extreme magnitude is scaled by a
     # power of two (exact, so the arrangement is the same) and scaled back.
@@ -373,6 +375,9 @@ def decompose(path2d, closure="chord") -> Decomposition:
                       "the noding of this curve is not consistent (see .diagnostics)",
                       DecompositionWarning, stacklevel=2)
     face_area = rings.face_area
+    if grid is not None:
+        # snap-rounding can make -0.0 (see above): canonical zeros, identical calls alike
+        faces = shapely.transform(faces, lambda c: c + 0.0)
     if shift is not None:
         faces = shapely.transform(faces, lambda c: c + shift)
     if e:

@@ -24,12 +24,21 @@ def _gap_free(X, times, names, what="X"):
         kind = "NaN (a gap)" if np.isnan(Y[r, c]) else "an infinite value"
         raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; surrogates and the "
                          "bootstrap need gap-free data (split the recording at its gaps)")
+    # each channel scaled by a power of two (exact): no sum, product or square of
+    # areas overflows or underflows; areas are scaled back by unscale_pairs.  Scaled
+    # before centring, so that the mean of values near the float64 limit cannot
+    # overflow, and again after it, so that small deviations from a large mean keep
+    # their full range
+    ex = _pow2_exponents(Y)
+    Y = np.ldexp(Y, -ex)
     Y -= Y.mean(axis=0)
-    # each channel scaled by a power of two (exact): no product or square of
-    # areas overflows or underflows; areas are scaled back by unscale_pairs
-    big = np.max(np.abs(Y), axis=0)
-    ex = np.where(big > 0, np.frexp(big)[1], 0).astype(np.int64)
-    return np.ldexp(Y, -ex), data.names, ex
+    ex2 = _pow2_exponents(Y)
+    return np.ldexp(Y, -ex2), data.names, ex + ex2
+
+
+def _pow2_exponents(Y):
+    big = np.max(np.abs(Y), axis=0) if Y.shape[0] else np.zeros(Y.shape[1])
+    return np.where(big > 0, np.frexp(big)[1], 0).astype(np.int64)
 
 
 def _cyclic_area(Y):
