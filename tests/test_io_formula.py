@@ -6,6 +6,7 @@ import numpy as np
 import pytest
 import sympy as sp
 
+import wedgepath as wp
 import wedgepath.io as wio
 from wedgepath.formula import parse_formula
 
@@ -46,6 +47,53 @@ class TestReadTable:
         df.to_parquet(f)
         tab = wio.read_table(f, time_column="t")
         np.testing.assert_array_equal(tab.values, [[1, 0], [2, 1], [3, 0]])
+
+    def test_parquet_streams_in_record_batches(self, tmp_path):
+        # several row groups, nulls (gaps), an integer column, a named index; read in
+        # batches of 7 rows: the chunks cover the file once, in order, and the streamed
+        # area matrix equals the in-memory one (which treats NaN rows as gaps)
+        pd = pytest.importorskip("pandas")
+        pq = pytest.importorskip("pyarrow.parquet")
+        pa = pytest.importorskip("pyarrow")
+        n = 60
+        t = np.cumsum(np.linspace(0.5, 1.5, n))
+        a = np.sin(t)
+        a[17] = np.nan
+        df = pd.DataFrame({"t": t, "a": a, "b": np.cos(t), "k": np.arange(n) % 5},
+                          index=pd.Index(np.arange(n) * 3, name="id"))
+        f = tmp_path / "s.parquet"
+        pq.write_table(pa.Table.from_pandas(df), f, row_group_size=16)
+        assert pq.ParquetFile(f).num_row_groups == 4
+        assert wio.table_columns(f) == ["t", "a", "b", "k", "id"]
+        chunks = list(wio.iter_table_chunks(f, columns=["a", "b", "k"], time_column="t",
+                                            chunk_rows=7))
+        assert max(c.values.shape[0] for c in chunks) <= 7
+        got = np.concatenate([c.values for c in chunks])
+        np.testing.assert_array_equal(got, np.c_[a, np.cos(t), np.arange(n) % 5])
+        np.testing.assert_array_equal(np.concatenate([c.times for c in chunks]), t)
+        A = wio.stream_area_matrix(f, columns=["a", "b"], time_column="t", chunk_rows=7)
+        np.testing.assert_allclose(A.values, wp.area_matrix(np.c_[a, np.cos(t)]), rtol=1e-12)
+
+    def test_parquet_bad_columns(self, tmp_path):
+        pd = pytest.importorskip("pandas")
+        pytest.importorskip("pyarrow")
+        f = tmp_path / "s.parquet"
+        pd.DataFrame({"a": [1.0, 2.0, 3.0], "s": ["x", "y", "z"],
+                      "flag": [True, False, True]}).to_parquet(f)
+        with pytest.raises(wio.TableError, match="column 's' is not numeric"):
+            wio.read_table(f)
+        with pytest.raises(wio.TableError, match="column 'flag' is not numeric"):
+            wio.read_table(f, columns=["a", "flag"])
+        with pytest.raises(wio.TableError, match="infinite"):
+            pd.DataFrame({"a": [1.0, np.inf], "b": [0.0, 1.0]}).to_parquet(f)
+            wio.read_table(f)
+
+    def test_streamed_time_error_names_the_row(self):
+        # rows are counted from 1 after the header; row 3 goes back in time
+        text = "t,a,b\n0,0,0\n1,1,0\n0.5,1,1\n3,0,1\n"
+        for chunk_rows in (1, 2, 10):
+            with pytest.raises(wio.TableError, match=r"not strictly increasing \(data row 3\)"):
+                wio.stream_area_matrix(io.StringIO(text), time_column="t", chunk_rows=chunk_rows)
 
     @pytest.mark.parametrize("text, words", [
         ("", "empty"),
@@ -103,6 +151,11 @@ class TestFormula:
         ("x +", "syntax error"),
         ("1/0", "not finite"),
         ("x**100000", "exponent"),
+        # each exponent is small, the results are not: refused before the arithmetic
+        ("(((9**64)**64)**64)**64", "more than 400 digits"),
+        ("((2**64)**64)**64", "more than 400 digits"),
+        ("(((x + 1)**64)**64)**64", "degree above 256"),
+        ("(x**64*y**64)**3", "degree above 256"),
         ("sin(x, y)", "exactly one argument"),
         ("", "empty"),
         ("True", "only numbers"),

@@ -152,8 +152,7 @@ def table_columns(source, delimiter=None):
     name = _name_of(source)
     fmt, delimiter = _format_of(source, delimiter)
     if fmt == "parquet":
-        pd = _pandas(name, "Parquet")
-        return [str(c) for c in pd.read_parquet(source).columns]
+        return _parquet_header(_parquet_file(source, name).schema_arrow)
     stream = _open_text(source)
     try:
         return _header(stream, name, delimiter)[0]
@@ -378,33 +377,73 @@ def _chunk(rows, times, t_idx, chosen, name, first):
     return Table(vals, tt, list(chosen), f"{name}:{first}")
 
 
-def _parquet_chunks(source, name, columns, time_column, chunk_rows):
-    pd = _pandas(name, "Parquet")
+def _parquet_file(source, name):
+    """An open ``pyarrow.parquet.ParquetFile`` (metadata only; rows are read in batches)."""
+    _pandas(name, "Parquet")          # the same install hint as for CSV through pandas
     try:
-        df = pd.read_parquet(source)
+        import pyarrow.parquet as pq
+    except ImportError:
+        raise TableError(f"{name}: reading Parquet needs pyarrow (pip install pyarrow)") from None
+    try:
+        return pq.ParquetFile(source)
     except Exception as exc:  # pyarrow raises many kinds
         raise TableError(f"{name}: cannot read Parquet ({type(exc).__name__}: {exc})") from None
-    header = [str(c) for c in df.columns]
-    df.columns = header
+
+
+def _parquet_chunks(source, name, columns, time_column, chunk_rows):
+    """Parquet in record batches of at most ``chunk_rows`` rows: memory O(chunk x columns)."""
+    import pyarrow as pa
+
+    pf = _parquet_file(source, name)
+    schema = pf.schema_arrow
+    header = _parquet_header(schema)
     chosen = _select(header, columns, time_column, name)
-    for col in chosen + ([time_column] if time_column else []):
-        if not (pd.api.types.is_numeric_dtype(df[col]) and not pd.api.types.is_bool_dtype(df[col])):
-            raise TableError(f"{name}: column {col!r} is not numeric ({df[col].dtype})")
-    for a in range(0, max(len(df), 1), chunk_rows):
-        part = df.iloc[a:a + chunk_rows]
-        if part.empty:
-            break
-        vals = part[chosen].to_numpy(dtype=np.float64, na_value=np.nan)
-        if np.isinf(vals).any():
-            r, c = np.argwhere(np.isinf(vals))[0]
-            raise TableError(f"{name}: row {a + r + 1}: column {chosen[c]!r} is infinite")
-        tt = None
-        if time_column:
-            tt = part[time_column].to_numpy(dtype=np.float64, na_value=np.nan)
-            if not np.isfinite(tt).all():
-                r = int(np.flatnonzero(~np.isfinite(tt))[0])
-                raise TableError(f"{name}: row {a + r + 1}: time column {time_column!r} is not finite")
-        yield Table(vals, tt, list(chosen), f"{name}:{a + 1}")
+    wanted = chosen + ([time_column] if time_column else [])
+    for col in wanted:
+        typ = schema.field(col).type
+        if not (pa.types.is_integer(typ) or pa.types.is_floating(typ)):
+            raise TableError(f"{name}: column {col!r} is not numeric ({typ})")
+    a = 0
+    try:
+        batches = pf.iter_batches(batch_size=chunk_rows, columns=list(dict.fromkeys(wanted)))
+        for batch in batches:
+            if batch.num_rows == 0:
+                continue
+            cols = {c: batch.column(batch.schema.get_field_index(c)) for c in wanted}
+            vals = np.column_stack([_arrow_float(cols[c]) for c in chosen])
+            if np.isinf(vals).any():
+                r, c = np.argwhere(np.isinf(vals))[0]
+                raise TableError(f"{name}: row {a + r + 1}: column {chosen[c]!r} is infinite")
+            tt = None
+            if time_column:
+                tt = _arrow_float(cols[time_column])
+                if not np.isfinite(tt).all():
+                    r = int(np.flatnonzero(~np.isfinite(tt))[0])
+                    raise TableError(f"{name}: row {a + r + 1}: time column {time_column!r} "
+                                     "is not finite")
+            yield Table(vals, tt, list(chosen), f"{name}:{a + 1}")
+            a += batch.num_rows
+    except TableError:
+        raise
+    except Exception as exc:  # a damaged row group surfaces only when it is read
+        raise TableError(f"{name}: cannot read Parquet after row {a} "
+                         f"({type(exc).__name__}: {exc})") from None
+
+
+def _parquet_header(schema):
+    # pandas stores a non-default index as a column "__index_level_0__": not a signal
+    return [str(c) for c in schema.names if not str(c).startswith("__index_level_")]
+
+
+def _arrow_float(arr):
+    """An arrow column as float64 with nulls as NaN (integers beyond 2**53 round)."""
+    import pyarrow as pa
+    import pyarrow.compute as pc
+    if not pa.types.is_float64(arr.type):
+        arr = pc.cast(arr, pa.float64(), safe=False)
+    return arr.to_numpy(zero_copy_only=False).astype(np.float64, copy=False) \
+        if arr.null_count == 0 else \
+        np.asarray(pc.fill_null(arr, float("nan")).to_numpy(zero_copy_only=False), dtype=np.float64)
 
 
 def read_table(source, *, columns=None, time_column=None, delimiter=None, min_rows=2,
@@ -494,9 +533,10 @@ def _stream_chunks(chunks, source, progress):
             t = chunk.times
             steps = np.diff(t if last_time is None else np.concatenate([[last_time], t]))
             if np.any(steps <= 0):
-                k = int(np.flatnonzero(steps <= 0)[0])
-                raise TableError(f"{chunk.source}: times are not strictly increasing "
-                                 f"(data row {rows + k + (0 if last_time is None else 0) + 1})")
+                # steps[k] ends at chunk row k + 1 in the first chunk, at row k afterwards
+                k = int(np.flatnonzero(steps <= 0)[0]) + (1 if last_time is None else 0)
+                raise TableError(f"{_name_of(source)}: times are not strictly increasing "
+                                 f"(data row {rows + k + 1})")
             last_time = t[-1]
         acc.update(chunk.values)
         rows += chunk.values.shape[0]
