@@ -48,6 +48,12 @@ _BINOPS = {
 }
 _MAX_LENGTH = 2000
 _MAX_EXPONENT = 64
+#: largest number a formula may build, in decimal digits (9**64 has 62; beyond this the
+#: arithmetic itself, not the integration, would take the time)
+_MAX_DIGITS = 400
+#: largest polynomial degree a formula may build (exact integration needs about degree / 2
+#: quadrature points per segment)
+_MAX_DEGREE = 256
 
 
 def parse_formula(text: str, variables: dict):
@@ -91,6 +97,34 @@ def parse_formula(text: str, variables: dict):
     return expr
 
 
+def _digits(num) -> float:
+    """Decimal digits of the numerator and denominator of a sympy number (cheap, no evaluation)."""
+    num = sympy.sympify(num)
+    if num.is_Rational:
+        return 0.30103 * max(abs(int(num.p)).bit_length(), int(num.q).bit_length())
+    if num.is_Float:
+        return 20.0
+    return 0.0
+
+
+def _degree_bound(expr) -> int:
+    """An upper bound of the polynomial degree of ``expr`` in its symbols, without expanding."""
+    if expr.is_Symbol:
+        return 1
+    if expr.is_number or not expr.args:
+        return 0
+    if expr.is_Add:
+        return max(_degree_bound(a) for a in expr.args)
+    if expr.is_Mul:
+        return sum(_degree_bound(a) for a in expr.args)
+    if expr.is_Pow:
+        base, ex = expr.args
+        if ex.is_Integer and ex > 0:
+            return int(ex) * _degree_bound(base)
+        return _degree_bound(base)
+    return max(_degree_bound(a) for a in expr.args)
+
+
 def _build(node, variables):
     if isinstance(node, ast.Constant):
         if isinstance(node.value, bool) or not isinstance(node.value, (int, float)):
@@ -105,9 +139,17 @@ def _build(node, variables):
         raise ValueError(f"formula: unknown name {node.id!r}; allowed: {allowed}")
     if isinstance(node, ast.BinOp) and type(node.op) in _BINOPS:
         left, right = _build(node.left, variables), _build(node.right, variables)
-        if isinstance(node.op, ast.Pow) and right.is_number and abs(right) > _MAX_EXPONENT:
-            raise ValueError(f"formula: exponent {right} too large (at most {_MAX_EXPONENT})")
-        return _BINOPS[type(node.op)](left, right)
+        if isinstance(node.op, ast.Pow) and right.is_number:
+            if abs(right) > _MAX_EXPONENT:
+                raise ValueError(f"formula: exponent {right} too large (at most {_MAX_EXPONENT})")
+            if left.is_number and _digits(left) * float(abs(right)) > _MAX_DIGITS:
+                raise ValueError(f"formula: a power with more than {_MAX_DIGITS} digits")
+        out = sympy.sympify(_BINOPS[type(node.op)](left, right))
+        if out.is_number and out.is_finite and out.is_Rational and _digits(out) > _MAX_DIGITS:
+            raise ValueError(f"formula: a number with more than {_MAX_DIGITS} digits")
+        if _degree_bound(out) > _MAX_DEGREE:
+            raise ValueError(f"formula: polynomial degree above {_MAX_DEGREE}")
+        return out
     if isinstance(node, ast.UnaryOp) and isinstance(node.op, (ast.UAdd, ast.USub)):
         val = _build(node.operand, variables)
         return -val if isinstance(node.op, ast.USub) else val
