@@ -205,3 +205,82 @@ def test_bundled_demo_data_regenerates_identically(tmp_path):
     assert proc.returncode == 0, proc.stderr
     for name in ("gantry_loop.csv", "ring_sensors.csv", "load_test.csv"):
         assert (tmp_path / name).read_bytes() == (ROOT / "src" / "wedgepath" / "data" / name).read_bytes()
+
+
+class TestOutputFolder:
+    def test_force_removes_what_the_new_run_does_not_write(self, three_signals, tmp_path,
+                                                           capsys):
+        f, _, _ = three_signals
+        out = tmp_path / "o"
+        code, _, err = run(["leadlag", f, "--time", "t", "--window", 100, "--surrogates", 9,
+                            "--out", out, "--no-figures", "--quiet"], capsys)
+        assert code == 0, err
+        assert {"rolling.csv", "pvalues.csv", "qvalues.csv"} <= {p.name for p in out.iterdir()}
+        (out / "notes.txt").write_text("the user's own file")
+        code, _, err = run(["leadlag", f, "--time", "t", "--out", out, "--no-figures",
+                            "--force"], capsys)
+        assert code == 0, err
+        # the stale window and significance tables are gone; files not ours are kept
+        assert sorted(p.name for p in out.iterdir()) == ["area_matrix.csv", "notes.txt",
+                                                         "result.json"]
+
+    def test_files_get_the_mode_of_an_ordinary_new_file(self, three_signals, tmp_path, capsys):
+        import os
+        f, _, _ = three_signals
+        out = tmp_path / "o"
+        old = os.umask(0o022)
+        try:
+            code, _, err = run(["leadlag", f, "--time", "t", "--out", out, "--no-figures"],
+                               capsys)
+        finally:
+            os.umask(old)
+        assert code == 0, err
+        assert {oct(p.stat().st_mode & 0o777) for p in out.iterdir()} == {oct(0o644)}
+
+    def test_pvalues_and_qvalues_tables(self, three_signals, tmp_path, capsys):
+        f, t, X = three_signals
+        out = tmp_path / "o"
+        code, _, err = run(["leadlag", f, "--time", "t", "--surrogates", 19, "--seed", 3,
+                            "--out", out, "--no-figures", "--quiet"], capsys)
+        assert code == 0, err
+        S = wp.surrogate_test(X, n_surrogates=19, seed=3, times=t)
+        p = np.genfromtxt(out / "pvalues.csv", delimiter=",", skip_header=1)[:, 1:]
+        q = np.genfromtxt(out / "qvalues.csv", delimiter=",", skip_header=1)[:, 1:]
+        np.testing.assert_array_equal(np.isnan(p), np.isnan(S.pvalues))
+        np.testing.assert_allclose(p[~np.isnan(p)], S.pvalues[~np.isnan(S.pvalues)])
+        np.testing.assert_allclose(q[~np.isnan(q)], S.qvalues[~np.isnan(S.qvalues)])
+
+
+class TestMessages:
+    def test_library_warnings_are_one_line_notes(self, tmp_path, capsys):
+        # 1/x is unbounded on the line x = 0 through the 40-gon: the adaptive rule cannot
+        # meet its tolerance and says so in the report's notes, not as a Python warning
+        s = np.linspace(0, 2 * np.pi, 41)[:-1]
+        f = write_csv(tmp_path / "c.csv", ["x", "y"], np.c_[np.cos(s), np.sin(s)])
+        code, stdout, err = run(["loop", f, "--x", "x", "--y", "y", "--weight", "x**-1",
+                                 "--quiet"], capsys)
+        assert code == 0, err
+        assert "note: region integral tolerance" in stdout and "not reached" in stdout
+        assert "Warning" not in err and ".py:" not in err
+
+    def test_stage_progress_for_long_loops_and_quiet(self, tmp_path, capsys):
+        s = np.linspace(0, 2 * np.pi, 20_001)[:-1]
+        f = write_csv(tmp_path / "c.csv", ["x", "y"], np.c_[np.cos(s), np.sin(s)])
+        code, _, err = run(["loop", f, "--x", "x", "--y", "y"], capsys)
+        assert code == 0
+        stages = [part.split(" (")[0] for part in err.split("\r") if part.strip()]
+        assert stages[:2] == ["loop: areas and faces", "loop: moments and cycles"]
+        assert err.rstrip().split("\r")[-1].startswith("loop: done in")
+        code, _, err = run(["loop", f, "--x", "x", "--y", "y", "--quiet"], capsys)
+        assert code == 0 and err == ""
+
+    def test_units_label_the_json_and_are_checked(self, three_signals, tmp_path, capsys):
+        f, _, _ = three_signals
+        code, stdout, err = run(["leadlag", f, "--time", "t", "--units", "t=s,a=mV", "--json",
+                                 "--quiet"], capsys)
+        assert code == 0, err
+        assert json.loads(stdout)["units"] == {"t": "s", "a": "mV"}
+        code, _, err = run(["leadlag", f, "--time", "t", "--units", "zz=s"], capsys)
+        assert code == 2 and "--units names column 'zz'" in err
+        code, _, err = run(["leadlag", f, "--units", "a"], capsys)
+        assert code == 2 and "expected COL=UNIT" in err and len(err.strip().splitlines()) == 1

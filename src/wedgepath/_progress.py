@@ -19,7 +19,7 @@ import os
 import sys
 import time
 
-__all__ = ["Progress"]
+__all__ = ["Progress", "Stages"]
 
 
 def _format_seconds(s: float) -> str:
@@ -129,6 +129,70 @@ class Progress:
             stream = self.stream
             stream.write("\r" + self._line(time.perf_counter()) + "\n")
             stream.flush()
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        self.close()
+        return False
+
+
+class Stages:
+    """Name the stage a long run is in, on one line of standard error.
+
+    For runs made of a few long steps (decomposing a loop, drawing figures)
+    where a counter would not move.  ``enabled`` decides; the environment
+    variable ``WEDGEPATH_PROGRESS=0`` silences it all the same.
+
+    Examples
+    --------
+    >>> import io
+    >>> out = io.StringIO()
+    >>> with Stages("loop", ["faces", "cycles"], enabled=True, stream=out) as st:
+    ...     st.start("faces")
+    ...     st.start("cycles")
+    >>> [part.split(",")[0] for part in out.getvalue().strip().split("\\r") if part][:2]
+    ['loop: faces (1/2)', 'loop: cycles (2/2)']
+    """
+
+    def __init__(self, desc, names, enabled=False, *, stream=None):
+        self.desc = str(desc)
+        self.names = [str(n) for n in names]
+        if os.environ.get("WEDGEPATH_PROGRESS", "").strip() == "0":
+            enabled = False
+        self.enabled = bool(enabled)
+        self._stream = stream
+        self._t0 = time.perf_counter()
+        self._width = 0
+        self._shown = False
+
+    @property
+    def stream(self):
+        return sys.stderr if self._stream is None else self._stream
+
+    def _draw(self, text):
+        pad = " " * max(0, self._width - len(text))
+        self._width = len(text)
+        self.stream.write("\r" + text + pad)
+        self.stream.flush()
+        self._shown = True
+
+    def start(self, name):
+        """Announce that stage ``name`` begins."""
+        if not self.enabled:
+            return
+        name = str(name)
+        k = self.names.index(name) + 1 if name in self.names else len(self.names)
+        elapsed = _format_seconds(time.perf_counter() - self._t0)
+        self._draw(f"{self.desc}: {name} ({k}/{len(self.names)}), {elapsed} so far")
+
+    def close(self):
+        if self._shown:
+            self._draw(f"{self.desc}: done in {_format_seconds(time.perf_counter() - self._t0)}")
+            self.stream.write("\n")
+            self.stream.flush()
+            self._shown = False
 
     def __enter__(self):
         return self

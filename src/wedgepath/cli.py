@@ -53,11 +53,17 @@ class _Parser(argparse.ArgumentParser):
 
 # --------------------------------------------------------------------------- output
 class Output:
-    """Collects files and writes them at the end, all or nothing."""
+    """Collects files and writes them at the end, all or nothing.
 
-    def __init__(self, folder, force):
+    ``family`` lists every file name the command can write; with ``--force``
+    the members of the family that this run does not write are removed, so a
+    folder never mixes the results of two runs.
+    """
+
+    def __init__(self, folder, force, family=()):
         self.folder = folder
         self.force = force
+        self.family = tuple(family)
         self.files = {}
 
     def add(self, name, data):
@@ -74,24 +80,36 @@ class Output:
     def write(self):
         if self.folder is None or not self.files:
             return []
-        self.check_free(self.files)
+        self.check_free(list(self.files) + [n for n in self.family if n not in self.files])
         if os.path.exists(self.folder) and not os.path.isdir(self.folder):
             raise CLIError(f"{self.folder} exists and is not a folder")
+        mode = _file_mode()
         try:
             os.makedirs(self.folder, exist_ok=True)
             staged = []
             for name, data in self.files.items():
                 fd, tmp = tempfile.mkstemp(prefix=".wedgepath-", dir=self.folder)
+                staged.append((tmp, os.path.join(self.folder, name)))
                 with os.fdopen(fd, "wb") as fh:
                     fh.write(data)
-                staged.append((tmp, os.path.join(self.folder, name)))
+                os.chmod(tmp, mode)      # mkstemp makes 0600; results are ordinary files
         except OSError as exc:
             for tmp, _ in locals().get("staged", []):
                 _silent_remove(tmp)
             raise CLIError(f"cannot write to {self.folder}: {exc.strerror}") from None
         for tmp, final in staged:
             os.replace(tmp, final)
+        for name in self.family:         # only reached with --force (check_free above)
+            if name not in self.files:
+                _silent_remove(os.path.join(self.folder, name))
         return [final for _, final in staged]
+
+
+def _file_mode():
+    """0666 less the process umask: the mode ``open()`` would give a new file."""
+    mask = os.umask(0)
+    os.umask(mask)
+    return 0o666 & ~mask
 
 
 def _silent_remove(path):
@@ -99,6 +117,32 @@ def _silent_remove(path):
         os.remove(path)
     except OSError:
         pass
+
+
+#: every file each command can write (with --force, those a run does not write are removed)
+LEADLAG_FILES = ("result.json", "area_matrix.csv", "rolling.csv", "pvalues.csv", "qvalues.csv",
+                 "lead_matrix.png", "phases.png", "rolling_lead.png")
+LOOP_FILES = ("result.json", "cycles.csv", "loop.png", "cycles.png")
+
+
+def leadlag_tables(rep):
+    """CSV files (name -> text) of a lead-lag report."""
+    names = rep["channels"]
+    files = {"area_matrix.csv": _matrix_csv(rep["area_matrix"], names)}
+    if "rolling" in rep:
+        files["rolling.csv"] = _rolling_csv(rep["rolling"], names)
+    if "significance" in rep:
+        files["pvalues.csv"] = _matrix_csv(rep["significance"]["pvalues"], names)
+        files["qvalues.csv"] = _matrix_csv(rep["significance"]["qvalues"], names)
+    return files
+
+
+def loop_tables(rep):
+    """CSV files (name -> text) of a loop report."""
+    c = rep["cycles"]
+    return {"cycles.csv": "cycle,start,stop,value\n" + "".join(
+        f"{k + 1},{_num(a)},{_num(b)},{_num(v)}\n"
+        for k, (a, b, v) in enumerate(zip(c["start"], c["stop"], c["values"])))}
 
 
 def _matrix_csv(M, names):
@@ -147,6 +191,28 @@ def _add_table(p):
     p.add_argument("table", help="CSV, TSV or Parquet file with a header row")
     p.add_argument("--time", metavar="COL", help="column holding the sample times")
     p.add_argument("--delimiter", metavar="CHAR", help="force the field delimiter (default: sniffed)")
+    p.add_argument("--units", type=_units, default={}, metavar="COL=UNIT,...",
+                   help="units of columns, for figure labels and the JSON result "
+                        "(e.g. 'strain=mm/mm,stress=MPa,t=s')")
+
+
+def _units(text):
+    units = {}
+    for item in text.split(","):
+        if not item.strip():
+            continue
+        col, sep, unit = item.partition("=")
+        if not sep or not col.strip() or not unit.strip():
+            raise argparse.ArgumentTypeError(f"expected COL=UNIT, got {item.strip()!r}")
+        units[col.strip()] = unit.strip()
+    return units
+
+
+def _check_units(args, columns):
+    unknown = [c for c in args.units if c not in columns]
+    if unknown:
+        raise CLIError(f"--units names column {unknown[0]!r}, which is not used; "
+                       f"columns used: {', '.join(columns)}")
 
 
 def _positive_int(text):
@@ -438,32 +504,30 @@ def leadlag_summary(rep):
 
 
 def _cmd_leadlag(args):
-    out = Output(args.out, args.force)
+    out = Output(args.out, args.force, LEADLAG_FILES)
     planned = ["result.json", "area_matrix.csv"]
     if args.window:
         planned.append("rolling.csv")
     if args.surrogates:
-        planned.append("pvalues.csv")
+        planned += ["pvalues.csv", "qvalues.csv"]
     out.check_free(planned)
     if args.step is not None and args.window is None:
         raise CLIError("--step needs --window")
     if args.stream:
         return _cmd_leadlag_stream(args, out)
     tab = _load(args, args.columns)
+    _check_units(args, tab.names + ([args.time] if args.time else []))
     rep = leadlag_report(tab.values, tab.times, tab.names, closure=args.closure,
                          normalize=args.normalize, window=args.window, step=args.step,
                          surrogates=args.surrogates, surrogate_method=args.surrogate_method,
                          seed=args.seed, top=args.top, progress=_progress_flag(args))
     rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
-    out.add("area_matrix.csv", _matrix_csv(rep["area_matrix"], tab.names))
-    if "rolling" in rep:
-        out.add("rolling.csv", _rolling_csv(rep["rolling"], tab.names))
-    if "significance" in rep:
-        out.add("pvalues.csv", _matrix_csv(rep["significance"]["qvalues"], tab.names))
+    rep["units"] = dict(args.units)
+    for name, text in leadlag_tables(rep).items():
+        out.add(name, text)
     if _want_figures(args):
         from . import plotting
-        out_figs = plotting.leadlag_figures(rep)
-        for name, png in out_figs.items():
+        for name, png in plotting.leadlag_figures(rep, units=args.units).items():
             out.add(name, png)
     return _emit(args, rep, leadlag_summary(rep), out)
 
@@ -513,10 +577,13 @@ def _cmd_leadlag_stream(args, out):
         "notes": [],
         "input": {"table": os.path.abspath(args.table), "time_column": args.time},
     }
-    out.add("area_matrix.csv", _matrix_csv(M, names))
+    _check_units(args, names + ([args.time] if args.time else []))
+    rep["units"] = dict(args.units)
+    for name, text in leadlag_tables(rep).items():
+        out.add(name, text)
     if _want_figures(args):
         from . import plotting
-        for name, png in plotting.leadlag_figures(rep).items():
+        for name, png in plotting.leadlag_figures(rep, units=args.units).items():
             out.add(name, png)
     return _emit(args, rep, leadlag_summary(rep), out)
 
@@ -537,7 +604,7 @@ ENERGY_FORMS = ("y_dx", "x_dy")
 
 
 def loop_report(xy, times, names, *, closure="chord", reference=None, reference_name=None,
-                level=None, hysteresis=0.0, energy="y_dx", weight=None):
+                level=None, hysteresis=0.0, energy="y_dx", weight=None, stages=None):
     """Compute the loop report of the planar curve ``xy`` (T, 2) as a JSON-ready dict.
 
     ``energy`` chooses the per-cycle quantity: ``"y_dx"`` is ∮ y dx (work of
@@ -555,11 +622,14 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
 
     if energy not in ENERGY_FORMS:
         raise CLIError(f"unknown energy form {energy!r}; choose one of {', '.join(ENERGY_FORMS)}")
+    stage = stages.start if stages is not None else (lambda name: None)
     path = Path(xy, times=times, names=names)
+    stage("areas and faces")
     sa = signed_area(path, closure=closure)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         dec = decompose(path, closure=closure)
+        stage("moments and cycles")
         mom = region_moments(path, closure=closure)
     centroid = getattr(mom, "centroid", None)
     rep = {
@@ -596,9 +666,13 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
     }
     if weight is not None:
         from .formula import parse_formula
+        stage("weight")
         x, y = sp.symbols("x y", real=True)
         expr = parse_formula(weight, {"x": x, "y": y})
-        r = region_integral(expr, path, closure=closure, symbols=(x, y))
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            r = region_integral(expr, path, closure=closure, symbols=(x, y))
+        rep["notes"] += [str(w.message) for w in caught]
         rep["weighted_integral"] = {"formula": weight, "value": float(r), "error": r.error,
                                     "exact": r.exact, "method": r.method}
     return rep
@@ -636,13 +710,16 @@ def loop_summary(rep):
 
 
 def _cmd_loop(args):
-    out = Output(args.out, args.force)
+    from ._progress import Stages
+
+    out = Output(args.out, args.force, LOOP_FILES)
     out.check_free(["result.json", "cycles.csv"])
     cols = [args.x, args.y]
     if args.x == args.y:
         raise CLIError("--x and --y name the same column")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
     tab = _load(args, cols + ([extra] if extra else []))
+    _check_units(args, tab.names + ([args.time] if args.time else []))
     xy = tab.values[:, :2]
     if args.cycles_by == args.y:
         reference = tab.values[:, 1]
@@ -650,18 +727,25 @@ def _cmd_loop(args):
         reference = tab.values[:, 2]
     else:
         reference = None
-    rep = loop_report(xy, tab.times, cols, closure=args.closure, reference=reference,
-                      reference_name=args.cycles_by, level=args.level, hysteresis=args.hysteresis,
-                      energy=args.energy, weight=args.weight)
-    rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
-    c = rep["cycles"]
-    out.add("cycles.csv", "cycle,start,stop,value\n" + "".join(
-        f"{k + 1},{_num(a)},{_num(b)},{_num(v)}\n"
-        for k, (a, b, v) in enumerate(zip(c["start"], c["stop"], c["values"]))))
-    if _want_figures(args):
-        from . import plotting
-        for name, png in plotting.loop_figures(xy, cols, rep, closure=args.closure).items():
-            out.add(name, png)
+    figures = _want_figures(args)
+    steps = ["areas and faces", "moments and cycles"] + (["weight"] if args.weight else []) \
+        + (["figures"] if figures else [])
+    # shown for long inputs only (decomposing a noisy loop of 10^4+ samples takes a while)
+    with Stages("loop", steps, enabled=False if args.quiet else xy.shape[0] >= 20_000) as stages:
+        rep = loop_report(xy, tab.times, cols, closure=args.closure, reference=reference,
+                          reference_name=args.cycles_by, level=args.level,
+                          hysteresis=args.hysteresis, energy=args.energy, weight=args.weight,
+                          stages=stages)
+        rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
+        rep["units"] = dict(args.units)
+        for name, text in loop_tables(rep).items():
+            out.add(name, text)
+        if figures:
+            stages.start("figures")
+            from . import plotting
+            for name, png in plotting.loop_figures(xy, cols, rep, closure=args.closure,
+                                                   units=args.units).items():
+                out.add(name, png)
     return _emit(args, rep, loop_summary(rep), out)
 
 
@@ -673,6 +757,11 @@ def _cmd_demo(args):
 
 
 # --------------------------------------------------------------------------- main
+def _one_line_warning(message, category, filename, lineno, file=None, line=None):
+    text = str(message).strip().splitlines()
+    print(f"wedgepath: warning: {text[0] if text else category.__name__}", file=sys.stderr)
+
+
 def main(argv=None) -> int:
     """Run the command line; returns the exit code."""
     parser = build_parser()
@@ -681,7 +770,9 @@ def main(argv=None) -> int:
     except SystemExit as exc:  # --help, --version, or a usage error already printed
         return int(exc.code or 0)
     try:
-        return int(args.func(args) or 0)
+        with warnings.catch_warnings():
+            warnings.showwarning = _one_line_warning
+            return int(args.func(args) or 0)
     except KeyboardInterrupt:
         print("wedgepath: interrupted", file=sys.stderr)
         return 130

@@ -45,10 +45,12 @@ def _same_cycle(found, truth):
 
 def run(out=None, force=False, figures=True, quiet=False) -> int:
     """Run the demo; print summaries and checks; return 0 when every check passes."""
-    from .cli import Output, _dump_json, _matrix_csv, leadlag_report, leadlag_summary, \
-        loop_report, loop_summary
+    from .cli import LEADLAG_FILES, LOOP_FILES, Output, _dump_json, leadlag_report, \
+        leadlag_summary, leadlag_tables, loop_report, loop_summary, loop_tables
 
-    output = Output(out, force)
+    family = ("leadlag.json", "loop.json") + tuple(
+        f for f in LEADLAG_FILES + LOOP_FILES if f != "result.json")
+    output = Output(out, force, family)
     output.check_free(["leadlag.json", "loop.json", "area_matrix.csv"])
     ok = True
 
@@ -65,8 +67,11 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
     ok &= good
     print(f"\ncheck: cyclic order {'recovered' if good else 'NOT recovered'} "
           f"(true order: {' -> '.join(RING_ORDER)})")
+    rep["input"] = {"table": "wedgepath/data/ring_sensors.csv", "time_column": "time_s"}
+    rep["units"] = {"time_s": "s"}
     output.add("leadlag.json", _dump_json(rep))
-    output.add("area_matrix.csv", _matrix_csv(rep["area_matrix"], ring.names))
+    for name, text in leadlag_tables(rep).items():
+        output.add(name, text)
 
     load = bundled("load_test.csv")
     print()
@@ -84,7 +89,11 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
     print(f"\ncheck: energy per cycle {mean * 1e3:.4f} kJ/m^3 (mean of {count} cycles, std "
           f"{std * 1e3:.4f}); known value pi*eta*omega*e0^2 = {truth * 1e3:.4f} kJ/m^3 -> "
           f"{'recovered' if good else 'NOT recovered'} within {100 * rel:.2f}%")
+    lrep["input"] = {"table": "wedgepath/data/load_test.csv", "time_column": "time_s"}
+    lrep["units"] = {"strain": "mm/mm", "stress_MPa": "MPa", "time_s": "s"}
     output.add("loop.json", _dump_json(lrep))
+    for name, text in loop_tables(lrep).items():
+        output.add(name, text)
 
     if figures and out is not None:
         try:
@@ -92,10 +101,13 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
         except ImportError:
             print("note: matplotlib is not installed; no figures drawn", file=sys.stderr)
         else:
-            for name, png in plotting.leadlag_figures(rep).items():
+            for name, png in plotting.leadlag_figures(rep, units=rep["units"]).items():
                 output.add(name, png)
             xy = np.asarray(load.values)
-            for name, png in plotting.loop_figures(xy, load.names, lrep).items():
+            # the known energy per cycle, in the data's units (MPa x mm/mm = MJ/m^3)
+            for name, png in plotting.loop_figures(xy, load.names, lrep, units=lrep["units"],
+                                                   reference=truth,
+                                                   reference_label="known value").items():
                 output.add(name, png)
     written = output.write()
     if written:

@@ -18,7 +18,7 @@ import numpy as np
 
 from ._validation import as_float_array
 
-__all__ = ["lead_heatmap", "phase_circle", "loop_faces", "rolling_lead", "cycle_bars",
+__all__ = ["lead_heatmap", "phase_circle", "loop_faces", "loop_path", "rolling_lead", "cycle_bars",
            "leadlag_figures", "loop_figures", "DIVERGING"]
 
 
@@ -87,8 +87,8 @@ def lead_heatmap(A, names, order=None, ax=None, title="Lead matrix", label="A[i,
     labels = [names[k] for k in order]
     ax.set_xticks(range(len(labels)), labels, rotation=45, ha="right")
     ax.set_yticks(range(len(labels)), labels)
-    ax.set_xlabel("lagging channel j")
-    ax.set_ylabel("leading channel i")
+    ax.set_xlabel("column: channel j")
+    ax.set_ylabel("row: channel i")
     ax.set_title(title, color=_INK)
     cb = ax.figure.colorbar(im, ax=ax, fraction=0.046, pad=0.04)
     cb.set_label(label + "  (> 0: row leads column)")
@@ -119,14 +119,26 @@ def phase_circle(phases, names, moduli=None, order=None, ax=None, title="Phase o
         ax.annotate(nm, (ph, rr), xytext=(6, 6), textcoords="offset points", fontsize=9,
                     color=_INK)
     ax.set_rmax(1.15)
-    ax.set_yticklabels([])
-    ax.set_title(title + "\n(degrees behind the first channel of the cycle)", color=_INK, fontsize=10)
+    ax.set_rticks([0.25, 0.5, 0.75, 1.0])
+    ax.set_rlabel_position(200)
+    ax.tick_params(axis="y", labelsize=7, labelcolor="#8a857b")
+    ax.tick_params(axis="x", pad=6)
+    radius = "" if moduli is None else \
+        "\nradius: share in the cycle (largest = 1; near 0: phase unreliable)"
+    ax.set_title(title + "\nangle: degrees behind the first channel of the cycle" + radius,
+                 color=_INK, fontsize=9)
     return ax
 
 
 def loop_faces(decomposition, xy=None, names=("x", "y"), ax=None, title="Loop and its faces",
-               max_faces=20000):
-    """The curve in its plane with each face shaded by its winding number."""
+               max_faces=20000, curve=None):
+    """The curve in its plane with each face shaded by its winding number.
+
+    One colour per winding number present (teal for clockwise, negative;
+    orange for counter-clockwise, positive; deeper for larger ``|w|``).
+    ``curve`` draws ``xy`` over the faces (default: only when it has at most
+    2,000 samples, where it does not hide them).
+    """
     from .planar import Decomposition
     if not isinstance(decomposition, Decomposition):
         raise TypeError(f"loop_faces needs a Decomposition (from wp.decompose), got "
@@ -139,6 +151,7 @@ def loop_faces(decomposition, xy=None, names=("x", "y"), ax=None, title="Loop an
     _, plt, _ = _mpl()
     import shapely
     from matplotlib.collections import PatchCollection
+    from matplotlib.colors import BoundaryNorm, ListedColormap
     from matplotlib.patches import Polygon as MplPolygon
 
     ax = _axes(ax, (6, 5.5))
@@ -153,23 +166,86 @@ def loop_faces(decomposition, xy=None, names=("x", "y"), ax=None, title="Loop an
             patches.append(MplPolygon(ext, closed=True))
             values.append(w)
     if patches:
-        lim = max(1, int(np.max(np.abs(values))))
-        pc = PatchCollection(patches, cmap=_diverging(), edgecolor="none", alpha=0.85)
-        pc.set_array(np.asarray(values, dtype=float))
-        pc.set_clim(-lim - 0.5, lim + 0.5)
+        vals = np.asarray(values, dtype=int)
+        lo, hi = min(int(vals.min()), 0), max(int(vals.max()), 0)
+        lim = max(1, -lo, hi)
+        levels = np.arange(lo, hi + 1)
+        # 0 is paper white; |w| = lim the deepest shade of its sign
+        colours = _diverging()(0.5 + 0.5 * levels / lim)
+        norm = BoundaryNorm(np.arange(lo, hi + 2) - 0.5, len(levels))
+        pc = PatchCollection(patches, cmap=ListedColormap(colours), norm=norm,
+                             edgecolor="none", alpha=0.9)
+        pc.set_array(vals.astype(float))
         ax.add_collection(pc)
         cb = ax.figure.colorbar(pc, ax=ax, fraction=0.046, pad=0.04)
+        step = max(1, int(math.ceil(len(levels) / 12)))
+        cb.set_ticks(levels[::step])
         cb.set_label("winding number (counter-clockwise > 0)")
-    if xy is not None:
-        ax.plot(xy[:, 0], xy[:, 1], color=_INK, lw=0.35, alpha=0.55)
+    if xy is not None and (curve if curve is not None else xy.shape[0] <= 2000):
+        ax.plot(xy[:, 0], xy[:, 1], color=_INK, lw=0.4, alpha=0.5)
     from matplotlib.ticker import MaxNLocator
     ax.xaxis.set_major_locator(MaxNLocator(5))
     ax.yaxis.set_major_locator(MaxNLocator(6))
-    ax.autoscale_view()
+    if xy is not None and np.isfinite(xy).any():
+        _fit_limits(ax, xy)
+    else:
+        ax.autoscale_view()
     ax.set_xlabel(names[0])
     ax.set_ylabel(names[1])
     ax.set_title(title, color=_INK)
     ax.set_aspect("auto")
+    return ax
+
+
+def _fit_limits(ax, xy, margin=0.04):
+    lo, hi = np.nanmin(xy, axis=0), np.nanmax(xy, axis=0)
+    pad = margin * np.where(hi > lo, hi - lo, 1.0)
+    ax.set_xlim(lo[0] - pad[0], hi[0] + pad[0])
+    ax.set_ylim(lo[1] - pad[1], hi[1] + pad[1])
+
+
+def loop_path(xy, names=("x", "y"), ax=None, title="The recorded curve", arrows=8):
+    """The curve itself, coloured from the first sample (light) to the last (dark).
+
+    Arrows show the direction of travel (clockwise travel of a stress-strain
+    or p-V loop, with x = strain or volume, is energy dissipated); a ring
+    marks the first sample.  Gaps (NaN rows) stay gaps.
+    """
+    xy = as_float_array(xy, "xy", ndim=2, allow_nan=True)
+    if xy.shape[1] != 2:
+        raise ValueError(f"xy must have shape (T, 2), got {xy.shape}")
+    if xy.shape[0] < 2:
+        raise ValueError(f"xy needs at least 2 samples, got {xy.shape[0]}")
+    names = _labels(names, 2)
+    arrows = int(arrows)
+    _, plt, _ = _mpl()
+    from matplotlib.collections import LineCollection
+    from matplotlib.colors import LinearSegmentedColormap
+
+    ax = _axes(ax, (6, 5.5))
+    seg = np.stack([xy[:-1], xy[1:]], axis=1)
+    ok = np.isfinite(seg).all(axis=(1, 2))
+    ramp = LinearSegmentedColormap.from_list("wedgepath_time", ["#9fc5c6", _TEAL, "#06323b"])
+    lc = LineCollection(seg[ok], cmap=ramp, linewidths=0.8)
+    lc.set_array(np.flatnonzero(ok).astype(float))
+    ax.add_collection(lc)
+    cb = ax.figure.colorbar(lc, ax=ax, fraction=0.046, pad=0.04)
+    cb.set_label("sample number")
+    good = np.flatnonzero(ok)
+    if arrows > 0 and good.size:
+        for k in good[np.linspace(0, good.size - 1, arrows + 2).astype(int)[1:-1]]:
+            ax.annotate("", xy=xy[k + 1], xytext=xy[k],
+                        arrowprops=dict(arrowstyle="-|>", color=_ORANGE, lw=1.2,
+                                        mutation_scale=14))
+    first = np.flatnonzero(np.isfinite(xy).all(axis=1))
+    if first.size:
+        ax.plot(*xy[first[0]], "o", mfc="none", mec=_ORANGE, ms=9, mew=1.6, label="first sample")
+        ax.legend(frameon=False, fontsize=8, loc="best")
+    if np.isfinite(xy).any():
+        _fit_limits(ax, xy)
+    ax.set_xlabel(names[0])
+    ax.set_ylabel(names[1])
+    ax.set_title(title, color=_INK)
     return ax
 
 
@@ -195,6 +271,8 @@ def rolling_lead(start_time, end_time, areas, names, pairs=None, ax=None, top=4,
         strength = np.nanmean(np.abs(areas), axis=0)
         cand = [(strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)]
         pairs = [(i, j) for _, i, j in sorted(cand, reverse=True)[:top]]
+        # each pair named the way round in which it leads on average: lines above zero
+        pairs = [(i, j) if np.nanmean(areas[:, i, j]) >= 0 else (j, i) for i, j in pairs]
     ax = _axes(ax, (7, 4))
     palette = [_ORANGE, _TEAL, "#8a6d3b", "#5b4a8a", "#2f7d3b", "#a33b5c"]
     for k, (i, j) in enumerate(pairs):
@@ -204,23 +282,42 @@ def rolling_lead(start_time, end_time, areas, names, pairs=None, ax=None, top=4,
     ax.set_xlabel(xlabel)
     ax.set_ylabel("A[i, j] per window  (> 0: i leads)")
     ax.set_title(title, color=_INK)
-    ax.legend(frameon=False, fontsize=8)
+    ax.legend(frameon=False, fontsize=8, loc="best")
     return ax
 
 
-def cycle_bars(values, ax=None, title="Per-cycle loop integral", ylabel="value per cycle"):
-    """Bar chart of per-cycle values with their mean."""
+def cycle_bars(values, ax=None, title="Per-cycle loop integral", ylabel="value per cycle",
+               reference=None, reference_label="expected"):
+    """Per-cycle values as points on a scale fitted to them, with the mean and +-1 std band.
+
+    ``reference`` draws a known or expected value as a dashed line.  Cycles
+    with no value (NaN) are marked on the axis.
+    """
     vals = as_float_array(values, "values", ndim=1, allow_nan=True)
-    ax = _axes(ax, (7, 3.6))
+    if reference is not None:
+        reference = float(as_float_array(reference, "reference", ndim=0))
+    ax = _axes(ax, (8, 3.6))
     k = np.arange(1, vals.size + 1)
-    ax.bar(k, np.nan_to_num(vals), color=np.where(np.isnan(vals), "#c9c2b4", _TEAL))
-    if np.isfinite(vals).any():
-        m = float(np.nanmean(vals))
-        ax.axhline(m, color=_ORANGE, lw=1.5)
-        title = f"{title} (mean {m:.4g}, orange line)"
+    ok = np.isfinite(vals)
+    ax.plot(k[ok], vals[ok], "o-", color=_TEAL, ms=6, lw=0.8, label="cycle")
+    if (~ok).any():
+        ax.plot(k[~ok], np.full((~ok).sum(), np.nanmin(vals) if ok.any() else 0), "x",
+                color="#8a857b", label="no value")
+    if ok.any():
+        m, sd = float(np.mean(vals[ok])), float(np.std(vals[ok]))
+        ax.axhline(m, color=_ORANGE, lw=1.5, label=f"mean {m:.4g}")
+        if sd > 0:
+            ax.axhspan(m - sd, m + sd, color=_ORANGE, alpha=0.12, lw=0, label=f"+-1 std ({sd:.2g})")
+    if reference is not None:
+        ax.axhline(reference, color=_INK, lw=1.2, ls="--", label=f"{reference_label} {reference:.4g}")
     ax.set_xlabel("cycle")
     ax.set_ylabel(ylabel)
     ax.set_title(title, color=_INK)
+    if vals.size:
+        ax.set_xlim(0.4, vals.size + 0.6)
+    from matplotlib.ticker import MaxNLocator
+    ax.xaxis.set_major_locator(MaxNLocator(integer=True))
+    ax.legend(frameon=False, fontsize=8, loc="upper left", bbox_to_anchor=(1.01, 1.0))
     return ax
 
 
@@ -233,8 +330,16 @@ def _png(fig):
     return buf.getvalue()
 
 
-def leadlag_figures(report) -> dict:
-    """PNG files (name -> bytes) for a lead-lag report made by the command line."""
+def _with_unit(name, units):
+    unit = (units or {}).get(name)
+    return f"{name} [{unit}]" if unit else str(name)
+
+
+def leadlag_figures(report, units=None) -> dict:
+    """PNG files (name -> bytes) for a lead-lag report made by the command line.
+
+    ``units`` maps column names (channels or the time column) to units for the axis labels.
+    """
     names = report["channels"]
     A = np.asarray(report["area_matrix"], dtype=float)
     idx = {nm: k for k, nm in enumerate(names)}
@@ -250,23 +355,43 @@ def leadlag_figures(report) -> dict:
     out["phases.png"] = _png(ax.figure)
     if "rolling" in report:
         r = report["rolling"]
+        tcol = (report.get("input") or {}).get("time_column")
+        xlabel = ("window centre, " + _with_unit(tcol, units)) if tcol else \
+            "window centre (sample number)"
         ax = rolling_lead(r["start_time"], r["end_time"], r["areas"], names,
-                          title=f"Rolling lead, windows of {r['window']} samples")
+                          title=f"Rolling lead, windows of {r['window']} samples "
+                                "(raw areas)" if report.get("normalize") else
+                                f"Rolling lead, windows of {r['window']} samples",
+                          xlabel=xlabel)
         out["rolling_lead.png"] = _png(ax.figure)
     return out
 
 
-def loop_figures(xy, names, report, closure="chord") -> dict:
-    """PNG files (name -> bytes) for a loop report made by the command line."""
+def loop_figures(xy, names, report, closure="chord", units=None, reference=None,
+                 reference_label="expected") -> dict:
+    """PNG files (name -> bytes) for a loop report made by the command line.
+
+    ``loop.png``: the faces by winding number beside the curve itself with its
+    direction; ``cycles.png``: the per-cycle values (``reference``: a known
+    value to draw beside them).  ``units`` maps the two names to units.
+    """
     from .planar import decompose
+    _, plt, _ = _mpl()
     out = {}
+    labels = [_with_unit(n, units) for n in names]
     dec = decompose(np.asarray(xy, dtype=float), closure=closure)
-    ax = loop_faces(dec, xy, names,
-                    title=f"{names[1]} against {names[0]}: faces by winding number")
-    out["loop.png"] = _png(ax.figure)
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(11, 4.8), dpi=110)
+    loop_faces(dec, xy, labels, ax=a1, title="Faces by winding number")
+    loop_path(xy, labels, ax=a2, title="The curve and its direction")
+    fig.suptitle(f"{names[1]} against {names[0]}", color=_INK)
+    out["loop.png"] = _png(fig)
     c = report["cycles"]
     if len(c["values"]):
-        ax = cycle_bars(c["values"], title=c["quantity"], ylabel=f"per cycle ({names[1]} x {names[0]})")
+        unit = " x ".join(f"[{(units or {}).get(n)}]" for n in names[::-1]
+                          if (units or {}).get(n))
+        ax = cycle_bars(c["values"], title=f"{c['quantity']} ({len(c['values'])} cycles)",
+                        ylabel="per cycle" + (f", {unit}" if unit else ""),
+                        reference=reference, reference_label=reference_label)
         out["cycles.png"] = _png(ax.figure)
     return out
 
