@@ -406,6 +406,9 @@ def leadlag_report(values, times, names, *, closure="chord", normalize=None, win
         if window > values.shape[0]:
             raise CLIError(f"--window {window} is longer than the {values.shape[0]} samples")
         roll = rolling_area_matrix(values, window, st, times=times, labels=True)
+        if normalize is not None:
+            report["notes"].append("rolling windows hold raw areas A[i, j]; --normalize "
+                                   "applies to the whole-recording matrix only")
         report["rolling"] = {
             "window": window, "step": st,
             "start_time": roll.start_time, "end_time": roll.end_time,
@@ -685,8 +688,13 @@ def loop_summary(rep):
              f"absolute area (|winding| weighted):  {rep['absolute_area']:.6g}",
              f"faces: {rep['faces']}, lobes: {len(rep['lobes'])}"]
     if rep["area_by_winding"]:
-        lines.append("area by winding number: " + ", ".join(
-            f"{k}: {v:.4g}" for k, v in rep["area_by_winding"].items()))
+        items = list(rep["area_by_winding"].items())
+        shown = items if len(items) <= 10 else \
+            sorted(sorted(items, key=lambda kv: -abs(kv[1]))[:8], key=lambda kv: int(kv[0]))
+        more = f" (the {len(shown)} largest of {len(items)}; all in the JSON result)" \
+            if len(shown) < len(items) else ""
+        lines.append("area by winding number" + more + ": " + ", ".join(
+            f"{k}: {v:.4g}" for k, v in shown))
     for k, lb in enumerate(rep["lobes"][:6]):
         lines.append(f"  lobe {k + 1}: {'counter-clockwise' if lb['sign'] > 0 else 'clockwise'}, "
                      f"signed area {lb['signed_area']:.4g} over {lb['faces']} face(s)")
