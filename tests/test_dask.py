@@ -3,8 +3,9 @@
 The reference everywhere is :func:`wedgepath.area_matrix` of the whole array
 in memory (itself tested against per-pair loops, exact rational arithmetic
 and closed forms in test_signals.py).  The cluster is a
-``dask.distributed.LocalCluster`` started here (two single-threaded workers
-in this process) and shut down at the end of the module.
+``dask.distributed.LocalCluster`` started here (two single-threaded worker
+processes, so that every partial state is pickled and sent between processes)
+and shut down at the end of the module.
 """
 
 from __future__ import annotations
@@ -29,7 +30,8 @@ RTOL = 1e-10
 
 @pytest.fixture(scope="module")
 def client():
-    cluster = LocalCluster(n_workers=2, threads_per_worker=1, processes=False,
+    # worker processes: every state crosses a process boundary (pickled), as on a real cluster
+    cluster = LocalCluster(n_workers=2, threads_per_worker=1, processes=True,
                            dashboard_address=None)
     cl = Client(cluster)
     try:
