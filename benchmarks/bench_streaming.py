@@ -16,8 +16,9 @@ reports that program's peak RSS alone.  Rows:
   the whole file (just parsing it, the floor for any reader) and of Python
   importing the command line (the fixed cost);
 * the library call ``wedgepath.io.stream_area_matrix`` in a subprocess;
-* the same data as Parquet through ``--stream`` (read in record batches, so
-  memory is bounded by one row group plus one chunk; target < 300 MB too).
+* the same data as Parquet through ``--stream`` (record batches through a
+  buffered stream without pre-buffering: memory of about one chunk, whatever
+  the row-group size; target < 300 MB too).
 
 Run:  .venv/bin/python benchmarks/bench_streaming.py  [--quick]
 """

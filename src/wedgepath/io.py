@@ -379,13 +379,16 @@ def _chunk(rows, times, t_idx, chosen, name, first):
 
 def _parquet_file(source, name):
     """An open ``pyarrow.parquet.ParquetFile`` (metadata only; rows are read in batches)."""
-    _pandas(name, "Parquet")          # the same install hint as for CSV through pandas
     try:
-        import pyarrow.parquet as pq
+        import pyarrow.parquet as pq   # pandas is not needed (nor imported) for Parquet
     except ImportError:
-        raise TableError(f"{name}: reading Parquet needs pyarrow (pip install pyarrow)") from None
+        raise TableError(f"{name}: reading Parquet needs pyarrow "
+                         "(pip install 'wedgepath[io]')") from None
     try:
-        return pq.ParquetFile(source)
+        # no pre-buffering (it caches every column chunk read, the whole file by the end) and
+        # a buffered stream (pages are decoded as they are read, not a column chunk at once):
+        # memory stays about one batch, whatever the row-group size
+        return pq.ParquetFile(source, pre_buffer=False, buffer_size=1 << 20)
     except Exception as exc:  # pyarrow raises many kinds
         raise TableError(f"{name}: cannot read Parquet ({type(exc).__name__}: {exc})") from None
 
