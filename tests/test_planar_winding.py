@@ -172,6 +172,51 @@ def test_shapes_of_results():
     assert wp.winding_number(sq, np.zeros((0, 2))).shape == (0,)
 
 
+@st.composite
+def float_polygons(draw, max_size=12):
+    n = draw(st.integers(3, max_size))
+    c = st.floats(-10, 10, allow_nan=False, allow_infinity=False)
+    return np.array(draw(st.lists(st.tuples(c, c), min_size=n, max_size=n)))
+
+
+@PROPS
+@given(float_polygons(), st.floats(0, 2 * np.pi), st.floats(-1e3, 1e3), st.floats(-1e3, 1e3),
+       st.lists(st.tuples(st.floats(-12, 12), st.floats(-12, 12)), min_size=1, max_size=30))
+def test_rigid_motions_and_reversal(poly, angle, tx, ty, pts):
+    # a rotation and translation of curve and points together leaves every winding
+    # number unchanged; reversing the curve negates them (common practice, no source).
+    # Rotating in floating point moves points by ~1e-13: points closer than 1e-6 (relative)
+    # to the curve, where the answer may legitimately flip, are left out.
+    q = np.array(pts, dtype=float)
+    scale = max(1.0, float(np.abs(poly).max()))
+    far = distance_to_polygon(poly, q) > 1e-6 * scale
+    q = q[far]
+    w = wp.winding_number(poly, q)
+    assert np.array_equal(w, angle_sum(poly, q))
+    R = np.array([[np.cos(angle), -np.sin(angle)], [np.sin(angle), np.cos(angle)]])
+    move = (lambda a: a @ R.T + [tx, ty])
+    assert np.array_equal(wp.winding_number(move(poly), move(q)), w)
+    assert np.array_equal(wp.winding_number(poly[::-1], q), -w)
+
+
+@PROPS
+@given(int_polygons(), st.integers(0, 3), st.booleans(),
+       st.lists(st.tuples(st.integers(-7, 7), st.integers(-7, 7)), min_size=1, max_size=30))
+def test_quarter_turns_and_mirrors_are_exact(poly, turns, mirror, pts):
+    # quarter turns are exact in floating point: nothing is rounded, and points off the
+    # curve keep their winding numbers exactly (the documented rule for points on the curve
+    # is half-open, not rotation-invariant, and is tested elsewhere); a mirror image
+    # negates the winding
+    q = np.array(pts, dtype=float) + 0.5
+    q = q[distance_to_polygon(poly, q) > 0]
+    R = np.linalg.matrix_power(np.array([[0.0, -1.0], [1.0, 0.0]]), turns)
+    w = wp.winding_number(poly, q)
+    assert np.array_equal(wp.winding_number(poly @ R.T, q @ R.T), w)
+    if mirror:
+        M = np.array([[-1.0, 0.0], [0.0, 1.0]])
+        assert np.array_equal(wp.winding_number(poly @ M.T, q @ M.T), -w)
+
+
 def test_reversal_negates_and_translation_is_invariant():
     rng = np.random.default_rng(4)
     poly = rng.normal(size=(30, 2))
