@@ -108,4 +108,4 @@ def main(quick=False):
 
 
 if __name__ == "__main__":
-    main(quick="--quick" in sys.argv)
+    sys.exit(0 if main(quick="--quick" in sys.argv) else 1)

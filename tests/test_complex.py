@@ -173,17 +173,21 @@ class TestDeRham:
 
 
 # ------------------------------------------------------------------ Whitney
+def well_shaped(cx):
+    """Whitney forms need non-degenerate triangles: True for well-shaped ones only."""
+    T = cx.vertices[cx.simplices(2)]
+    e1, e2 = T[:, 1] - T[:, 0], T[:, 2] - T[:, 0]
+    gram = (e1 * e1).sum(1) * (e2 * e2).sum(1) - (e1 * e2).sum(1) ** 2
+    return bool((gram > 1e-4 * (e1 * e1).sum(1) * (e2 * e2).sum(1)).all())
+
+
 class TestWhitney:
     @settings(max_examples=20, deadline=None)
     @given(cone_complexes(), st.integers(0, 2 ** 32 - 1))
     def test_whitney_then_de_rham_is_identity(self, case, seed):
         # Whitney 1957 (ch. IV §27) / Dodziuk 1976: ∫_τ W(c) = c_τ on every simplex
         _, cx = case
-        # Whitney forms need non-degenerate triangles: keep well-shaped cones only
-        T = cx.vertices[cx.simplices(2)]
-        e1, e2 = T[:, 1] - T[:, 0], T[:, 2] - T[:, 0]
-        gram = (e1 * e1).sum(1) * (e2 * e2).sum(1) - (e1 * e2).sum(1) ** 2
-        assume((gram > 1e-4 * (e1 * e1).sum(1) * (e2 * e2).sum(1)).all())
+        assume(well_shaped(cx))
         rng = np.random.default_rng(seed)
         for k in range(3):
             c = rng.normal(size=cx.shape[k])
@@ -226,6 +230,41 @@ class TestWhitney:
                 for col, I in enumerate(Wd.indices):
                     np.testing.assert_allclose(vals.get(I, np.zeros(6)), ref[:, col],
                                                rtol=1e-9, atol=1e-9)
+
+    @settings(max_examples=40, deadline=None)
+    @given(cone_complexes(), st.integers(0, 2**32 - 1))
+    def test_integrate_whitney_forms_stokes_in_one_line(self, case, seed):
+        # integrate() takes Whitney forms over chains of their complex: the discrete Stokes
+        # theorem <d c, S> = <c, dS> in one line each side, and the same value from
+        # integrating the sympy form of W.d() on every triangle (form_on: an independent
+        # route through the simplicial quadrature)
+        S, cx = case
+        assume(well_shaped(cx))
+        c = np.random.default_rng(seed).normal(size=cx.shape[1])
+        W = cx.whitney(c, 1)
+        lhs, rhs = wp.integrate(W.d(), S), wp.integrate(W, S.boundary())
+        assert lhs.exact and rhs.exact
+        scale = np.abs(c).sum() + 1.0
+        assert float(lhs) == pytest.approx(float(rhs), abs=1e-12 * scale)
+        coef = cx.chain_vector(S)
+        dW = W.d()
+        unit = np.eye(len(coef), dtype=int)
+        one_by_one = sum(int(coef[j]) * float(wp.integrate(dW.form_on(j), cx.chain(unit[j], 2)))
+                         for j in np.flatnonzero(coef))
+        assert float(lhs) == pytest.approx(one_by_one, abs=1e-9 * scale)
+
+    def test_integrate_whitney_bad_chains(self):
+        cx = wp.SimplicialComplex([[0, 0], [1, 0], [0, 1], [1, 1]], [[0, 1, 2], [1, 3, 2]])
+        W = cx.whitney(np.arange(5.0), 1)
+        with pytest.raises(ValueError, match="got a 2-chain"):
+            wp.integrate(W, cx.chain([1, 1], 2))
+        with pytest.raises(ValueError, match="not a vertex of the complex"):
+            wp.integrate(W, wp.Path([[0, 0], [5, 5]]))
+        with pytest.raises(ValueError, match="closure= and curve= apply to paths"):
+            wp.integrate(W, cx.chain([1, 0, 0, 0, 0], 1), closure="chord")
+        # a path along the complex's edges is a chain of its 1-simplices
+        r = wp.integrate(W, wp.Path([[0, 0], [1, 0], [1, 1]]))
+        assert r.exact and float(r) == pytest.approx(float(cx.de_rham(W)[[0, 3]].sum()))
 
     def test_whitney_0_form_is_linear_interpolation(self):
         # hat functions: the interpolant of a linear function's values is that function

@@ -764,10 +764,12 @@ def _coef_array(coefficients, n):
 class WhitneyForm:
     """The Whitney interpolant of a cochain: a k-form, affine on each top simplex.
 
-    Made by :meth:`SimplicialComplex.whitney`.  Integrate it over the complex's
-    simplices with ``cx.de_rham(W)`` (exact), evaluate it with
-    :meth:`evaluate`, or get it on one top simplex as a sympy :class:`Form`
-    with :meth:`form_on`.
+    Made by :meth:`SimplicialComplex.whitney`.  Integrate it over any chain of
+    the complex's k-simplices with ``wp.integrate(W, chain)`` (exact; for
+    instance ``wp.integrate(W.d(), S)`` against ``wp.integrate(W,
+    S.boundary())``), over every simplex at once with ``cx.de_rham(W)``,
+    evaluate it with :meth:`evaluate`, or get it on one top simplex as a sympy
+    :class:`Form` with :meth:`form_on`.
 
     Attributes
     ----------
@@ -918,6 +920,33 @@ class WhitneyForm:
         if not comps:
             return Form({}, self.degree, cx.dim, xs)
         return Form(comps, self.degree, cx.dim, xs)
+
+    def _integrate(self, chain, closure=None, curve="linear"):
+        """``integrate(W, chain)``: the chain's coefficients on the complex against ``_de_rham``."""
+        from .integrate import Integral
+        if closure is not None or curve != "linear":
+            raise ValueError("closure= and curve= apply to paths; a Whitney form is integrated "
+                             "over a chain of its complex's simplices as it is")
+        cx, k = self.complex, self.degree
+        where = (f"a Whitney {k}-form integrates over chains of its complex's {k}-simplices "
+                 f"(e.g. cx.chain(coefficients, {k}) or the boundary of such a chain)")
+        try:
+            if not isinstance(chain, SimplicialChain):
+                chain = SimplicialChain.from_chain(chain)
+            if chain.degree != k:
+                raise ValueError(f"got a {chain.degree}-chain")
+            vec = cx.chain_vector(chain)
+        except (ValueError, TypeError) as exc:
+            raise type(exc)(f"{where}: {exc}") from None
+        vals = self._de_rham()
+        terms = vec.astype(np.float64) * vals
+        value = float(np.sum(terms))
+        return Integral(value, error=0.0, exact=True,
+                        method="Whitney form over the complex's simplices (exact)",
+                        # pairwise summation: about log2(n) roundings of the term sizes
+                        rounding=float(np.finfo(np.float64).eps * np.abs(terms).sum()
+                                       * max(1, int(np.log2(terms.size + 1)))),
+                        evaluations=0)
 
     def _de_rham(self):
         """Exact integrals over the complex's k-simplices (affine: barycentre rule)."""

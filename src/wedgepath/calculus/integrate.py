@@ -156,11 +156,12 @@ def integrate(form, chain, closure=None, curve="linear", *, rtol=1e-10, atol=0.0
 
     Parameters
     ----------
-    form : Form
+    form : Form or WhitneyForm
         A 0-form (over a :class:`ZeroChain`), a 1-form (along a path or chain)
         or a 2-form (over the surface a closed path bounds; constant
         coefficients here, planar regions and spanning surfaces in their
-        modules).
+        modules); or a Whitney form of a :class:`SimplicialComplex`, over a
+        chain of that complex's simplices (exact).
     chain : Path, Chain, ZeroChain or array_like (T, n)
         Where to integrate.  Arrays become :class:`Path`.
     closure : {"none", "chord", "detrend", "require"}, optional
@@ -214,6 +215,9 @@ def integrate(form, chain, closure=None, curve="linear", *, rtol=1e-10, atol=0.0
     (0.841470984808, False, True)
     """
     if not isinstance(form, Form):
+        from .complexes import WhitneyForm    # same layer; imported late (it imports us)
+        if isinstance(form, WhitneyForm):
+            return form._integrate(chain, closure=closure, curve=curve)
         raise TypeError(f"integrate needs a Form as its first argument, got {type(form).__name__}; "
                         "build one with wp.dx, wp.OneForm, wp.TwoForm or Form.from_sympy")
     check_choice(curve, "curve model", CURVES)
