@@ -615,3 +615,48 @@ def TwoForm(components, *, dim=None, symbols=None, degree=None) -> Form:
     n = M.shape[0]
     terms = {(i, j): M[i, j] for i, j in combinations(range(n), 2) if M[i, j] != 0}
     return Form(terms, 2, n if dim is None else dim)
+
+
+def _one_form_from_sympy(exprs, symbols) -> Form:
+    """The 1-form ``sum_i exprs[i] dx_i`` from n sympy expressions over n coordinate symbols.
+
+    ``wp.OneForm.from_sympy(exprs, symbols)``: the same as
+    ``wp.Form.from_sympy(list(exprs), symbols)``, refusing anything but a sequence of n
+    expressions.  ``.d()`` of the result is exact.
+
+    Examples
+    --------
+    >>> import sympy as sp, wedgepath as wp
+    >>> x, y = sp.symbols("x y")
+    >>> w = wp.OneForm.from_sympy([-y, x], [x, y])
+    >>> w.d().terms_as_dict()
+    {(0, 1): 2.0}
+    """
+    if isinstance(exprs, (dict, str)) or not hasattr(exprs, "__len__"):
+        raise TypeError("OneForm.from_sympy needs a sequence of n expressions, one per "
+                        "coordinate")
+    return Form.from_sympy(list(exprs), symbols)
+
+
+def _two_form_from_sympy(components, symbols) -> Form:
+    """The 2-form ``sum f_ij dx_i ^ dx_j`` from ``{(i, j): sympy expression}``.
+
+    ``wp.TwoForm.from_sympy(components, symbols)``, the same as
+    ``wp.TwoForm(components, symbols=symbols)`` with every coefficient sympy.
+
+    Examples
+    --------
+    >>> import sympy as sp, wedgepath as wp
+    >>> x, y = sp.symbols("x y")
+    >>> wp.TwoForm.from_sympy({(0, 1): x * y}, [x, y]).terms_as_dict()
+    {(0, 1): x*y}
+    """
+    if not isinstance(components, dict):
+        raise TypeError("TwoForm.from_sympy needs a dict {(i, j): expression}")
+    syms = _check_symbols(symbols)
+    return TwoForm({k: sympy.sympify(v) for k, v in components.items()}, dim=len(syms),
+                   symbols=syms)
+
+
+OneForm.from_sympy = _one_form_from_sympy
+TwoForm.from_sympy = _two_form_from_sympy

@@ -19,7 +19,9 @@ the pull-back, see :mod:`wedgepath.calculus.simplicial`).
 ``simplex_rule(k, degree)``
     The rule used by the library to integrate a polynomial of ``degree``
     exactly: a single point for k = 0, Gauss-Legendre for k = 1 (positive
-    weights, fewest points), Grundmann-Möller for k >= 2.
+    weights, fewest points), Grundmann-Möller for k >= 2 while its
+    alternating weights amplify rounding little, a conical product rule
+    (positive weights) beyond.
 
 Examples
 --------
