@@ -1052,6 +1052,12 @@ row("wp.plotting.rolling_lead(start, end, areas, names)", "ndim", "areas of shap
 row("wp.plotting.rolling_lead(start, end, areas, names)", "length", "1 start time for 2 windows",
     lambda: plotting.rolling_lead([0], [1, 2], np.zeros((2, 2, 2)), ["a", "b"]), ValueError,
     "one per window")
+row("wp.plotting.loop_path(xy)", "ndim", "xy of shape (4, 3)",
+    lambda: plotting.loop_path(np.zeros((4, 3))), ValueError, "xy must have shape (T, 2)")
+row("wp.plotting.loop_path(xy)", "single", "one sample",
+    lambda: plotting.loop_path(np.zeros((1, 2))), ValueError, "at least 2 samples")
+row("wp.plotting.loop_path(xy)", "text", "text", lambda: plotting.loop_path([["a", "b"]]),
+    TypeError, "xy holds text")
 row("wp.plotting.cycle_bars(values)", "ndim", "a 2-D array",
     lambda: plotting.cycle_bars(np.zeros((2, 2))), ValueError, "values must be 1-dimensional")
 row("wp.plotting.cycle_bars(values)", "text", "text", lambda: plotting.cycle_bars(["a"]), TypeError,
@@ -1163,6 +1169,16 @@ row("wedgepath loop", "overflow", "coordinates near 1e200 (areas beyond float64)
     lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y"],
                     {"in.csv": "x,y\n0,0\n1e200,0\n1e200,1e200\n0,1e200\n"}), "exit 2",
     "overflows float64")
+row("wedgepath loop", "option", "--units naming a column not used",
+    lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--units", "zz=m"],
+                    {"in.csv": LOOP_CSV}), "exit 2", "--units names column 'zz'")
+row("wedgepath leadlag", "option", "--units without '='",
+    lambda: run_cli(["leadlag", "in.csv", "--units", "a"], {"in.csv": GOOD_CSV}), "exit 2",
+    "expected COL=UNIT")
+row("wedgepath loop", "option", "--weight whose nested powers have thousands of digits",
+    lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--weight",
+                     "(((9**64)**64)**64)**64"], {"in.csv": LOOP_CSV}), "exit 2",
+    "more than 400 digits")
 row("wedgepath demo", "option", "an unknown flag --frobnicate",
     lambda: run_cli(["demo", "--frobnicate"]), "exit 2", "unrecognized arguments: --frobnicate")
 row("wedgepath", "option", "an unknown subcommand", lambda: run_cli(["fly"]), "exit 2",
@@ -1296,7 +1312,7 @@ def public_calls():
     names |= {f"wp.symbolic.{n}" for n in symbolic.__all__}
     names |= {"wp.formula.parse_formula", "wp.calculus.as_path", "wp.calculus.grundmann_moller"}
     names |= {f"wp.plotting.{n}" for n in ("lead_heatmap", "phase_circle", "loop_faces",
-                                           "rolling_lead", "cycle_bars")}
+                                           "loop_path", "rolling_lead", "cycle_bars")}
     names |= {"wedgepath leadlag", "wedgepath loop", "wedgepath demo"}
     if wdask is not None:
         names |= {"wp.dask.area_matrix", "wp.dask.area_matrices", "wp.dask.file_area_matrices"}
