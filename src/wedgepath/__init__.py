@@ -21,3 +21,14 @@ __all__ = ["Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm", "TwoForm
            "integrate", "Integral", "IntegrationWarning", "CLOSURES", "__version__",
            "SimplicialChain", "SimplicialComplex", "WhitneyForm", "cone",
            *planar.__all__, *signals.__all__]
+
+
+def __getattr__(name):
+    # the sympy-backed modules load on first use (``wp.symbolic``, ``wp.formula``), so that
+    # ``import wedgepath`` does not import sympy
+    if name in ("symbolic", "formula"):
+        import importlib
+
+        return importlib.import_module(f"{__name__}.{name}")
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+

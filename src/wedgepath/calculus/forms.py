@@ -36,9 +36,8 @@ from collections.abc import Mapping
 from itertools import combinations
 
 import numpy as np
-import sympy
 
-from .. import symbolic
+from .._lazy import is_sympy, sympy
 from .._validation import as_int, check_values
 
 __all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient"]
@@ -131,7 +130,7 @@ class Coefficient:
             if not np.isfinite(v):
                 raise ValueError(f"form coefficient must be finite, got {v}")
             return cls.constant(v)
-        if isinstance(spec, sympy.Basic):
+        if is_sympy(spec):
             if not spec.free_symbols:
                 return cls.from_sympy(spec, ())
             if symbols is None:
@@ -308,7 +307,7 @@ class Form:
             if len(degrees) != 1:
                 raise ValueError(f"terms of mixed degree {sorted(degrees)}")
             return cls(components, degrees.pop(), n, symbols)
-        if isinstance(components, (sympy.Basic, numbers.Real)):
+        if (is_sympy(components) or isinstance(components, numbers.Real)):
             return cls({(): sympy.sympify(components)}, 0, n, symbols)
         comps = list(components)
         if len(comps) != n:
@@ -416,7 +415,7 @@ class Form:
                 raise ValueError(f"scale factor must be finite, got {c}")
             return Form({k: v.scaled(float(c)) for k, v in self._terms.items()},
                         self.degree, self.dim, self.symbols)
-        if isinstance(c, sympy.Basic):
+        if is_sympy(c):
             if self.symbols is None:
                 raise ValueError("multiply by a sympy expression only forms that have symbols")
             f = Coefficient.from_sympy(c, self.symbols)
@@ -468,6 +467,8 @@ class Form:
                             "coefficients (build it with Form.from_sympy to differentiate)")
         if self.symbols is None:  # constant form: d = 0
             return Form({}, self.degree + 1, self.dim)
+        from .. import symbolic
+
         out = symbolic.exterior_derivative(self.to_sympy(), self.symbols)
         return Form(out, self.degree + 1, self.dim, self.symbols)
 
@@ -482,13 +483,13 @@ def _basis_name(idx):
 
 
 def _check_symbols(symbols):
-    if isinstance(symbols, sympy.Symbol):
+    if is_sympy(symbols, "Symbol"):
         symbols = (symbols,)
     symbols = tuple(symbols)
     if not symbols:
         raise ValueError("give at least one coordinate symbol")
     for s in symbols:
-        if not isinstance(s, sympy.Symbol):
+        if not is_sympy(s, "Symbol"):
             raise TypeError(f"coordinate symbols must be sympy Symbols, got {s!r}")
     if len(set(symbols)) != len(symbols):
         raise ValueError("coordinate symbols must be distinct")
@@ -516,7 +517,7 @@ def _infer_symbols(specs, symbols):
         return _check_symbols(symbols)
     free = set()
     for s in specs:
-        if isinstance(s, sympy.Basic):
+        if is_sympy(s):
             free |= s.free_symbols
     if not free:
         return None

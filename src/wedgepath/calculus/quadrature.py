@@ -16,7 +16,6 @@ from functools import lru_cache
 from math import ceil
 
 import numpy as np
-from scipy.interpolate import CubicSpline
 
 __all__ = ["gauss_legendre", "LinearGeometry", "SplineGeometry", "points_needed"]
 
@@ -106,6 +105,8 @@ class SplineGeometry:
         if periodic and T == 3:
             # two distinct samples: a periodic cubic is ill-posed, use the closed polyline
             bc = "not-a-knot"
+        from scipy.interpolate import CubicSpline   # on first use: scipy.interpolate is heavy
+
         cs = CubicSpline(times, points, axis=0, bc_type=bc)
         self.c = cs.c  # (4, K, n), local variable u = t - t_k
         self.h = np.diff(times)

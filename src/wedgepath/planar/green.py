@@ -32,8 +32,8 @@ import numbers
 import warnings
 
 import numpy as np
-import sympy
 
+from .._lazy import is_sympy
 from ..calculus.chains import Chain, ZeroChain
 from ..calculus.forms import Coefficient, Form
 from ..calculus.integrate import Integral, IntegrationWarning, register_domain
@@ -103,7 +103,7 @@ def _integrand(f, symbols, degree) -> _Integrand:
         if not np.isfinite(v):
             raise ValueError(f"the integrand must be finite, got {v}")
         return _Integrand("constant", value=v)
-    if isinstance(f, sympy.Basic):
+    if is_sympy(f):
         if not f.free_symbols:
             return _from_coefficient(Coefficient.from_sympy(f, ()), "f")
         if symbols is None:
@@ -111,7 +111,7 @@ def _integrand(f, symbols, degree) -> _Integrand:
             raise ValueError(f"a sympy integrand needs its coordinate symbols: pass "
                              f"symbols=(x, y) (the expression uses {names})")
         syms = tuple(symbols)
-        if len(syms) != 2 or not all(isinstance(s, sympy.Symbol) for s in syms):
+        if len(syms) != 2 or not all(is_sympy(s, "Symbol") for s in syms):
             raise ValueError("symbols must be a pair of sympy Symbols (x, y)")
         return _from_coefficient(Coefficient.from_sympy(f, syms), "f")
     if callable(f):
