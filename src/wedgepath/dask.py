@@ -28,8 +28,8 @@ Functions
 :func:`file_area_matrices`
     Many CSV/TSV/Parquet files, each streamed in chunks on a worker.
 
-Memory: a worker holds one chunk (``rows x n x 8`` bytes, plus a few copies
-of a 4096-row slice during the scan) and a few ``n x n`` states; the client
+Memory: a worker holds one chunk (``rows x n x 8`` bytes, plus the scan's
+buffers of at most 2**20 numbers each) and a few ``n x n`` states; the client
 holds the result only.
 
 Examples
