@@ -296,7 +296,9 @@ def _scan(data: SignalData, what="X") -> ScanResult:
     T, n = values.shape
     c = chunk_rows(n)
     M = _CompensatedSum((n, n))
-    work = np.empty((2, c // 2, n))     # the GEMM factors of every chunk (see _paired_product)
+    # the GEMM factors of every chunk (see _paired_product): a chunk has at most c
+    # segments, a short series fewer, so a small input does not allocate 8 MB
+    work = np.empty((2, min(c, max(T - 1, 0)) // 2, n))
     starts, stops = [], []
     g = None            # first sample of the open piece (the one holding the last row read)
     a = 0
