@@ -307,7 +307,7 @@ class Form:
             if len(degrees) != 1:
                 raise ValueError(f"terms of mixed degree {sorted(degrees)}")
             return cls(components, degrees.pop(), n, symbols)
-        if (is_sympy(components) or isinstance(components, numbers.Real)):
+        if is_sympy(components) or isinstance(components, numbers.Real):
             return cls({(): sympy.sympify(components)}, 0, n, symbols)
         comps = list(components)
         if len(comps) != n:
