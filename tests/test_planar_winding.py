@@ -14,7 +14,7 @@ from fractions import Fraction
 
 import numpy as np
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 
 import wedgepath as wp
@@ -142,6 +142,56 @@ def test_near_degenerate_points_are_exact():
     assert np.array_equal(wp.winding_number(poly, q), expected)
 
 
+@pytest.mark.parametrize("poly", [
+    [[0, 0], [2, 1], [-2, 1.11253693e-308]],             # a nearly horizontal edge
+    [[0, 0], [2, 1], [-2, 5e-324]],                       # ... one subnormal unit high
+    [[0, 0], [2, 5e-324], [-2, 1e-323], [1, 2e-323]],    # a curve a few subnormals thin
+    [[1e100, 0], [-1e100, 5e-324], [0, 1]],               # wide and thin at once
+])
+def test_curves_thin_to_the_last_bits_are_exact(poly):
+    # y-extents in the subnormal range next to x of order one: the products of the
+    # orientation test underflow, so the exact stage must not rely on them.  Reference:
+    # the crossing rule in exact rational arithmetic (exact_crossings, above).
+    poly = np.array(poly, dtype=float)
+    rng = np.random.default_rng(11)
+    ys = np.unique(poly[:, 1])
+    span = float(np.abs(poly[:, 0]).max())
+    q = np.column_stack([rng.uniform(-1.5 * span, 1.5 * span, 400),
+                         rng.choice(np.concatenate([ys, ys / 2, ys * 1.5, [0.5]]), 400)])
+    q = np.vstack([q, poly])                               # the vertices themselves
+    expected = exact_crossings(poly, q)
+    assert set(expected.tolist()) - {0}                     # some points are inside
+    assert np.array_equal(wp.winding_number(poly, q), expected)
+    assert np.array_equal(wp.winding_number(poly[::-1], q), -expected)
+
+
+_COORD = st.one_of(st.floats(-1e-300, 1e-300), st.floats(-4, 4),
+                   st.floats(allow_nan=False, allow_infinity=False), st.sampled_from([0.0, 5e-324]))
+
+
+@PROPS
+@given(st.lists(st.tuples(*[_COORD] * 6), min_size=1, max_size=40))
+def test_orientation_sign_is_exact_for_every_finite_input(triples):
+    # any finite doubles, subnormal and near-overflow ones included; reference: the
+    # determinant in exact rational arithmetic (common practice, no source)
+    from wedgepath.planar._predicates import orient_sign
+    cols = [np.array(c, dtype=float) for c in zip(*triples)]
+    expected = []
+    for ax, ay, bx, by, cx, cy in (map(Fraction, t) for t in triples):
+        d = (ax - cx) * (by - cy) - (ay - cy) * (bx - cx)
+        expected.append((d > 0) - (d < 0))
+    assert orient_sign(*cols).tolist() == expected
+
+
+def test_thin_noisy_loop_is_exact():
+    # many rows and sub-edges on a loop whose y-extent is subnormal (same reference)
+    rng = np.random.default_rng(12)
+    t = np.linspace(0, 2 * np.pi, 60, endpoint=False)
+    poly = np.column_stack([np.cos(t), np.sin(t) * 1e-310]) + rng.normal(0, 0.05, (60, 2)) * [1, 1e-310]
+    q = np.column_stack([rng.uniform(-1.2, 1.2, 500), rng.uniform(-1.2e-310, 1.2e-310, 500)])
+    assert np.array_equal(wp.winding_number(poly, q), exact_crossings(poly, q))
+
+
 def test_points_an_ulp_off_edges_far_from_origin_are_exact():
     rng = np.random.default_rng(5)
     poly = 1e8 + rng.uniform(0, 5, (5, 2))
@@ -182,6 +232,9 @@ def float_polygons(draw, max_size=12):
 @PROPS
 @given(float_polygons(), st.floats(0, 2 * np.pi), st.floats(-1e3, 1e3), st.floats(-1e3, 1e3),
        st.lists(st.tuples(st.floats(-12, 12), st.floats(-12, 12)), min_size=1, max_size=30))
+# found by hypothesis: an edge 4 wide and 1.1e-308 high overflowed its slope
+@example(poly=np.array([[0.0, 0.0], [2.0, 1.0], [-2.0, 1.11253693e-308]]), angle=0.0, tx=0.0,
+         ty=0.0, pts=[(1.0, 0.0)])
 def test_rigid_motions_and_reversal(poly, angle, tx, ty, pts):
     # a rotation and translation of curve and points together leaves every winding
     # number unchanged; reversing the curve negates them (common practice, no source).

@@ -16,11 +16,18 @@ doubles are summed into a non-overlapping expansion with Knuth's TwoSum
 (Shewchuk's Grow-Expansion); the sign of the largest non-zero component is the
 exact sign.  All of it is vectorised over the uncertain triples.
 
-The exact stage assumes no overflow or underflow in the products: coordinates
-of magnitude between about 1e-140 and 1e140 (or exactly 0) are safe.
+Both stages assume that no product overflows or loses bits to underflow.
+Triples where that could happen (a coordinate difference product below
+2**-900 or not finite) skip the filter, and triples with a non-zero
+coordinate outside [2**-460, 2**460] in magnitude are decided in exact
+rational arithmetic (``fractions.Fraction``, one triple at a time; such
+triples are rare: a curve that is thin to the last bits of a double next to
+coordinates of order one).  So the sign is exact for every finite input.
 """
 
 from __future__ import annotations
+
+from fractions import Fraction
 
 import numpy as np
 
@@ -29,6 +36,8 @@ __all__ = ["orient_sign"]
 _EPS = 2.0 ** -53
 _CCW_ERRBOUND_A = (3.0 + 16.0 * _EPS) * _EPS
 _SPLITTER = 134217729.0  # 2**27 + 1
+_TINY = 2.0 ** -900      # products below this may have lost bits to underflow
+_SAFE_LO, _SAFE_HI = 2.0 ** -460, 2.0 ** 460   # coordinates the expansion handles exactly
 
 
 def _two_sum(a, b):
@@ -83,6 +92,23 @@ def _exact_orient(ax, ay, bx, by, cx, cy) -> np.ndarray:
     return _exact_sign(terms)
 
 
+def _rational_orient(ax, ay, bx, by, cx, cy) -> np.ndarray:
+    out = np.zeros(ax.shape, dtype=np.int8)
+    for k in range(ax.size):
+        fa = [Fraction(float(v[k])) for v in (ax, ay, bx, by, cx, cy)]
+        d = (fa[0] - fa[4]) * (fa[3] - fa[5]) - (fa[1] - fa[5]) * (fa[2] - fa[4])
+        out[k] = (d > 0) - (d < 0)
+    return out
+
+
+def _in_safe_range(*vs) -> np.ndarray:
+    ok = np.ones(vs[0].shape, dtype=bool)
+    for v in vs:
+        a = np.abs(v)
+        ok &= (a == 0) | ((a >= _SAFE_LO) & (a <= _SAFE_HI))
+    return ok
+
+
 def orient_sign(ax, ay, bx, by, cx, cy) -> np.ndarray:
     """Exact sign (int8 array) of the orientation of the triples (a, b, c).
 
@@ -102,17 +128,34 @@ def orient_sign(ax, ay, bx, by, cx, cy) -> np.ndarray:
     [1]
     """
     ax, ay, bx, by, cx, cy = (np.asarray(v, dtype=np.float64) for v in (ax, ay, bx, by, cx, cy))
-    acx, bcx = ax - cx, bx - cx
-    acy, bcy = ay - cy, by - cy
-    left = acx * bcy
-    right = acy * bcx
-    det = left - right
-    sign = np.sign(det).astype(np.int8)
+    # overflow (to inf, or inf - inf) is possible for huge inputs: such triples go
+    # to the exact stage below
+    with np.errstate(over="ignore", invalid="ignore"):
+        acx, bcx = ax - cx, bx - cx
+        acy, bcy = ay - cy, by - cy
+        left = acx * bcy
+        right = acy * bcx
+        det = left - right
+        bound = _CCW_ERRBOUND_A * np.abs(left + right)
+    finite = np.isfinite(det) & np.isfinite(bound)
+    sign = np.sign(np.where(finite, det, 0.0)).astype(np.int8)
     # Certain when the two products differ in sign (or one is exactly zero),
-    # or when |det| clears the error bound.
+    # or when |det| clears the error bound -- provided no product over- or
+    # underflowed (a rounded difference is zero only when the coordinates are
+    # equal, so a zero factor is a true zero).
     same = (left > 0) & (right > 0) | (left < 0) & (right < 0)
-    unsure = same & (np.abs(det) < _CCW_ERRBOUND_A * np.abs(left + right))
+    unsure = same & (np.abs(det) < bound)
+    unsure |= ~finite
+    unsure |= (np.abs(left) < _TINY) & (acx != 0) & (bcy != 0)
+    unsure |= (np.abs(right) < _TINY) & (acy != 0) & (bcx != 0)
     if unsure.any():
         idx = np.flatnonzero(unsure)
-        sign[idx] = _exact_orient(ax[idx], ay[idx], bx[idx], by[idx], cx[idx], cy[idx])
+        sub = [v[idx] for v in (ax, ay, bx, by, cx, cy)]
+        safe = _in_safe_range(*sub)
+        res = np.empty(idx.size, dtype=np.int8)
+        if safe.any():
+            res[safe] = _exact_orient(*(v[safe] for v in sub))
+        if not safe.all():
+            res[~safe] = _rational_orient(*(v[~safe] for v in sub))
+        sign[idx] = res
     return sign

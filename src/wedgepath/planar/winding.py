@@ -174,7 +174,7 @@ def _winding(e: _Edges, qx: np.ndarray, qy: np.ndarray) -> np.ndarray:
     if not inside.size:
         return out
     n_q = min(inside.size, _QUERY_CHUNK)
-    sub = _SubEdges(e, _row_height(e, n_q))
+    sub = _SubEdges(e, _row_count(e, n_q))
     dom = _Dominance(np.concatenate([sub.ya, sub.yb]), np.concatenate([sub.xmin, sub.xmin]),
                      np.concatenate([sub.s, -sub.s]))
     for a in range(0, inside.size, _QUERY_CHUNK):
@@ -184,8 +184,12 @@ def _winding(e: _Edges, qx: np.ndarray, qy: np.ndarray) -> np.ndarray:
     return out
 
 
-def _row_height(e: _Edges, n_queries: int) -> float:
-    """Row height minimising a rough cost model (speed only; any h is correct)."""
+def _row_count(e: _Edges, n_queries: int) -> int:
+    """Number of rows minimising a rough cost model (speed only; any count is correct).
+
+    Worked in row counts and ratios to the height, never in the row height
+    itself, which underflows for curves that are very thin in y.
+    """
     height = float(e.hiy.max() - e.loy.min())
     dy = e.hiy - e.loy
     dx = np.abs(e.hix - e.lox)
@@ -194,26 +198,26 @@ def _row_height(e: _Edges, n_queries: int) -> float:
     width = xhi - xlo
     n_e = dy.size
     max_rows = max(1.0, min(4.0 * (n_e + n_queries), 1e7))
-    best_h, best_cost = height, np.inf
-    sum_dx = float(dx.sum())
+    best_rows, best_cost = 1, np.inf
+    frac = dy / height                     # in (0, 1]
+    spread = float(dx.sum()) / width if width > 0 else 0.0
     for rows in np.geomspace(1.0, max_rows, 28):
-        h = height / rows
-        n_sub = n_e + float(np.floor(dy / h).sum())
-        pairs = (n_queries * h * sum_dx / (width * height)) if width > 0 else 0.0
+        n_sub = n_e + float(np.floor(frac * rows).sum())
+        pairs = n_queries * spread / rows
         lg = np.log2(2.0 + n_sub)
         cost = 2.0 * n_sub * lg + 1.0 * n_queries * lg + 3.0 * pairs + 0.1 * rows
         if cost < best_cost:
-            best_cost, best_h = cost, h
-    return best_h
+            best_cost, best_rows = cost, max(1, int(np.ceil(rows)))
+    return best_rows
 
 
 class _SubEdges:
     """Edges cut at row boundaries; each piece knows its row, y-band and x-bounds."""
 
-    def __init__(self, e: _Edges, h: float):
+    def __init__(self, e: _Edges, n_rows: int):
         y0, y1 = float(e.loy.min()), float(e.hiy.max())
-        n_rows = max(1, int(np.ceil((y1 - y0) / h)))
-        bounds = y0 + h * np.arange(n_rows + 1, dtype=np.float64)
+        # non-decreasing (rounding is monotone); duplicates are merged below
+        bounds = y0 + (y1 - y0) * (np.arange(n_rows + 1, dtype=np.float64) / n_rows)
         bounds[0] = y0
         bounds = np.unique(np.append(bounds[bounds < y1], y1))
         self.bounds = bounds
@@ -227,12 +231,16 @@ class _SubEdges:
         ya = np.maximum(loy, bounds[row])
         yb = np.minimum(hiy, bounds[row + 1])
         dxe = hix - lox
-        slope = dxe / (hiy - loy)
-        margin = 16.0 * _EPS * (np.abs(lox) + np.abs(dxe))
+        # positions along the edge as fractions in [0, 1] of its height: a slope
+        # dx / dy would overflow on edges that are almost horizontal
+        dye = hiy - loy
+        # rounding of the three operations below, relative and (in the subnormal
+        # range) absolute
+        margin = 16.0 * _EPS * (np.abs(lox) + np.abs(dxe)) + 2.0 ** -1070
         at_lo = ya == loy
         at_hi = yb == hiy
-        xa = np.where(at_lo, lox, lox + (ya - loy) * slope)
-        xb = np.where(at_hi, hix, lox + (yb - loy) * slope)
+        xa = np.where(at_lo, lox, lox + ((ya - loy) / dye) * dxe)
+        xb = np.where(at_hi, hix, lox + ((yb - loy) / dye) * dxe)
         ma = np.where(at_lo, 0.0, margin)
         mb = np.where(at_hi, 0.0, margin)
         emin, emax = np.minimum(lox, hix), np.maximum(lox, hix)
