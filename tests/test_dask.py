@@ -262,9 +262,7 @@ class TestFiles:
 
 
 class TestStreamFromFile:
-    @pytest.mark.parametrize("engine", ["pandas", "python"])
-    def test_header_change_mid_file_names_the_line(self, tmp_path, engine):
-        pytest.importorskip("pandas")
+    def test_header_change_mid_file_names_the_line(self, tmp_path):
         X = walk(3000, 2, seed=4)
         p = tmp_path / "changes.csv"
         with open(p, "w") as fh:
@@ -275,7 +273,7 @@ class TestStreamFromFile:
             for row in X[2500:]:
                 fh.write(f"{float(row[0])!r},{float(row[1])!r}\n")
         with pytest.raises(TableError) as e:
-            stream_area_matrix(p, chunk_rows=1000, engine=engine)
+            stream_area_matrix(p, chunk_rows=1000)
         msg = one_line(e)
         assert "line 2502" in msg and "header changes" in msg
 
