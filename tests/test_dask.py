@@ -386,6 +386,8 @@ class TestBadInput:
             wdask.file_area_matrices("file.csv")
         with pytest.raises(ValueError, match="0 files"):
             wdask.file_area_matrices([])
+        with pytest.raises(ValueError, match=r"paths\[1\] is '-'.*standard input"):
+            wdask.file_area_matrices(["a.csv", "-"])
 
     def test_accumulator_chunks_of_inconsistent_width(self):
         acc = wp.AreaAccumulator(3).update(walk(10, 3, seed=0))

@@ -461,3 +461,36 @@ class TestTimeColumns:
         for how, tab in read_all_ways(tmp_path, text, time_column="t"):
             want = [(s - stamps[0]).total_seconds() for s in stamps]
             np.testing.assert_array_equal(tab.times, want)
+
+
+# ============================================================ the command line's reading
+class TestCommandLine:
+    def test_time_column_of_iso_dates(self, tmp_path, capsys):
+        # a quarterly series with ISO dates (invented numbers): --time date failed before with
+        # "non-numeric value '1959-01-01'"
+        from wedgepath.cli import main
+        import json
+        q = np.arange(40)
+        dates = np.datetime64("1959-01", "M") + 3 * q
+        X = np.c_[np.sin(q / 3.0), np.sin(q / 3.0 - 0.7)]
+        f = tmp_path / "macro.csv"
+        f.write_text("date,output,prices\n" + "".join(
+            f"{np.datetime_as_string(d.astype('M8[D]'))},{a!r},{b!r}\n"
+            for d, (a, b) in zip(dates, X.tolist())))
+        code = main(["leadlag", str(f), "--time", "date", "--json", "--quiet"])
+        out = capsys.readouterr()
+        assert code == 0, out.err
+        rep = json.loads(out.out)
+        assert rep["samples"] == 40
+        np.testing.assert_allclose(rep["raw_area_matrix"], wp.area_matrix(X), rtol=1e-12)
+
+    @pytest.mark.skipif(not os.path.exists("/bin/bash") or not os.path.exists("/dev/fd"),
+                        reason="needs bash process substitution")
+    def test_process_substitution(self, tmp_path):
+        f = tmp_path / "s.csv"
+        f.write_text(CSV_TEXT)
+        cmd = (f"'{sys.executable}' -m wedgepath leadlag <(cat '{f}') --time t --json --quiet")
+        out = subprocess.run(["/bin/bash", "-c", cmd], capture_output=True, timeout=120)
+        assert out.returncode == 0, out.stderr.decode()
+        import json
+        assert json.loads(out.stdout)["samples"] == 200

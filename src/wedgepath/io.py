@@ -98,8 +98,10 @@ GAP_TOKENS = ("", "nan", "NaN", "NAN", "NA", "N/A", "n/a", "na", "null", "NULL",
 #: the longest line accepted, in bytes (a longer one is refused with its line number)
 MAX_LINE_BYTES = 16 * 2 ** 20
 
-#: bytes read from the input at a time (one parser call per block of whole lines)
-_READ_BYTES = 16 * 2 ** 20
+#: bytes read from the input at a time (one parser call per block of whole lines).  4 MiB keeps
+#: the streamed command line near 190 MB at 16 channels (8 MiB: ~225 MB) at the same speed
+#: (benchmarks/bench_streaming.py, benchmarks/bench_io.py)
+_READ_BYTES = 4 * 2 ** 20
 
 _NUMBER = re.compile(r"[ \t]*[+-]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][+-]?[0-9]+)?[ \t]*")
 _INF = re.compile(r"[ \t]*[+-]?inf(inity)?[ \t]*", re.IGNORECASE)
@@ -303,8 +305,15 @@ class _Lines:
                 body = self.buf[self.pos:cut + 1]
             self.pos += len(body)
             first_line = self.line
-            self.line += body.count(b"\n")
+            self.line += _count_newlines(body)
             yield body, first_line
+
+
+def _count_newlines(body):
+    # numpy counts about twice as fast as bytes.count on large blocks
+    if len(body) < 1 << 16:
+        return body.count(b"\n")
+    return int(np.count_nonzero(np.frombuffer(body, dtype=np.uint8) == 10))
 
 
 def _check_text(body, name, first_line, at_end):
@@ -346,8 +355,6 @@ def _read_header(lines: _Lines, delimiter):
     while True:
         got = lines.next_line()
         if got is None:
-            if lines.buf == b"" and not lines.started:
-                raise TableError(f"{name}: the table is empty (no header row)")
             raise TableError(f"{name}: the table is empty (no header row)")
         raw, lineno = got
         if lineno == 1 and raw.startswith(b"PAR1"):
@@ -496,13 +503,18 @@ def _show(text, limit=40):
 
 
 def _data_lines(body, first_line):
-    """(line number, text without line end) of the non-empty lines of a block."""
-    lineno = first_line
-    for raw in body.split(b"\n"):
-        line = raw[:-1] if raw.endswith(b"\r") else raw
+    """(line number, text without line end) of the non-empty lines of a block, lazily."""
+    lineno, pos, end = first_line, 0, len(body)
+    while pos < end:
+        nl = body.find(b"\n", pos)
+        stop = end if nl < 0 else nl
+        line = body[pos:stop]
+        if line.endswith(b"\r"):
+            line = line[:-1]
         if line:
             yield lineno, line
         lineno += 1
+        pos = stop + 1
 
 
 def _first_data_cells(body, first_line, spec):
@@ -655,7 +667,9 @@ def _parse_block(body, first_line, spec, parse, convert):
     import pyarrow as pa
     import pyarrow.csv as pcsv
 
-    block = 1 << 20
+    # parser blocks of 1 MiB give both cores work on narrow tables; a wide table's blocks grow
+    # with its width (the parser's cost per block and column dominates for thousands of columns)
+    block = int(min(max(1 << 20, 4096 * len(spec.header)), len(body) + 1))
     while True:
         read = pcsv.ReadOptions(column_names=spec.header, use_threads=True, block_size=block)
         try:
@@ -670,13 +684,17 @@ def _parse_block(body, first_line, spec, parse, convert):
             raise err from None
 
 
-def _column_values(table, names, out, col0=0):
-    """Fill ``out[:, col0 + j]`` with the float64 values of ``names`` (nulls -> NaN)."""
-    for j, c in enumerate(names):
+def _column_values(table, count, out):
+    """Fill ``out[:, j]`` with the float64 values of the table's first ``count`` columns.
+
+    Columns are taken by position (the parser returns them in ``include_columns``
+    order): a lookup by name scans the schema, quadratic over wide tables.
+    """
+    for j in range(count):
         r = 0
-        for chunk in table.column(c).chunks:
+        for chunk in table.column(j).chunks:
             m = len(chunk)
-            out[r:r + m, col0 + j] = chunk.to_numpy(zero_copy_only=False)
+            out[r:r + m, j] = chunk.to_numpy(zero_copy_only=False)
             r += m
 
 
@@ -707,16 +725,16 @@ def _text_blocks(inp, name, delimiter, columns, time_column):
         if m == 0:
             continue
         vals = np.empty((m, len(chosen)), dtype=np.float64)
-        _column_values(table, chosen, vals)
+        _column_values(table, len(chosen), vals)
         if not np.isfinite(vals).all():
-            nulls = sum(table.column(c).null_count for c in chosen)
+            nulls = sum(table.column(j).null_count for j in range(len(chosen)))
             if np.isinf(vals).any() or int(np.isnan(vals).sum()) != nulls:
                 raise _locate(body, first_line, spec) or TableError(
                     f"{name}: lines {first_line}-{first_line + body.count(_NL)}: a value "
                     "that is not finite")
         tt = None
         if time_column is not None:
-            col = table.column(time_column)
+            col = table.column(len(chosen))          # the time column comes last
             if col.null_count:
                 raise _locate(body, first_line, spec) or TableError(
                     f"{name}: time column {time_column!r} is empty")
@@ -790,14 +808,18 @@ class _TimeTracker:
         return str(self.axis.format(e)[0])
 
 
-def _raw_blocks(source, columns, time_column, delimiter):
-    """Yield the channel names, then ``(values, times, time_axis, first_row)`` per block."""
+def _raw_blocks(source, columns, time_column, delimiter, batch_rows=1 << 16):
+    """Yield the channel names, then ``(values, times, time_axis, first_row)`` per block.
+
+    A block is one parse of whole text lines, or one Parquet record batch of at most
+    ``batch_rows`` rows.
+    """
     name = _name_of(source)
     if time_column is not None and not isinstance(time_column, str):
         raise TypeError(f"time_column must be a column name (str), got "
                         f"{type(time_column).__name__}")
     if _is_parquet_name(source):
-        yield from _parquet_blocks(source, name, columns, time_column)
+        yield from _parquet_blocks(source, name, columns, time_column, batch_rows)
         return
     delimiter = _delimiter_for(source, delimiter)
     inp = _Input(source)
@@ -949,7 +971,7 @@ def _parquet_time(typ, col, name):
     raise TableError(f"{name}: time column {col!r} is neither numbers nor date/times ({typ})")
 
 
-def _parquet_blocks(source, name, columns, time_column, batch_rows=1 << 16):
+def _parquet_blocks(source, name, columns, time_column, batch_rows):
     """Parquet in record batches: memory O(batch x columns)."""
     import pyarrow as pa
 
@@ -974,7 +996,8 @@ def _parquet_blocks(source, name, columns, time_column, batch_rows=1 << 16):
             m = batch.num_rows
             if m == 0:
                 continue
-            cols = {c: batch.column(batch.schema.get_field_index(c)) for c in wanted}
+            where = {c: k for k, c in enumerate(batch.schema.names)}   # one pass, any width
+            cols = {c: batch.column(where[c]) for c in wanted}
             vals = np.empty((m, len(chosen)), dtype=np.float64)
             for j, (c, conv) in enumerate(zip(chosen, convs)):
                 vals[:, j] = conv(cols[c], a)
@@ -1072,8 +1095,9 @@ def iter_table_chunks(source, *, columns=None, time_column=None, delimiter=None,
         ``"<file>:row <first data row>"``.
 
     The input is read once, in order.  Memory stays at about one chunk plus
-    one block of the file (at most 16 MiB of text, or 65,536 Parquet rows)
-    and its parsed values, whatever the file's length.  Times are checked
+    one block of the file (about 4 MiB of text -- more only for a longer
+    line; Parquet is read in record batches of ``chunk_rows`` rows) and its
+    parsed values, whatever the file's length.  Times are checked
     across chunk borders too.
 
     Examples
@@ -1085,7 +1109,7 @@ def iter_table_chunks(source, *, columns=None, time_column=None, delimiter=None,
     """
     chunk_rows = _check_chunk_rows(chunk_rows)
     name = _name_of(source)
-    blocks = _raw_blocks(source, columns, time_column, delimiter)
+    blocks = _raw_blocks(source, columns, time_column, delimiter, batch_rows=chunk_rows)
     with contextlib.closing(blocks):
         names = next(blocks)
         pending, pend_t, pend_rows, first_row, axis = [], [], 0, 0, None
