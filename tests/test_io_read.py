@@ -494,3 +494,19 @@ class TestCommandLine:
         assert out.returncode == 0, out.stderr.decode()
         import json
         assert json.loads(out.stdout)["samples"] == 200
+
+
+def test_parquet_integer_and_duration_times(tmp_path):
+    f = write_parquet(tmp_path / "it.parquet", {"t": pa.array([10, 20, 35], pa.int64()),
+                                                 "a": [1.0, 2.0, 3.0], "b": [3.0, 1.0, 2.0]})
+    tab = wio.read_table(f, time_column="t")
+    assert tab.times.tolist() == [10.0, 20.0, 35.0] and tab.time_axis.kind == "number"
+    f = write_parquet(tmp_path / "big.parquet", {"t": pa.array([0, 1, 2 ** 60], pa.int64()),
+                                                  "a": [1.0, 2.0, 3.0], "b": [3.0, 1.0, 2.0]})
+    with pytest.raises(wio.TableError, match=r"row 3: column 't' holds the integer"):
+        list(wio.iter_table_chunks(f, time_column="t", chunk_rows=2))
+    f = write_parquet(tmp_path / "dur.parquet", {"t": pa.array([0, 1500, 4000], pa.duration("ms")),
+                                                  "a": [1.0, 2.0, 3.0], "b": [3.0, 1.0, 2.0]})
+    tab = wio.read_table(f, time_column="t")
+    assert tab.times.tolist() == [0.0, 1.5, 4.0]
+    assert (tab.time_axis.kind, tab.time_axis.unit) == ("number", "s")

@@ -72,7 +72,7 @@ array([[nan,  3.],
 >>> wio.read_table(io.StringIO("a,b\\n1,2\\n3,1_000\\n"))
 Traceback (most recent call last):
 ...
-wedgepath.io.TableError: <stream>: line 3: column 'b' has a value '1_000' that is neither a number nor a gap token
+wedgepath.io.TableError: <stream>: line 3: column 'b' has a non-numeric value '1_000' (neither a number nor a gap token)
 """
 
 from __future__ import annotations
@@ -173,14 +173,11 @@ class _Input:
     def __init__(self, source):
         self.name = _name_of(source)
         self.owned = False
-        self.text = False
-        self.regular_size = None
         if isinstance(source, str) and source == "-":
             stdin = sys.stdin
             if stdin is None:
                 raise TableError("<stdin>: there is no standard input")
             self.stream = getattr(stdin, "buffer", stdin)
-            self.text = not hasattr(stdin, "buffer")
         elif isinstance(source, (str, os.PathLike)):
             path = os.fspath(source)
             try:
@@ -191,29 +188,35 @@ class _Input:
                 raise TableError(f"{path}: cannot open ({exc.strerror})") from None
             if stat.S_ISDIR(st.st_mode):
                 raise TableError(f"{path}: is a directory, not a table")
-            if stat.S_ISREG(st.st_mode):
-                self.regular_size = st.st_size
             try:
                 # unbuffered: the blocks are large, and a FIFO or pipe is read once, in order
                 self.stream = open(path, "rb", buffering=0)
             except OSError as exc:
                 raise TableError(f"{path}: cannot open ({exc.strerror})") from None
             self.owned = True
-        elif hasattr(source, "read"):
+        elif hasattr(source, "read"):           # binary or text stream
             self.stream = source
-            self.text = isinstance(source, __import__("io").TextIOBase)
         else:
             raise TypeError("a table source must be a path, '-' (standard input) or an open "
                             f"file (text or binary), got {type(source).__name__}")
 
     def read(self, n):
-        data = self.stream.read(n)
-        if data is None:            # a non-blocking stream with nothing yet
-            return b""
-        if isinstance(data, str):
-            self.text = True
-            return data.encode("utf-8", "surrogatepass")
-        return bytes(data)
+        """Up to ``n`` bytes, fewer only at the end of the input.
+
+        Pipes return at most their buffer (64 KiB) per call: the pieces are
+        collected and joined once, never appended one by one.
+        """
+        pieces, got = [], 0
+        while got < n:
+            data = self.stream.read(n - got)
+            if not data:              # the end (or None: a non-blocking stream with nothing)
+                break
+            if isinstance(data, str):
+                data = data.encode("utf-8", "surrogatepass")   # lone surrogates fail the check
+            pieces.append(data)
+            got += len(data)
+        return pieces[0] if len(pieces) == 1 and isinstance(pieces[0], bytes) else \
+            b"".join(pieces)
 
     def close(self):
         if self.owned:
@@ -950,20 +953,21 @@ def _parquet_time(typ, col, name):
         from ._time import _arrow_tz_name
         tz = _arrow_tz_name(typ.tz) if typ.tz else None
 
-        def conv(arr):
+        def conv(arr, row0):
             out = arr.to_numpy(zero_copy_only=False)
             return out.astype(f"datetime64[{typ.unit}]") if out.dtype.kind != "M" else out
         return "datetime", conv, tz, False, None
     if t.is_date(typ):
-        return "datetime", (lambda arr: arr.cast(pa.date32()).to_numpy(zero_copy_only=False)
-                            .astype("datetime64[D]")), None, True, None
+        return "datetime", (lambda arr, row0: arr.cast(pa.date32())
+                            .to_numpy(zero_copy_only=False).astype("datetime64[D]")), \
+            None, True, None
     if t.is_duration(typ):
-        return "number", (lambda arr: arr.to_numpy(zero_copy_only=False)
+        return "number", (lambda arr, row0: arr.to_numpy(zero_copy_only=False)
                           / np.timedelta64(1, "s")), None, False, "s"
     if t.is_floating(typ):
         return "number", _float_of, None, False, None
     if t.is_integer(typ):
-        return "number", (lambda arr, c=col: _int_of(arr, 0, c, name)), None, False, None
+        return "number", (lambda arr, row0: _int_of(arr, row0, col, name)), None, False, None
     if t.is_decimal(typ):
         return "number", _decimal_of, None, False, None
     if t.is_string(typ) or t.is_large_string(typ):
@@ -1058,7 +1062,7 @@ def _parquet_times(arr, tinfo, tracker, a, name, col):
         raw = parsed.to_numpy(zero_copy_only=False).astype(f"datetime64[{typ.unit}]")
         kind, tz = "datetime", zone
     else:
-        raw = conv(arr)
+        raw = conv(arr, a)
     if kind == "number" and not np.isfinite(raw).all():
         k = int(np.flatnonzero(~np.isfinite(raw))[0])
         raise TableError(f"{name}: row {a + k + 1}: time column {col!r} is not finite")
