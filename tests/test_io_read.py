@@ -125,6 +125,24 @@ class TestTokens:
     def test_quoted_value_spanning_lines_refused(self, tmp_path):
         refuse_all_ways(tmp_path, 'a,b\n1,2\n"3,4\n5,6\n', r"line 3: .*quote")
 
+    @pytest.mark.parametrize("text, names, values", [
+        ("\ufeffa,b\n1,2\n3,4\n", ["a", "b"], [[1, 2], [3, 4]]),            # byte-order mark
+        ('"p,q",b\n1,2\n3,4\n', ["p,q", "b"], [[1, 2], [3, 4]]),              # quoted name
+        ("a;b\n1;2\n3;4\n", ["a", "b"], [[1, 2], [3, 4]]),                    # sniffed ;
+        ("a|b|c\n1|2|3\n4|5|6\n", ["a", "b", "c"], [[1, 2, 3], [4, 5, 6]]),  # sniffed |
+        ("a\tb\n1\t2\n3\t4\n", ["a", "b"], [[1, 2], [3, 4]]),              # sniffed tab
+        (" a , b \n1,2\n3,4\n", ["a", "b"], [[1, 2], [3, 4]]),                # names stripped
+    ])
+    def test_headers_and_delimiters(self, tmp_path, text, names, values):
+        for how, tab in read_all_ways(tmp_path, text):
+            assert tab.names == names, how
+            np.testing.assert_array_equal(tab.values, values)
+
+    def test_decimal_comma_and_space_lines_refused(self, tmp_path):
+        refuse_all_ways(tmp_path, "a;b\n1,5;2\n3;4\n", r"line 2: column 'a' has a non-numeric "
+                                                        r"value '1,5'")
+        refuse_all_ways(tmp_path, "a,b\n1,2\n   \n3,4\n", r"line 3: 1 fields, the header has 2")
+
     def test_not_utf8_names_the_line(self, tmp_path):
         data = b"a,b\n1,2\n3,4\n\xff\xfe,4\n"
         for how, src in sources(tmp_path, data):
