@@ -262,9 +262,7 @@ class TestFiles:
 
 
 class TestStreamFromFile:
-    @pytest.mark.parametrize("engine", ["pandas", "python"])
-    def test_header_change_mid_file_names_the_line(self, tmp_path, engine):
-        pytest.importorskip("pandas")
+    def test_header_change_mid_file_names_the_line(self, tmp_path):
         X = walk(3000, 2, seed=4)
         p = tmp_path / "changes.csv"
         with open(p, "w") as fh:
@@ -275,7 +273,7 @@ class TestStreamFromFile:
             for row in X[2500:]:
                 fh.write(f"{float(row[0])!r},{float(row[1])!r}\n")
         with pytest.raises(TableError) as e:
-            stream_area_matrix(p, chunk_rows=1000, engine=engine)
+            stream_area_matrix(p, chunk_rows=1000)
         msg = one_line(e)
         assert "line 2502" in msg and "header changes" in msg
 
@@ -388,6 +386,8 @@ class TestBadInput:
             wdask.file_area_matrices("file.csv")
         with pytest.raises(ValueError, match="0 files"):
             wdask.file_area_matrices([])
+        with pytest.raises(ValueError, match=r"paths\[1\] is '-'.*standard input"):
+            wdask.file_area_matrices(["a.csv", "-"])
 
     def test_accumulator_chunks_of_inconsistent_width(self):
         acc = wp.AreaAccumulator(3).update(walk(10, 3, seed=0))

@@ -28,6 +28,7 @@ import argparse
 import json
 import math
 import os
+import stat
 import sys
 import tempfile
 import warnings
@@ -188,7 +189,8 @@ def _add_common(p):
 
 
 def _add_table(p):
-    p.add_argument("table", help="CSV, TSV or Parquet file with a header row")
+    p.add_argument("table", help="CSV, TSV or Parquet file with a header row "
+                   "('-' reads CSV/TSV from standard input)")
     p.add_argument("--time", metavar="COL", help="column holding the sample times")
     p.add_argument("--delimiter", metavar="CHAR", help="force the field delimiter (default: sniffed)")
     p.add_argument("--units", type=_units, default={}, metavar="COL=UNIT,...",
@@ -536,8 +538,13 @@ def _cmd_leadlag(args):
 
 
 def _estimated_rows(path):
-    """Rough row count of a text table from its size and its first lines (for progress)."""
+    """Rough row count of a text table from its size and its first lines (for progress).
+
+    Only for regular files: standard input, pipes and FIFOs are read once, by the reader.
+    """
     try:
+        if path == "-" or not stat.S_ISREG(os.stat(path).st_mode):
+            return None
         size = os.path.getsize(path)
         with open(path, "rb") as fh:
             head = fh.read(1 << 20)
@@ -559,8 +566,9 @@ def _cmd_leadlag_stream(args, out):
         raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
     if args.closure != "chord":
         raise CLIError("--stream supports --closure chord only")
-    total = _estimated_rows(args.table) or 1
-    with Progress(total, "rows read (estimate)", enabled=False if args.quiet else None) as bar:
+    total = _estimated_rows(args.table)
+    with Progress(total or 1, "rows read (estimate)",
+                  enabled=False if args.quiet or total is None else None) as bar:
         last = [0]
 
         def tick(rows):

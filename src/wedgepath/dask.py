@@ -642,6 +642,9 @@ def file_area_matrices(paths, *, pooled=False, columns=None, time_column=None, d
     for k, p in enumerate(paths):
         if not isinstance(p, (str, os.PathLike)):
             raise TypeError(f"paths[{k}] must be a str or path-like, got {type(p).__name__}")
+        if isinstance(p, str) and p == "-":
+            raise ValueError(f"paths[{k}] is '-': workers cannot read the client's standard "
+                             "input; pass files (or use wedgepath.io.stream_area_matrix('-'))")
     task = delayed(_file_matrix, pure=True)
     parts = [task(os.fspath(p), columns, time_column, delimiter, chunk_rows) for p in paths]
     result = delayed(_assemble_files, pure=True)([os.fspath(p) for p in paths], parts,
