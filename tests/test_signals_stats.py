@@ -40,15 +40,16 @@ class TestCyclicOrder:
         # (c = K (N/2) sin(2 pi/N), see test_sampled_ellipse_formula).  With
         # u_k = exp(i alpha_k), A = (c/2i)(conj(u) u^T - u u^H), so
         # A u = (c/2i)(conj(u) sum u_k^2 - n u) = i (c n/2) u when sum u_k^2 = 0,
-        # true for n >= 3 evenly spaced alpha (derived here).  Hence the
-        # eigenvector phases are the delays exactly and the fit is 1 (rank 2).
+        # true for n >= 3 evenly spaced alpha (derived here).  Hence in this special
+        # case the positions (eigenvector arguments) are the delays exactly and the
+        # fit is 1 (rank 2).
         rng = np.random.default_rng(n)
         alpha = rng.permutation(n) * 2 * np.pi / n
         t = 2 * np.pi * np.arange(3 * 40) / 40
         X = np.sin(t[:, None] - alpha[None, :])
         res = wp.cyclic_order(wp.area_matrix(X), start=0)
         want = np.mod(alpha - alpha[0], 2 * np.pi)
-        assert np.allclose(np.exp(1j * res.phases), np.exp(1j * want), atol=1e-9)
+        assert np.allclose(np.exp(1j * res.positions), np.exp(1j * want), atol=1e-9)
         assert res.order.tolist() == np.argsort(want).tolist()
         assert res.fit == pytest.approx(1.0, abs=1e-12)
         assert np.allclose(res.moduli, 1.0)
@@ -94,7 +95,7 @@ class TestCyclicOrder:
         res = wp.cyclic_order(wp.area_matrix(df, labels=True), start="early")
         assert res.ordered_names == ["early", "late"]
         assert res.fit == 1.0
-        assert res.phases[0] == pytest.approx(np.pi / 2)   # two channels: always a quarter cycle
+        assert res.positions[0] == pytest.approx(np.pi / 2)   # two channels: always a quarter cycle
 
     def test_bad_input(self):
         with pytest.raises(ValueError, match="square"):
@@ -109,6 +110,161 @@ class TestCyclicOrder:
             wp.cyclic_order(np.zeros((1, 1)))
         with pytest.raises(ValueError, match="out of range"):
             wp.cyclic_order(np.array([[0.0, 1.0], [-1.0, 0.0]]), start=5)
+
+
+def plane_positions(delays, amps):
+    """Closed-form positions in the cycle of noise-free sines ``a_k sin(t - alpha_k)``.
+
+    Derived here.  For ``x(t) = u sin t + w cos t`` (u, w in R^n), one cycle gives
+    ``A[i, j] = pi (w_i u_j - u_i w_j)`` (integrate (1/2)(x_i x_j' - x_j x_i') over
+    [0, 2 pi]).  With ``a_k sin(t - alpha_k)``: ``u = p = a cos(alpha)``,
+    ``w = -q = -a sin(alpha)``, so ``A = pi (p q^T - q p^T)`` (sampled over whole
+    cycles the factor changes, the matrix is proportional).  Gram-Schmidt gives an
+    orthonormal basis ``e1 = p/|p|``, ``e2`` of span(p, q) with
+    ``A e1 = -lambda e2``, ``A e2 = lambda e1``, hence
+    ``A (e1 + i e2) = i lambda (e1 + i e2)``: the leading eigenvector, up to a
+    complex factor, so the positions are the angles of the rows ``(e1_k, e2_k)``.
+    Rows of ``[p q]`` are ``(e1_k, e2_k) R`` with R upper triangular, positive
+    diagonal: an orientation-preserving linear map, which keeps the cyclic
+    order of the directions ``alpha_k`` but not their angles.
+    """
+    p = amps * np.cos(delays)
+    q = amps * np.sin(delays)
+    e1 = p / np.linalg.norm(p)
+    e2 = q - (q @ e1) * e1
+    e2 /= np.linalg.norm(e2)
+    return np.mod(np.arctan2(e2, e1) - np.arctan2(e2[0], e1[0]), 2 * np.pi)
+
+
+def sines(delays, amps, N=64, cycles=3):
+    t = 2 * np.pi * np.arange(N * cycles) / N
+    return amps * np.sin(t[:, None] - np.asarray(delays)[None, :])
+
+
+class TestWhatTheOrderSays:
+    """What the cyclic order can and cannot say (issue 14, item 5), against closed forms."""
+
+    def test_positions_are_not_delays(self):
+        # delays 0, 0.3, 0.6 rad, equal amplitudes: positions 0, 0.894, 1.788 (closed
+        # form plane_positions, derived in its docstring), not 0, 0.3, 0.6
+        delays, amps = np.array([0.0, 0.3, 0.6]), np.ones(3)
+        res = wp.cyclic_order(wp.area_matrix(sines(delays, amps)), start=0)
+        want = plane_positions(delays, amps)
+        np.testing.assert_allclose(res.positions, want, atol=1e-9)
+        np.testing.assert_allclose(want, [0.0, 0.894, 1.788], atol=5e-4)
+        assert res.order.tolist() == [0, 1, 2]
+        assert np.max(np.abs(res.positions - delays)) > 1.0    # they are not the delays
+
+    @pytest.mark.parametrize("n", [3, 4, 7, 12, 40])
+    def test_order_right_positions_closed_form(self, n):
+        # random delays and amplitudes, noise-free: the cyclic order is that of the
+        # delays (an orientation-preserving map keeps it) and the positions are the
+        # closed form of plane_positions, whatever n
+        rng = np.random.default_rng(100 + n)
+        delays = rng.uniform(0, 2 * np.pi, n)
+        amps = rng.uniform(0.3, 2.0, n)
+        res = wp.cyclic_order(wp.area_matrix(sines(delays, amps)), start=0)
+        want = plane_positions(delays, amps)
+        np.testing.assert_allclose(np.exp(1j * res.positions), np.exp(1j * want), atol=1e-8)
+        assert same_cycle(np.argsort(np.mod(delays - delays[0], 2 * np.pi)).tolist(),
+                          res.order.tolist())
+        assert res.fit == pytest.approx(1.0, abs=1e-10)          # rank 2: one cycle
+
+    def test_largest_position_error_shrinks_with_n(self):
+        # the measured figures quoted in docs/signals.md (own simulation): equal
+        # amplitudes, uniform random delays, the largest |position - delay| (on the
+        # circle, both measured from channel 0) over 200 draws
+        rng = np.random.default_rng(7)
+        worst = {}
+        for n in (3, 64):
+            errs = []
+            for _ in range(200):
+                delays = rng.uniform(0, 2 * np.pi, n)
+                res = wp.cyclic_order(wp.area_matrix(sines(delays, np.ones(n))), start=0)
+                d = np.angle(np.exp(1j * (res.positions - (delays - delays[0]))))
+                errs.append(np.max(np.abs(d)))
+            worst[n] = float(np.median(errs))
+        assert worst[3] > 0.2 and worst[64] < 0.2 and worst[64] < worst[3] / 2
+        assert worst[3] == pytest.approx(0.46, abs=0.06)
+        assert worst[64] == pytest.approx(0.097, abs=0.03)
+
+    def test_fit_is_one_for_three_channels(self):
+        # any nonzero 3x3 skew-symmetric matrix has rank 2 (its kernel contains the
+        # axial vector), so one eigenvalue pair holds all of ||A||_F^2: fit = 1 for
+        # every n = 3 input, signal or noise (linear algebra, no source needed)
+        rng = np.random.default_rng(3)
+        for _ in range(50):
+            G = rng.standard_normal((3, 3))
+            assert wp.cyclic_order(G - G.T).fit == pytest.approx(1.0, abs=1e-12)
+        X = rng.standard_normal((500, 3))                        # pure noise
+        assert wp.cyclic_order(wp.area_matrix(X)).fit == pytest.approx(1.0, abs=1e-12)
+        assert wp.noise_fit_baseline(3) == 1.0 and wp.noise_fit_baseline(2) == 1.0
+
+
+class TestLargeN:
+    """Bounded time and memory for many channels (issue 13, item 11)."""
+
+    @pytest.mark.parametrize("kind", ["cycle", "noise"])
+    def test_lanczos_path_matches_dense_solver(self, kind):
+        # n > DENSE_MAX takes the Lanczos path; compare with numpy's dense Hermitian
+        # solver on i*A (independent computation)
+        from wedgepath.signals.order import DENSE_MAX, N_LEADING
+        rng = np.random.default_rng(1)
+        n = DENSE_MAX + 44
+        if kind == "cycle":
+            X = sines(rng.uniform(0, 2 * np.pi, n), rng.uniform(0.5, 1.5, n), N=50, cycles=8)
+            X = X + 0.5 * rng.standard_normal(X.shape)
+            A = np.asarray(wp.area_matrix(X))
+        else:
+            G = np.triu(rng.standard_normal((n, n)), 1)
+            A = G - G.T
+        res = wp.cyclic_order(A, start=0)
+        w, V = np.linalg.eigh(1j * A)
+        lam = -w[:N_LEADING]
+        np.testing.assert_allclose(res.eigenvalues, lam, rtol=1e-9)
+        assert res.fit == pytest.approx(lam[0] ** 2 / (np.sum(A * A) / 2), rel=1e-9)
+        v = V[:, 0]
+        ref = np.mod(np.angle(v) - np.angle(v[0]), 2 * np.pi)
+        np.testing.assert_allclose(np.exp(1j * res.positions), np.exp(1j * ref), atol=1e-6)
+        np.testing.assert_allclose(res.moduli, np.abs(v) / np.abs(v).max(), atol=1e-6)
+
+    def test_noise_baseline_formula_against_simulation(self):
+        # beyond 64 channels the baseline is a large-n formula (semicircle edge plus
+        # the Tracy-Widom median, from memory); check it against a direct simulation
+        # of the same random matrices at n = 80 (own simulation, 60 draws)
+        n = 80
+        rng = np.random.default_rng(5)
+        G = np.triu(rng.standard_normal((60, n, n)), 1)
+        lam = np.linalg.eigvalsh(1j * (G - np.swapaxes(G, 1, 2)))
+        sim = float(np.median(2 * lam[:, -1] ** 2 / (lam ** 2).sum(axis=1)))
+        assert wp.noise_fit_baseline(n) == pytest.approx(sim, rel=0.03)
+        # continuity where the simulation hands over to the formula
+        assert wp.noise_fit_baseline(64) == pytest.approx(wp.noise_fit_baseline(65), rel=0.03)
+
+    def test_noise_baseline_any_n_and_errors(self):
+        # bounded at any n: no (draws, n, n) array beyond 64 channels
+        for n in (65, 1500, 10 ** 6):
+            b = wp.noise_fit_baseline(n)
+            assert 0.0 < b < 8.0 / (n - 1)
+        with pytest.raises(ValueError, match="at least 2"):
+            wp.noise_fit_baseline(1)
+        with pytest.raises(TypeError, match="integer"):
+            wp.noise_fit_baseline(4.5)
+        with pytest.raises(ValueError, match="draws"):
+            wp.noise_fit_baseline(5, draws=0)
+
+    def test_noise_baseline_memory_is_bounded(self):
+        # 1500 channels: the baseline used to allocate (200, 1500, 1500) complex
+        # numbers (3.35 GiB) and fail with MemoryError (issue 13, item 11)
+        import tracemalloc
+        tracemalloc.start()
+        try:
+            for n in (1500, 5000):
+                wp.noise_fit_baseline(n)
+            peak = tracemalloc.get_traced_memory()[1]
+        finally:
+            tracemalloc.stop()
+        assert peak < 2 ** 20
 
 
 # --------------------------------------------------------------------------- significance
