@@ -341,6 +341,101 @@ class TestSurrogates:
         assert capsys.readouterr().err == ""
 
 
+class TestSurrogateTiesAndShifts:
+    """Ties and the minimum shift of shift surrogates (issue 14, item 4)."""
+
+    def test_ties_with_the_data_count_as_extreme(self):
+        # Data of period 6 repeated 170 times: a relative shift d with d = 0 or
+        # d = 4 (mod 6) reproduces |A| exactly in exact arithmetic (closed form
+        # below), while other shifts give |A| far smaller.  So the Monte Carlo
+        # p-value (1 + #{|A*| >= |A|}) / (1 + B) counts exactly the surrogates
+        # with such a shift, a Binomial(B, f) number, f their share among the
+        # allowed shifts (the definition of the test; North, Curtis & Sham,
+        # Am. J. Hum. Genet. 71, 2002, from memory).  Before: recomputed ties
+        # fell below |A| by rounding about half the time, p ~ 0.17 for f = 1/3.
+        P, K, B = 6, 170, 1999
+        rng = np.random.default_rng(4)
+        base = rng.standard_normal(P) * 0.1 + rng.uniform(1, 3)
+        x = np.tile(base, K)
+        y = np.roll(x, 1) * 0.37
+        T = x.size
+        res = wp.surrogate_test(np.column_stack([x, y]), n_surrogates=B, seed=0, progress=False)
+        m = res.min_shift
+        # reference: |A(d)| for every relative shift d, by area_matrix of the
+        # shifted pair (a circular shift of one channel against the other)
+        A = np.array([wp.area_matrix(np.column_stack([x, np.roll(y, d)]))[0, 1]
+                      for d in range(P)])
+        tie = np.abs(np.abs(A) - abs(A[0])) < 1e-9 * abs(A[0])
+        assert tie.sum() == 2 and np.max(np.abs(A[~tie])) < 0.2 * abs(A[0])
+        allowed = [d for d in range(T) if min(d, T - d) >= m]
+        f = np.mean([tie[d % P] for d in allowed])
+        count = res.pvalues[0, 1] * (B + 1) - 1
+        assert abs(count - B * f) < 4.5 * np.sqrt(B * f * (1 - f))
+
+    def test_min_shift_option_and_errors(self):
+        X = np.random.default_rng(0).standard_normal((400, 3))
+        res = wp.surrogate_test(X, n_surrogates=20, seed=0, progress=False)
+        assert res.min_shift == int(wp.decorrelation_lag(X).max())
+        assert wp.surrogate_test(X, n_surrogates=20, seed=0, min_shift=100,
+                                 progress=False).min_shift == 100
+        assert wp.surrogate_test(X, method="phase", n_surrogates=20, seed=0,
+                                 progress=False).min_shift is None
+        with pytest.raises(ValueError, match=r"min_shift must be between 0 and .*\(100\)"):
+            wp.surrogate_test(X, min_shift=101)
+        with pytest.raises(ValueError, match="min_shift must be between"):
+            wp.surrogate_test(X, min_shift=-1)
+        with pytest.raises(TypeError, match="min_shift must be an integer"):
+            wp.surrogate_test(X, min_shift=2.5)
+        with pytest.raises(ValueError, match="'auto' or a number"):
+            wp.surrogate_test(X, min_shift="long")
+        with pytest.raises(ValueError, match="method='shift' only"):
+            wp.surrogate_test(X, method="phase", min_shift=5)
+
+    def test_min_shift_removes_the_small_shifts(self):
+        # a lead of 2 samples in a smooth broadband signal.  The relative shifts d
+        # for which |A(d)| >= |A(0)| (computed here for every d with area_matrix)
+        # are all short: with every shift allowed (min_shift=0) the p-value is
+        # floored at their share f0; with the default minimum shift none is drawn
+        d = broadband(520, seed=3)
+        rng = np.random.default_rng(3)
+        X = np.column_stack([d[2:514], d[:512]]) + 0.3 * rng.standard_normal((512, 2))
+        T, B = 512, 999
+        A = np.array([wp.area_matrix(np.column_stack([X[:, 0], np.roll(X[:, 1], k)]))[0, 1]
+                      for k in range(T)])
+        strong = np.flatnonzero(np.abs(A) >= abs(A[0]))
+        f0 = strong.size / T
+        every = wp.surrogate_test(X, n_surrogates=B, seed=1, min_shift=0, progress=False)
+        auto = wp.surrogate_test(X, n_surrogates=B, seed=1, progress=False)
+        assert f0 > 0.01
+        assert abs(every.pvalues[0, 1] * (B + 1) - 1 - B * f0) < 4.5 * np.sqrt(B * f0)
+        assert np.all(np.minimum(strong, T - strong) < auto.min_shift)
+        assert auto.pvalues[0, 1] == pytest.approx(1 / (B + 1))
+
+    def test_decorrelation_lag_follows_the_published_rule(self):
+        # Politis, J. Nonparametric Statistics 15 (2003) / Politis & White,
+        # Econometric Reviews 23 (2004): m_hat is the smallest m >= 0 such that
+        # |rho(m + k)| < 2 sqrt(log10(T) / T) for k = 1..K_T, K_T =
+        # max(5, sqrt(log10 T)); the lag returned is 2 max(m_hat, 1).  Here
+        # the sample autocorrelations are computed directly (dot products).
+        from scipy.signal import lfilter
+        rng = np.random.default_rng(9)
+        T = 3000
+        Z = np.column_stack([rng.standard_normal(T),
+                             lfilter([1.0], [1.0, -0.8], rng.standard_normal(T)),
+                             lfilter(np.ones(7) / 7, [1.0], rng.standard_normal(T))])
+        got = wp.decorrelation_lag(Z)
+        c = 2 * np.sqrt(np.log10(T) / T)
+        K = max(5, int(np.sqrt(np.log10(T))))
+        for col, lag in zip(Z.T, got):
+            z = col - col.mean()
+            rho = np.array([z[:T - h] @ z[h:] for h in range(80)]) / (z @ z)
+            mhat = next(m for m in range(80 - K) if np.all(np.abs(rho[m + 1:m + K + 1]) < c))
+            assert lag == 2 * max(mhat, 1)
+        assert got[0] == 2                      # white noise
+        # AR(1), phi = 0.8: rho(h) = 0.8^h falls below c = 0.077 at h = 12
+        assert 16 <= got[1] <= 34
+
+
 class TestBenjaminiHochberg:
     def test_by_hand(self):
         # Definition (Benjamini & Hochberg, J. R. Statist. Soc. B 57, 1995):
