@@ -82,3 +82,76 @@ def test_size_under_independent_channels(method, kind):
     rate = rejected / (3 * N)
     se = np.sqrt(0.05 * 0.95 / (3 * N))
     assert abs(rate - 0.05) < 3.0 * se, f"size {rate:.4f} (se {se:.4f})"
+
+
+# --------------------------------------------------------------------------- bootstrap coverage
+def sine_ar_model(rng, T, ar, sigma, period=40, phi=0.7):
+    """``x_i = sin t``, ``x_j = sin(t - phi)`` plus independent AR(1) noise.
+
+    Expected area, derived here: over whole cycles the sampled sinusoid pair
+    is the sampled ellipse, area ``(N/2) sin(2 pi/N) sin(phi)`` per cycle
+    (N = ``period`` samples per cycle; ``pi sin(phi)`` in the continuous limit,
+    common practice, no source); the noise is independent of the sines and
+    between channels, so every term that involves it has mean zero (the chord
+    closure and the centring change nothing: the chord-closed area is
+    translation invariant).
+    """
+    t = 2 * np.pi * np.arange(T) / period
+    noise = lfilter([1.0], [1.0, -ar], sigma * rng.standard_normal((T + 300, 2)), axis=0)[300:]
+    X = np.column_stack([np.sin(t), np.sin(t - phi)]) + noise
+    truth = (T / period) * (period / 2) * np.sin(2 * np.pi / period) * np.sin(phi)
+    return X, truth
+
+
+VAR_PHI = 0.9 * np.array([[np.cos(0.3), -np.sin(0.3)], [np.sin(0.3), np.cos(0.3)]]) + [[0.05, 0], [0, 0]]
+
+
+def var_model(rng, T, Phi=VAR_PHI):
+    """Stationary VAR(1) ``y_{k+1} = Phi y_k + e_k``, ``e_k ~ N(0, I)``, started in equilibrium.
+
+    Expected area, derived here.  The stationary covariance solves
+    ``S = Phi S Phi^T + I`` (discrete Lyapunov equation, solved by
+    scipy.linalg.solve_discrete_lyapunov), and ``E[y_k y_{k+h}^T] = S (Phi^h)^T``.
+    The chord-closed area is translation invariant, so centring does not matter,
+    and equals ``(1/2) sum_{k=0}^{T-1} y_k ^ y_{k+1}`` with ``y_T = y_0``.  Hence
+    ``E[A] = (T - 1)/2 (S Phi^T - Phi S) + (1/2) (Phi^(T-1) S - S (Phi^(T-1))^T)``
+    (the second term from the closing pair (y_{T-1}, y_0), whose covariance is
+    ``Phi^(T-1) S``).
+    """
+    import scipy.linalg
+    S = scipy.linalg.solve_discrete_lyapunov(Phi, np.eye(2))
+    y = np.empty((T, 2))
+    y[0] = np.linalg.cholesky(S) @ rng.standard_normal(2)
+    e = rng.standard_normal((T, 2))
+    for k in range(1, T):
+        y[k] = Phi @ y[k - 1] + e[k]
+    C = S @ Phi.T
+    P = np.linalg.matrix_power(Phi, T - 1) @ S
+    E = 0.5 * (T - 1) * (C - C.T) + 0.5 * (P - P.T)
+    return y, E[0, 1]
+
+
+def coverage(model, T, reps, seed, **kw):
+    rng = np.random.default_rng(seed)
+    hit = 0
+    for _ in range(reps):
+        X, truth = model(rng, T, **kw) if kw else model(rng, T)
+        ci = wp.bootstrap_area(X, n_boot=499, seed=rng, progress=False)
+        hit += ci.low[0, 1] <= truth <= ci.high[0, 1]
+    return hit / reps
+
+
+def test_bootstrap_coverage():
+    # Nominal 95 % studentized circular-block intervals on models with a known
+    # expected area (derived in sine_ar_model and var_model).  1000 intervals
+    # pooled over two cells: binomial standard error 0.0069 at 0.95, so the
+    # bounds below tell 0.95 from 0.92 (a true 0.92 passes the lower bound with
+    # probability about 3 %).  Before (non-overlapping blocks of T^(1/3),
+    # percentile interval) the same cells and seeds gave 0.911.
+    cells = [(sine_ar_model, dict(ar=0.6, sigma=0.7), 520, 1),
+             (sine_ar_model, dict(ar=0.9, sigma=0.3), 520, 2)]
+    reps = 500
+    hits = [coverage(model, T, reps, seed, **kw) * reps for model, kw, T, seed in cells]
+    cov = sum(hits) / (reps * len(cells))
+    se = np.sqrt(0.95 * 0.05 / (reps * len(cells)))
+    assert 0.95 - 2 * se <= cov <= 0.95 + 3 * se, f"coverage {cov:.3f}"

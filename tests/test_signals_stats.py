@@ -464,6 +464,7 @@ class TestBootstrap:
         T = 4000
         X = np.random.default_rng(7).standard_normal((T, 2))
         res = wp.bootstrap_area(X, block=20, n_boot=2000, seed=1, progress=False)
+        # the studentized interval is close to +-1.96 sd for i.i.d. terms
         assert res.std[0, 1] == pytest.approx(np.sqrt(T / 2), rel=0.1)
         assert res.low[0, 1] < res.estimate[0, 1] < res.high[0, 1]
 
@@ -482,12 +483,63 @@ class TestBootstrap:
 
     def test_errors(self):
         X = np.random.default_rng(0).standard_normal((50, 2))
-        with pytest.raises(ValueError, match="block must be between 1"):
-            wp.bootstrap_area(X, block=51)
+        with pytest.raises(ValueError, match=r"block must be between 2 and .*\(12\), got 13"):
+            wp.bootstrap_area(X, block=13)
+        with pytest.raises(ValueError, match="block must be between 2"):
+            wp.bootstrap_area(X, block=1)
+        with pytest.raises(ValueError, match="'auto' or a number"):
+            wp.bootstrap_area(X, block="long")
+        with pytest.raises(ValueError, match="at least 8 samples"):
+            wp.bootstrap_area(X[:7])
         with pytest.raises(ValueError, match="level"):
             wp.bootstrap_area(X, level=1.5)
         with pytest.raises(ValueError, match="n_boot"):
             wp.bootstrap_area(X, n_boot=1)
+
+    def test_intervals_mirror_and_block_rule(self):
+        X = np.random.default_rng(4).standard_normal((900, 3))
+        res = wp.bootstrap_area(X, n_boot=200, seed=0, progress=False)
+        np.testing.assert_array_equal(res.low, -res.high.T)     # A[j, i] = -A[i, j]
+        assert np.all(res.low <= res.estimate) and np.all(res.estimate <= res.high)
+        assert res.block == 60                                  # max(b_PW, 2 sqrt(900)) = 60
+
+    def test_politis_white_block_ar1_closed_form(self):
+        # Politis & White (Econometric Reviews 23, 2004; correction Patton, Politis &
+        # White, Econometric Reviews 28, 2009): b = (2 G^2 / D)^(1/3) T^(1/3), D =
+        # (4/3) g^2 for the circular bootstrap.  For AR(1), gamma(k) = s^2 phi^|k|,
+        # so G = sum |k| gamma(k) = 2 s^2 phi / (1 - phi)^2 and g = sum gamma(k) =
+        # s^2 (1 + phi) / (1 - phi) (geometric series), hence
+        # b = (6 phi^2 / (1 - phi^2)^2)^(1/3) T^(1/3) (derived here).  The
+        # estimate converges to it; at T = 2e5 within 15 % here.
+        from scipy.signal import lfilter
+        from wedgepath.signals.significance import politis_white_block
+        rng = np.random.default_rng(8)
+        T = 200_000
+        for phi in (0.5, 0.8):
+            u = lfilter([1.0], [1.0, -phi], rng.standard_normal(T))
+            want = (6 * phi ** 2 / (1 - phi ** 2) ** 2) ** (1 / 3) * T ** (1 / 3)
+            assert politis_white_block(u[:, None])[0] == pytest.approx(want, rel=0.15)
+
+    def test_merged_moments_are_stable(self):
+        # batches of values 1e9 + N(0, 1): the running variance must match numpy's
+        # two-pass np.var to about u * mean/sd = 1e-7 (the error of the running means;
+        # Chan, Golub & LeVeque, Am. Stat. 37, 1983), while the old s2/B - mean^2
+        # loses every digit here (the squares are 1e18, float64 keeps 16 digits)
+        from wedgepath.signals.significance import _merge_moments
+        rng = np.random.default_rng(2)
+        vals = 1e9 + rng.standard_normal((300, 2, 2))
+        use = rng.uniform(size=vals.shape) < 0.8
+        count = mean = m2 = np.zeros((2, 2))
+        for b0 in range(0, 300, 37):
+            count, mean, m2 = _merge_moments(count, mean, m2, vals[b0:b0 + 37], use[b0:b0 + 37])
+        for i in range(2):
+            for j in range(2):
+                x = vals[:, i, j][use[:, i, j]]
+                assert count[i, j] == x.size
+                assert mean[i, j] == pytest.approx(x.mean(), rel=1e-15)
+                assert m2[i, j] / (x.size - 1) == pytest.approx(np.var(x, ddof=1), rel=1e-6)
+                naive = (np.sum(x * x) / x.size - x.mean() ** 2) * x.size / (x.size - 1)
+                assert abs(naive / np.var(x, ddof=1) - 1) > 1e-3     # the old formula
 
 
 # --------------------------------------------------------------------------- cycles

@@ -19,10 +19,11 @@ __all__ = ["cyclic_order", "CyclicOrder", "noise_fit_baseline"]
 
 _TWO_PI = 2.0 * np.pi
 #: up to this many channels every eigenvalue is computed (dense Hermitian
-#: solver); beyond it only the leading few, by Lanczos iteration
+#: solver); beyond it only the leading one, by Lanczos iteration
 DENSE_MAX = 256
-#: number of leading eigenvalues kept beyond DENSE_MAX channels
-N_LEADING = 3
+#: number of leading eigenvalues computed beyond DENSE_MAX (each further one is
+#: costly: it lies in the bulk of the spectrum, where Lanczos converges slowly)
+N_LEADING = 1
 
 
 class CyclicOrder:
@@ -57,7 +58,8 @@ class CyclicOrder:
     eigenvalues : ndarray of float
         The ``lambda_k >= 0`` of the eigenvalue pairs ``+- i lambda_k`` of A,
         in decreasing order: all ``floor(n/2)`` of them for up to
-        ``DENSE_MAX`` (256) channels, the leading ``N_LEADING`` (3) beyond.
+        ``DENSE_MAX`` (256) channels; beyond, only the leading one
+        (``N_LEADING``), which is all that ``.fit`` needs.
     names : tuple of str or None
         Channel names when A carried them.
     """
@@ -230,9 +232,11 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
     the order is not stable.
 
     Cost: up to ``DENSE_MAX`` (256) channels, a dense Hermitian eigensolver
-    (all eigenvalues); beyond, only the leading ``N_LEADING`` (3) eigenvalue
-    pairs, by Lanczos iteration on ``A^T A`` (matrix-vector products only:
-    ``O(n^2)`` per iteration, no ``O(n^3)`` reduction), and ``||A||_F``.
+    (all eigenvalues); beyond, only the leading eigenvalue pair, by Lanczos
+    iteration on ``A^T A`` (matrix-vector products only: ``O(n^2)`` per
+    iteration, no ``O(n^3)`` reduction), and ``||A||_F``.  Lanczos converges
+    fast when one cycle stands out and slowly for patternless (noise-like)
+    matrices, whose leading eigenvalues crowd together.
     ``benchmarks/bench_signals.py`` compares it with a full eigensolver.
 
     Examples
