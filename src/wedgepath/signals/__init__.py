@@ -16,7 +16,8 @@ from .cycles import CycleAreas, cycle_areas
 from .order import CyclicOrder, cyclic_order, noise_fit_baseline
 from .rolling import RollingAreas, rolling_area_matrix
 from .significance import (SURROGATE_METHODS, BootstrapResult, SurrogateResult,
-                           benjamini_hochberg, bootstrap_area, decorrelation_lag, surrogate_test)
+                           SurrogateWarning, benjamini_hochberg, bootstrap_area, decorrelation_lag,
+                           surrogate_test)
 from .streaming import AreaAccumulator
 
 __all__ = [
@@ -29,7 +30,7 @@ __all__ = [
     "rolling_area_matrix", "RollingAreas", "AreaAccumulator",
     # significance
     "surrogate_test", "SurrogateResult", "SURROGATE_METHODS", "bootstrap_area",
-    "BootstrapResult", "benjamini_hochberg", "decorrelation_lag",
+    "BootstrapResult", "benjamini_hochberg", "decorrelation_lag", "SurrogateWarning",
     # per-cycle loops
     "cycle_areas", "CycleAreas",
 ]

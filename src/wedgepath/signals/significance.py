@@ -9,7 +9,8 @@ from .._validation import as_float_array, as_int, as_real, as_rng, check_bool, c
 from ._kernel import signal_input, skew_half, unscale_pairs
 
 __all__ = ["surrogate_test", "SurrogateResult", "bootstrap_area", "BootstrapResult",
-           "benjamini_hochberg", "decorrelation_lag", "politis_white_block", "SURROGATE_METHODS"]
+           "benjamini_hochberg", "decorrelation_lag", "politis_white_block", "SURROGATE_METHODS",
+           "SurrogateWarning"]
 
 #: Accepted values of ``method=`` in :func:`surrogate_test`.
 SURROGATE_METHODS = ("shift", "phase")
@@ -92,6 +93,10 @@ def benjamini_hochberg(pvalues):
         from scipy.stats import false_discovery_control  # scipy.stats is slow to import
         out[ok] = false_discovery_control(vals, method="bh")
     return out.reshape(p.shape)
+
+
+class SurrogateWarning(UserWarning):
+    """Shift surrogates cannot honour the data's decorrelation time (recording too short)."""
 
 
 #: unit roundoff of float64
@@ -280,6 +285,8 @@ def _resolve_min_shift(min_shift, method, Y):
     if isinstance(min_shift, str):
         if min_shift != "auto":
             raise ValueError(f"min_shift must be 'auto' or a number of samples, got {min_shift!r}")
+        if cap < 2:                 # too few samples for the rule: every shift but 0
+            return cap
         mhat, _, _ = _flat_top_lags(Y)
         m = int(2 * max(int(mhat.max()), 1))
         if m > cap:
@@ -287,7 +294,7 @@ def _resolve_min_shift(min_shift, method, Y):
             warnings.warn(f"surrogate_test: the channels stay correlated over {m} samples, more "
                           f"than a quarter of the {T} samples; shift surrogates use shifts of at "
                           f"least {cap} samples and may keep part of a lead.  Use a longer "
-                          "recording, or method='phase'", UserWarning, stacklevel=3)
+                          "recording, or method='phase'", SurrogateWarning, stacklevel=3)
         return min(m, cap)
     m = as_int(min_shift, "min_shift")
     if not 0 <= m <= cap:
