@@ -9,7 +9,13 @@ Rows:
   window at the same step (cost must not grow with the window; target a
   time ratio under 1.5);
 * peak traced memory of ``AreaAccumulator`` fed 10^7 samples of 16 channels
-  in chunks (target under 100 MB; the whole array would be 1.28 GB).
+  in chunks (target under 100 MB; the whole array would be 1.28 GB);
+* ``cyclic_order`` of n = 2000 channels against ``numpy.linalg.eigh(1j * A)``
+  of the same matrix (the full eigensolver it used before; target a quarter
+  of its time for an area matrix with one cycle in noise, half for a
+  patternless skew-symmetric matrix, Lanczos's worst case);
+* peak traced memory of ``noise_fit_baseline(1500)`` (target under 1 MB; it
+  used to allocate (200, 1500, 1500) complex numbers, 3.35 GiB).
 
 Run:  .venv/bin/python benchmarks/bench_signals.py  [--quick]
 """
@@ -103,6 +109,30 @@ def main(quick=False):
                 peak / 2 ** 20, 100.0, unit=" MB",
                 note=f"whole array would be {total * n * 8 / 2 ** 20:.0f} MB; {elapsed:.1f} s "
                      "incl. generating the data")
+    # ---------------------------------------------------------------- cyclic order, many channels
+    n = 1000 if quick else 2000
+    T = 3000
+    tt = np.arange(T) * 2 * np.pi / 50
+    Xc = np.sin(tt[:, None] - rng.uniform(0, 2 * np.pi, n)) + rng.standard_normal((T, n))
+    A_cycle = np.asarray(wp.area_matrix(Xc))
+    Xc = None
+    G = np.triu(rng.standard_normal((n, n)), 1)
+    A_noise = G - G.T
+    G = None
+    for label, A, target in (("one cycle in noise", A_cycle, 0.25),
+                             ("patternless skew matrix", A_noise, 0.5)):
+        t_eigh, t_co = interleaved_best([lambda: np.linalg.eigh(1j * A),
+                                         lambda: wp.cyclic_order(A)], repeat=1 if quick else 2)
+        w, V = np.linalg.eigh(1j * A)
+        fit_ref = w[0] ** 2 / (np.sum(A * A) / 2)
+        co = wp.cyclic_order(A)
+        table.ratio(f"cyclic_order vs numpy.linalg.eigh(1j*A) (n={n}, {label})", t_co, t_eigh,
+                    target, note=f"{t_co:.2f} s vs {t_eigh:.2f} s; fit {co.fit:.4f} "
+                                 f"(full solver {fit_ref:.4f})")
+    A_cycle = A_noise = None
+    peak = peak_memory(lambda: wp.noise_fit_baseline(1500))
+    table.value("noise_fit_baseline(1500) peak memory", peak / 2 ** 20, 1.0, unit=" MB",
+                note="was (200, 1500, 1500) complex, 3.35 GiB")
     ok = table.print()
     return ok
 

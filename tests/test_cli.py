@@ -47,7 +47,7 @@ class TestLeadlag:
                                  "--no-figures"], capsys)
         assert code == 0, err
         rep = json.loads((out / "result.json").read_text())
-        assert rep["schema"] == "wedgepath.leadlag/1"
+        assert rep["schema"] == "wedgepath.leadlag/2"
         A = wp.area_matrix(X, times=t)
         np.testing.assert_allclose(rep["area_matrix"], A, rtol=1e-12, atol=1e-12)
         co = wp.cyclic_order(A)
@@ -196,7 +196,7 @@ def test_python_dash_m_and_demo(tmp_path):
     assert "cyclic order recovered" in proc.stdout
     assert "all checks passed" in proc.stdout
     rep = json.loads((out / "loop.json").read_text())
-    assert rep["schema"] == "wedgepath.loop/1"
+    assert rep["schema"] == "wedgepath.loop/2"
 
 
 def test_bundled_demo_data_regenerates_identically(tmp_path):

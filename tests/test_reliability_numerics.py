@@ -220,8 +220,8 @@ def measure_magnitudes(scale):
     t = 2 * np.pi * np.arange(300) / 100
     Z = np.column_stack([np.sin(t - 2 * np.pi / 3), np.sin(t), np.sin(t - 4 * np.pi / 3)]) * scale
     co = wp.cyclic_order(wp.area_matrix(Z), start=1)
-    out["cyclic_order phases (vs 120, 240 deg)"] = float(
-        np.max(np.abs(co.phases - np.array([2 * np.pi / 3, 0.0, 4 * np.pi / 3]))) / EPS)
+    out["cyclic_order positions (vs 120, 240 deg)"] = float(
+        np.max(np.abs(co.positions - np.array([2 * np.pi / 3, 0.0, 4 * np.pi / 3]))) / EPS)
     return out
 
 

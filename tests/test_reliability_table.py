@@ -781,7 +781,7 @@ row("wp.surrogate_test(X)", "overflow", "channels near 1e200 (areas beyond float
     lambda: wp.surrogate_test(loop(3) * 1e200, n_surrogates=3, seed=0), ValueError,
     "overflow float64")
 row("wp.bootstrap_area(X)", "option", "block=0", lambda: wp.bootstrap_area(loop(3), block=0),
-    ValueError, "block must be between 1 and")
+    ValueError, "block must be between 2 and")
 row("wp.bootstrap_area(X)", "option", "level=2", lambda: wp.bootstrap_area(loop(3), level=2),
     ValueError, "strictly between 0 and 1")
 row("wp.bootstrap_area(X)", "option", "level='a'", lambda: wp.bootstrap_area(loop(3), level="a"),
@@ -790,6 +790,29 @@ row("wp.bootstrap_area(X)", "option", "keep='a'", lambda: wp.bootstrap_area(loop
     TypeError, "keep must be True or False")
 row("wp.bootstrap_area(X)", "option", "n_boot=1", lambda: wp.bootstrap_area(loop(3), n_boot=1),
     ValueError, "n_boot must be at least 2")
+
+row("wp.bootstrap_area(X)", "option", "block='long'",
+    lambda: wp.bootstrap_area(loop(3), block="long"), ValueError, "'auto' or a number of samples")
+row("wp.bootstrap_area(X)", "single", "7 samples (fewer than 8)",
+    lambda: wp.bootstrap_area(loop(3)[:7]), ValueError, "at least 8 samples")
+row("wp.surrogate_test(X)", "option", "min_shift beyond a quarter of the samples",
+    lambda: wp.surrogate_test(loop(3), min_shift=5), ValueError, "min_shift must be between 0")
+row("wp.surrogate_test(X)", "option", "min_shift=1.5",
+    lambda: wp.surrogate_test(loop(3), min_shift=1.5), TypeError, "min_shift must be an integer")
+row("wp.surrogate_test(X)", "option", "min_shift with method='phase'",
+    lambda: wp.surrogate_test(loop(3), method="phase", min_shift=1), ValueError,
+    "applies to method='shift' only")
+
+DL = "wp.decorrelation_lag(X)"
+array_rows(DL, lambda X: wp.decorrelation_lag(X), 3, ndim=(ValueError, "must be 2-dimensional"),
+           empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
+           allnan=(ValueError, "contains NaN (a gap)"))
+
+NB = "wp.noise_fit_baseline(n)"
+row(NB, "option", "n=1", lambda: wp.noise_fit_baseline(1), ValueError, "at least 2 channels")
+row(NB, "option", "n=4.5", lambda: wp.noise_fit_baseline(4.5), TypeError, "n must be an integer")
+row(NB, "option", "draws=0", lambda: wp.noise_fit_baseline(5, draws=0), ValueError,
+    "draws must be at least 1")
 
 BH = "wp.benjamini_hochberg(pvalues)"
 row(BH, "option", "a p-value of 2", lambda: wp.benjamini_hochberg([0.5, 2]), ValueError,

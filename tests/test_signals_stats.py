@@ -40,15 +40,16 @@ class TestCyclicOrder:
         # (c = K (N/2) sin(2 pi/N), see test_sampled_ellipse_formula).  With
         # u_k = exp(i alpha_k), A = (c/2i)(conj(u) u^T - u u^H), so
         # A u = (c/2i)(conj(u) sum u_k^2 - n u) = i (c n/2) u when sum u_k^2 = 0,
-        # true for n >= 3 evenly spaced alpha (derived here).  Hence the
-        # eigenvector phases are the delays exactly and the fit is 1 (rank 2).
+        # true for n >= 3 evenly spaced alpha (derived here).  Hence in this special
+        # case the positions (eigenvector arguments) are the delays exactly and the
+        # fit is 1 (rank 2).
         rng = np.random.default_rng(n)
         alpha = rng.permutation(n) * 2 * np.pi / n
         t = 2 * np.pi * np.arange(3 * 40) / 40
         X = np.sin(t[:, None] - alpha[None, :])
         res = wp.cyclic_order(wp.area_matrix(X), start=0)
         want = np.mod(alpha - alpha[0], 2 * np.pi)
-        assert np.allclose(np.exp(1j * res.phases), np.exp(1j * want), atol=1e-9)
+        assert np.allclose(np.exp(1j * res.positions), np.exp(1j * want), atol=1e-9)
         assert res.order.tolist() == np.argsort(want).tolist()
         assert res.fit == pytest.approx(1.0, abs=1e-12)
         assert np.allclose(res.moduli, 1.0)
@@ -94,7 +95,7 @@ class TestCyclicOrder:
         res = wp.cyclic_order(wp.area_matrix(df, labels=True), start="early")
         assert res.ordered_names == ["early", "late"]
         assert res.fit == 1.0
-        assert res.phases[0] == pytest.approx(np.pi / 2)   # two channels: always a quarter cycle
+        assert res.positions[0] == pytest.approx(np.pi / 2)   # two channels: always a quarter cycle
 
     def test_bad_input(self):
         with pytest.raises(ValueError, match="square"):
@@ -109,6 +110,161 @@ class TestCyclicOrder:
             wp.cyclic_order(np.zeros((1, 1)))
         with pytest.raises(ValueError, match="out of range"):
             wp.cyclic_order(np.array([[0.0, 1.0], [-1.0, 0.0]]), start=5)
+
+
+def plane_positions(delays, amps):
+    """Closed-form positions in the cycle of noise-free sines ``a_k sin(t - alpha_k)``.
+
+    Derived here.  For ``x(t) = u sin t + w cos t`` (u, w in R^n), one cycle gives
+    ``A[i, j] = pi (w_i u_j - u_i w_j)`` (integrate (1/2)(x_i x_j' - x_j x_i') over
+    [0, 2 pi]).  With ``a_k sin(t - alpha_k)``: ``u = p = a cos(alpha)``,
+    ``w = -q = -a sin(alpha)``, so ``A = pi (p q^T - q p^T)`` (sampled over whole
+    cycles the factor changes, the matrix is proportional).  Gram-Schmidt gives an
+    orthonormal basis ``e1 = p/|p|``, ``e2`` of span(p, q) with
+    ``A e1 = -lambda e2``, ``A e2 = lambda e1``, hence
+    ``A (e1 + i e2) = i lambda (e1 + i e2)``: the leading eigenvector, up to a
+    complex factor, so the positions are the angles of the rows ``(e1_k, e2_k)``.
+    Rows of ``[p q]`` are ``(e1_k, e2_k) R`` with R upper triangular, positive
+    diagonal: an orientation-preserving linear map, which keeps the cyclic
+    order of the directions ``alpha_k`` but not their angles.
+    """
+    p = amps * np.cos(delays)
+    q = amps * np.sin(delays)
+    e1 = p / np.linalg.norm(p)
+    e2 = q - (q @ e1) * e1
+    e2 /= np.linalg.norm(e2)
+    return np.mod(np.arctan2(e2, e1) - np.arctan2(e2[0], e1[0]), 2 * np.pi)
+
+
+def sines(delays, amps, N=64, cycles=3):
+    t = 2 * np.pi * np.arange(N * cycles) / N
+    return amps * np.sin(t[:, None] - np.asarray(delays)[None, :])
+
+
+class TestWhatTheOrderSays:
+    """What the cyclic order can and cannot say (issue 14, item 5), against closed forms."""
+
+    def test_positions_are_not_delays(self):
+        # delays 0, 0.3, 0.6 rad, equal amplitudes: positions 0, 0.894, 1.788 (closed
+        # form plane_positions, derived in its docstring), not 0, 0.3, 0.6
+        delays, amps = np.array([0.0, 0.3, 0.6]), np.ones(3)
+        res = wp.cyclic_order(wp.area_matrix(sines(delays, amps)), start=0)
+        want = plane_positions(delays, amps)
+        np.testing.assert_allclose(res.positions, want, atol=1e-9)
+        np.testing.assert_allclose(want, [0.0, 0.894, 1.788], atol=5e-4)
+        assert res.order.tolist() == [0, 1, 2]
+        assert np.max(np.abs(res.positions - delays)) > 1.0    # they are not the delays
+
+    @pytest.mark.parametrize("n", [3, 4, 7, 12, 40])
+    def test_order_right_positions_closed_form(self, n):
+        # random delays and amplitudes, noise-free: the cyclic order is that of the
+        # delays (an orientation-preserving map keeps it) and the positions are the
+        # closed form of plane_positions, whatever n
+        rng = np.random.default_rng(100 + n)
+        delays = rng.uniform(0, 2 * np.pi, n)
+        amps = rng.uniform(0.3, 2.0, n)
+        res = wp.cyclic_order(wp.area_matrix(sines(delays, amps)), start=0)
+        want = plane_positions(delays, amps)
+        np.testing.assert_allclose(np.exp(1j * res.positions), np.exp(1j * want), atol=1e-8)
+        assert same_cycle(np.argsort(np.mod(delays - delays[0], 2 * np.pi)).tolist(),
+                          res.order.tolist())
+        assert res.fit == pytest.approx(1.0, abs=1e-10)          # rank 2: one cycle
+
+    def test_largest_position_error_shrinks_with_n(self):
+        # the measured figures quoted in docs/signals.md (own simulation): equal
+        # amplitudes, uniform random delays, the largest |position - delay| (on the
+        # circle, both measured from channel 0) over 200 draws
+        rng = np.random.default_rng(7)
+        worst = {}
+        for n in (3, 64):
+            errs = []
+            for _ in range(200):
+                delays = rng.uniform(0, 2 * np.pi, n)
+                res = wp.cyclic_order(wp.area_matrix(sines(delays, np.ones(n))), start=0)
+                d = np.angle(np.exp(1j * (res.positions - (delays - delays[0]))))
+                errs.append(np.max(np.abs(d)))
+            worst[n] = float(np.median(errs))
+        assert worst[3] > 0.2 and worst[64] < 0.2 and worst[64] < worst[3] / 2
+        assert worst[3] == pytest.approx(0.46, abs=0.06)
+        assert worst[64] == pytest.approx(0.097, abs=0.03)
+
+    def test_fit_is_one_for_three_channels(self):
+        # any nonzero 3x3 skew-symmetric matrix has rank 2 (its kernel contains the
+        # axial vector), so one eigenvalue pair holds all of ||A||_F^2: fit = 1 for
+        # every n = 3 input, signal or noise (linear algebra, no source needed)
+        rng = np.random.default_rng(3)
+        for _ in range(50):
+            G = rng.standard_normal((3, 3))
+            assert wp.cyclic_order(G - G.T).fit == pytest.approx(1.0, abs=1e-12)
+        X = rng.standard_normal((500, 3))                        # pure noise
+        assert wp.cyclic_order(wp.area_matrix(X)).fit == pytest.approx(1.0, abs=1e-12)
+        assert wp.noise_fit_baseline(3) == 1.0 and wp.noise_fit_baseline(2) == 1.0
+
+
+class TestLargeN:
+    """Bounded time and memory for many channels (issue 13, item 11)."""
+
+    @pytest.mark.parametrize("kind", ["cycle", "noise"])
+    def test_lanczos_path_matches_dense_solver(self, kind):
+        # n > DENSE_MAX takes the Lanczos path; compare with numpy's dense Hermitian
+        # solver on i*A (independent computation)
+        from wedgepath.signals.order import DENSE_MAX, N_LEADING
+        rng = np.random.default_rng(1)
+        n = DENSE_MAX + 44
+        if kind == "cycle":
+            X = sines(rng.uniform(0, 2 * np.pi, n), rng.uniform(0.5, 1.5, n), N=50, cycles=8)
+            X = X + 0.5 * rng.standard_normal(X.shape)
+            A = np.asarray(wp.area_matrix(X))
+        else:
+            G = np.triu(rng.standard_normal((n, n)), 1)
+            A = G - G.T
+        res = wp.cyclic_order(A, start=0)
+        w, V = np.linalg.eigh(1j * A)
+        lam = -w[:N_LEADING]
+        np.testing.assert_allclose(res.eigenvalues, lam, rtol=1e-9)
+        assert res.fit == pytest.approx(lam[0] ** 2 / (np.sum(A * A) / 2), rel=1e-9)
+        v = V[:, 0]
+        ref = np.mod(np.angle(v) - np.angle(v[0]), 2 * np.pi)
+        np.testing.assert_allclose(np.exp(1j * res.positions), np.exp(1j * ref), atol=1e-6)
+        np.testing.assert_allclose(res.moduli, np.abs(v) / np.abs(v).max(), atol=1e-6)
+
+    def test_noise_baseline_formula_against_simulation(self):
+        # beyond 64 channels the baseline is a large-n formula (semicircle edge plus
+        # the Tracy-Widom median, from memory); check it against a direct simulation
+        # of the same random matrices at n = 80 (own simulation, 60 draws)
+        n = 80
+        rng = np.random.default_rng(5)
+        G = np.triu(rng.standard_normal((60, n, n)), 1)
+        lam = np.linalg.eigvalsh(1j * (G - np.swapaxes(G, 1, 2)))
+        sim = float(np.median(2 * lam[:, -1] ** 2 / (lam ** 2).sum(axis=1)))
+        assert wp.noise_fit_baseline(n) == pytest.approx(sim, rel=0.03)
+        # continuity where the simulation hands over to the formula
+        assert wp.noise_fit_baseline(64) == pytest.approx(wp.noise_fit_baseline(65), rel=0.03)
+
+    def test_noise_baseline_any_n_and_errors(self):
+        # bounded at any n: no (draws, n, n) array beyond 64 channels
+        for n in (65, 1500, 10 ** 6):
+            b = wp.noise_fit_baseline(n)
+            assert 0.0 < b < 8.0 / (n - 1)
+        with pytest.raises(ValueError, match="at least 2"):
+            wp.noise_fit_baseline(1)
+        with pytest.raises(TypeError, match="integer"):
+            wp.noise_fit_baseline(4.5)
+        with pytest.raises(ValueError, match="draws"):
+            wp.noise_fit_baseline(5, draws=0)
+
+    def test_noise_baseline_memory_is_bounded(self):
+        # 1500 channels: the baseline used to allocate (200, 1500, 1500) complex
+        # numbers (3.35 GiB) and fail with MemoryError (issue 13, item 11)
+        import tracemalloc
+        tracemalloc.start()
+        try:
+            for n in (1500, 5000):
+                wp.noise_fit_baseline(n)
+            peak = tracemalloc.get_traced_memory()[1]
+        finally:
+            tracemalloc.stop()
+        assert peak < 2 ** 20
 
 
 # --------------------------------------------------------------------------- significance
@@ -185,6 +341,101 @@ class TestSurrogates:
         assert capsys.readouterr().err == ""
 
 
+class TestSurrogateTiesAndShifts:
+    """Ties and the minimum shift of shift surrogates (issue 14, item 4)."""
+
+    def test_ties_with_the_data_count_as_extreme(self):
+        # Data of period 6 repeated 170 times: a relative shift d with d = 0 or
+        # d = 4 (mod 6) reproduces |A| exactly in exact arithmetic (closed form
+        # below), while other shifts give |A| far smaller.  So the Monte Carlo
+        # p-value (1 + #{|A*| >= |A|}) / (1 + B) counts exactly the surrogates
+        # with such a shift, a Binomial(B, f) number, f their share among the
+        # allowed shifts (the definition of the test; North, Curtis & Sham,
+        # Am. J. Hum. Genet. 71, 2002, from memory).  Before: recomputed ties
+        # fell below |A| by rounding about half the time, p ~ 0.17 for f = 1/3.
+        P, K, B = 6, 170, 1999
+        rng = np.random.default_rng(4)
+        base = rng.standard_normal(P) * 0.1 + rng.uniform(1, 3)
+        x = np.tile(base, K)
+        y = np.roll(x, 1) * 0.37
+        T = x.size
+        res = wp.surrogate_test(np.column_stack([x, y]), n_surrogates=B, seed=0, progress=False)
+        m = res.min_shift
+        # reference: |A(d)| for every relative shift d, by area_matrix of the
+        # shifted pair (a circular shift of one channel against the other)
+        A = np.array([wp.area_matrix(np.column_stack([x, np.roll(y, d)]))[0, 1]
+                      for d in range(P)])
+        tie = np.abs(np.abs(A) - abs(A[0])) < 1e-9 * abs(A[0])
+        assert tie.sum() == 2 and np.max(np.abs(A[~tie])) < 0.2 * abs(A[0])
+        allowed = [d for d in range(T) if min(d, T - d) >= m]
+        f = np.mean([tie[d % P] for d in allowed])
+        count = res.pvalues[0, 1] * (B + 1) - 1
+        assert abs(count - B * f) < 4.5 * np.sqrt(B * f * (1 - f))
+
+    def test_min_shift_option_and_errors(self):
+        X = np.random.default_rng(0).standard_normal((400, 3))
+        res = wp.surrogate_test(X, n_surrogates=20, seed=0, progress=False)
+        assert res.min_shift == int(wp.decorrelation_lag(X).max())
+        assert wp.surrogate_test(X, n_surrogates=20, seed=0, min_shift=100,
+                                 progress=False).min_shift == 100
+        assert wp.surrogate_test(X, method="phase", n_surrogates=20, seed=0,
+                                 progress=False).min_shift is None
+        with pytest.raises(ValueError, match=r"min_shift must be between 0 and .*\(100\)"):
+            wp.surrogate_test(X, min_shift=101)
+        with pytest.raises(ValueError, match="min_shift must be between"):
+            wp.surrogate_test(X, min_shift=-1)
+        with pytest.raises(TypeError, match="min_shift must be an integer"):
+            wp.surrogate_test(X, min_shift=2.5)
+        with pytest.raises(ValueError, match="'auto' or a number"):
+            wp.surrogate_test(X, min_shift="long")
+        with pytest.raises(ValueError, match="method='shift' only"):
+            wp.surrogate_test(X, method="phase", min_shift=5)
+
+    def test_min_shift_removes_the_small_shifts(self):
+        # a lead of 2 samples in a smooth broadband signal.  The relative shifts d
+        # for which |A(d)| >= |A(0)| (computed here for every d with area_matrix)
+        # are all short: with every shift allowed (min_shift=0) the p-value is
+        # floored at their share f0; with the default minimum shift none is drawn
+        d = broadband(520, seed=3)
+        rng = np.random.default_rng(3)
+        X = np.column_stack([d[2:514], d[:512]]) + 0.3 * rng.standard_normal((512, 2))
+        T, B = 512, 999
+        A = np.array([wp.area_matrix(np.column_stack([X[:, 0], np.roll(X[:, 1], k)]))[0, 1]
+                      for k in range(T)])
+        strong = np.flatnonzero(np.abs(A) >= abs(A[0]))
+        f0 = strong.size / T
+        every = wp.surrogate_test(X, n_surrogates=B, seed=1, min_shift=0, progress=False)
+        auto = wp.surrogate_test(X, n_surrogates=B, seed=1, progress=False)
+        assert f0 > 0.01
+        assert abs(every.pvalues[0, 1] * (B + 1) - 1 - B * f0) < 4.5 * np.sqrt(B * f0)
+        assert np.all(np.minimum(strong, T - strong) < auto.min_shift)
+        assert auto.pvalues[0, 1] == pytest.approx(1 / (B + 1))
+
+    def test_decorrelation_lag_follows_the_published_rule(self):
+        # Politis, J. Nonparametric Statistics 15 (2003) / Politis & White,
+        # Econometric Reviews 23 (2004): m_hat is the smallest m >= 0 such that
+        # |rho(m + k)| < 2 sqrt(log10(T) / T) for k = 1..K_T, K_T =
+        # max(5, sqrt(log10 T)); the lag returned is 2 max(m_hat, 1).  Here
+        # the sample autocorrelations are computed directly (dot products).
+        from scipy.signal import lfilter
+        rng = np.random.default_rng(9)
+        T = 3000
+        Z = np.column_stack([rng.standard_normal(T),
+                             lfilter([1.0], [1.0, -0.8], rng.standard_normal(T)),
+                             lfilter(np.ones(7) / 7, [1.0], rng.standard_normal(T))])
+        got = wp.decorrelation_lag(Z)
+        c = 2 * np.sqrt(np.log10(T) / T)
+        K = max(5, int(np.sqrt(np.log10(T))))
+        for col, lag in zip(Z.T, got):
+            z = col - col.mean()
+            rho = np.array([z[:T - h] @ z[h:] for h in range(80)]) / (z @ z)
+            mhat = next(m for m in range(80 - K) if np.all(np.abs(rho[m + 1:m + K + 1]) < c))
+            assert lag == 2 * max(mhat, 1)
+        assert got[0] == 2                      # white noise
+        # AR(1), phi = 0.8: rho(h) = 0.8^h falls below c = 0.077 at h = 12
+        assert 16 <= got[1] <= 34
+
+
 class TestBenjaminiHochberg:
     def test_by_hand(self):
         # Definition (Benjamini & Hochberg, J. R. Statist. Soc. B 57, 1995):
@@ -213,6 +464,7 @@ class TestBootstrap:
         T = 4000
         X = np.random.default_rng(7).standard_normal((T, 2))
         res = wp.bootstrap_area(X, block=20, n_boot=2000, seed=1, progress=False)
+        # the studentized interval is close to +-1.96 sd for i.i.d. terms
         assert res.std[0, 1] == pytest.approx(np.sqrt(T / 2), rel=0.1)
         assert res.low[0, 1] < res.estimate[0, 1] < res.high[0, 1]
 
@@ -231,12 +483,63 @@ class TestBootstrap:
 
     def test_errors(self):
         X = np.random.default_rng(0).standard_normal((50, 2))
-        with pytest.raises(ValueError, match="block must be between 1"):
-            wp.bootstrap_area(X, block=51)
+        with pytest.raises(ValueError, match=r"block must be between 2 and .*\(12\), got 13"):
+            wp.bootstrap_area(X, block=13)
+        with pytest.raises(ValueError, match="block must be between 2"):
+            wp.bootstrap_area(X, block=1)
+        with pytest.raises(ValueError, match="'auto' or a number"):
+            wp.bootstrap_area(X, block="long")
+        with pytest.raises(ValueError, match="at least 8 samples"):
+            wp.bootstrap_area(X[:7])
         with pytest.raises(ValueError, match="level"):
             wp.bootstrap_area(X, level=1.5)
         with pytest.raises(ValueError, match="n_boot"):
             wp.bootstrap_area(X, n_boot=1)
+
+    def test_intervals_mirror_and_block_rule(self):
+        X = np.random.default_rng(4).standard_normal((900, 3))
+        res = wp.bootstrap_area(X, n_boot=200, seed=0, progress=False)
+        np.testing.assert_array_equal(res.low, -res.high.T)     # A[j, i] = -A[i, j]
+        assert np.all(res.low <= res.estimate) and np.all(res.estimate <= res.high)
+        assert res.block == 60                                  # max(b_PW, 2 sqrt(900)) = 60
+
+    def test_politis_white_block_ar1_closed_form(self):
+        # Politis & White (Econometric Reviews 23, 2004; correction Patton, Politis &
+        # White, Econometric Reviews 28, 2009): b = (2 G^2 / D)^(1/3) T^(1/3), D =
+        # (4/3) g^2 for the circular bootstrap.  For AR(1), gamma(k) = s^2 phi^|k|,
+        # so G = sum |k| gamma(k) = 2 s^2 phi / (1 - phi)^2 and g = sum gamma(k) =
+        # s^2 (1 + phi) / (1 - phi) (geometric series), hence
+        # b = (6 phi^2 / (1 - phi^2)^2)^(1/3) T^(1/3) (derived here).  The
+        # estimate converges to it; at T = 2e5 within 15 % here.
+        from scipy.signal import lfilter
+        from wedgepath.signals.significance import politis_white_block
+        rng = np.random.default_rng(8)
+        T = 200_000
+        for phi in (0.5, 0.8):
+            u = lfilter([1.0], [1.0, -phi], rng.standard_normal(T))
+            want = (6 * phi ** 2 / (1 - phi ** 2) ** 2) ** (1 / 3) * T ** (1 / 3)
+            assert politis_white_block(u[:, None])[0] == pytest.approx(want, rel=0.15)
+
+    def test_merged_moments_are_stable(self):
+        # batches of values 1e9 + N(0, 1): the running variance must match numpy's
+        # two-pass np.var to about u * mean/sd = 1e-7 (the error of the running means;
+        # Chan, Golub & LeVeque, Am. Stat. 37, 1983), while the old s2/B - mean^2
+        # loses every digit here (the squares are 1e18, float64 keeps 16 digits)
+        from wedgepath.signals.significance import _merge_moments
+        rng = np.random.default_rng(2)
+        vals = 1e9 + rng.standard_normal((300, 2, 2))
+        use = rng.uniform(size=vals.shape) < 0.8
+        count = mean = m2 = np.zeros((2, 2))
+        for b0 in range(0, 300, 37):
+            count, mean, m2 = _merge_moments(count, mean, m2, vals[b0:b0 + 37], use[b0:b0 + 37])
+        for i in range(2):
+            for j in range(2):
+                x = vals[:, i, j][use[:, i, j]]
+                assert count[i, j] == x.size
+                assert mean[i, j] == pytest.approx(x.mean(), rel=1e-15)
+                assert m2[i, j] / (x.size - 1) == pytest.approx(np.var(x, ddof=1), rel=1e-6)
+                naive = (np.sum(x * x) / x.size - x.mean() ** 2) * x.size / (x.size - 1)
+                assert abs(naive / np.var(x, ddof=1) - 1) > 1e-3     # the old formula
 
 
 # --------------------------------------------------------------------------- cycles

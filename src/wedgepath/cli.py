@@ -38,7 +38,7 @@ import numpy as np
 from . import __version__
 from .io import TableError, read_table
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 
 __all__ = ["main", "build_parser", "CLIError"]
 
@@ -367,7 +367,7 @@ def _order_section(A, names, top):
     return {
         "cyclic_order": {
             "order": [names[i] for i in order.order],
-            "phases_rad": {names[i]: float(order.phases[i]) for i in range(n)},
+            "positions_rad": {names[i]: float(order.positions[i]) for i in range(n)},
             "fit": float(order.fit),
             "moduli": {names[i]: float(order.moduli[i]) for i in range(n)},
         },
@@ -448,25 +448,9 @@ def _longest_gap_free(values):
     return int(starts[k]), int(stops[k])
 
 
-def noise_fit_baseline(n, draws=200, seed=0):
-    """Median ``fit`` of cyclic_order for n independent white-noise channels.
-
-    For independent channels the area matrix is close to a skew-symmetric
-    matrix of independent Gaussian entries, so the baseline is simulated on
-    such matrices (seeded, so the summary is reproducible).
-    """
-    if n < 3:
-        return 1.0
-    rng = np.random.default_rng(seed)
-    G = rng.standard_normal((draws, n, n))
-    M = np.triu(G, 1)
-    M = M - np.swapaxes(M, 1, 2)
-    lam = np.linalg.eigvalsh(1j * M)  # eigenvalues +-lambda_k of the Hermitian i*M
-    top = lam[:, -1] ** 2
-    return float(np.median(2 * top / (lam ** 2).sum(axis=1)))
-
-
 def leadlag_summary(rep):
+    from .signals.order import noise_fit_baseline
+
     names = rep["channels"]
     what = "lead strength (" + rep["normalize"] + ")" if rep["normalize"] else "area matrix"
     lines = [f"{len(names)} channels, {rep['samples']} samples, closure={rep['closure']}",
@@ -480,8 +464,9 @@ def leadlag_summary(rep):
     else:
         lines.append("\ncyclic order (each leads the next): " + " -> ".join(co["order"])
                      + f" -> {co['order'][0]}")
-        lines.append("phases behind " + co["order"][0] + " (deg): " + ", ".join(
-            f"{nm} {math.degrees(co['phases_rad'][nm]):.0f}" for nm in co["order"]))
+        lines.append("positions in the cycle after " + co["order"][0] + " (deg; not delays): "
+                     + ", ".join(f"{nm} {math.degrees(co['positions_rad'][nm]):.0f}"
+                                 for nm in co["order"]))
         fit = co["fit"]
         base = noise_fit_baseline(len(names))
         verdict = ("well above" if fit >= base + 0.5 * (1 - base) else

@@ -348,7 +348,7 @@ def leadlag_figures(report, units=None) -> dict:
     out = {}
     ax = lead_heatmap(A, names, order, title="Lead matrix, channels in cyclic order", label=label)
     out["lead_matrix.png"] = _png(ax.figure)
-    ph = np.array([report["cyclic_order"]["phases_rad"][nm] for nm in names])
+    ph = np.array([report["cyclic_order"]["positions_rad"][nm] for nm in names])
     mod = np.array([report["cyclic_order"]["moduli"][nm] for nm in names])
     ax = phase_circle(ph, names, mod, order,
                       title=f"Phase of each channel (fit {report['cyclic_order']['fit']:.2f})")

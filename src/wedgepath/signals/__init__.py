@@ -13,10 +13,11 @@ from ._kernel import ConstantChannelWarning
 from .align import align
 from .areas import NORMALIZATIONS, AreaMatrix, area_matrix, hilbert_energy
 from .cycles import CycleAreas, cycle_areas
-from .order import CyclicOrder, cyclic_order
+from .order import CyclicOrder, cyclic_order, noise_fit_baseline
 from .rolling import RollingAreas, rolling_area_matrix
 from .significance import (SURROGATE_METHODS, BootstrapResult, SurrogateResult,
-                           benjamini_hochberg, bootstrap_area, surrogate_test)
+                           SurrogateWarning, benjamini_hochberg, bootstrap_area, decorrelation_lag,
+                           surrogate_test)
 from .streaming import AreaAccumulator
 
 __all__ = [
@@ -24,12 +25,12 @@ __all__ = [
     "area_matrix", "AreaMatrix", "NORMALIZATIONS", "hilbert_energy", "ConstantChannelWarning",
     "align",
     # structure
-    "cyclic_order", "CyclicOrder",
+    "cyclic_order", "CyclicOrder", "noise_fit_baseline",
     # over time
     "rolling_area_matrix", "RollingAreas", "AreaAccumulator",
     # significance
     "surrogate_test", "SurrogateResult", "SURROGATE_METHODS", "bootstrap_area",
-    "BootstrapResult", "benjamini_hochberg",
+    "BootstrapResult", "benjamini_hochberg", "decorrelation_lag", "SurrogateWarning",
     # per-cycle loops
     "cycle_areas", "CycleAreas",
 ]

@@ -1,15 +1,29 @@
-"""Cyclic order of channels from the leading eigenvector of the area matrix."""
+"""Cyclic order of channels from the leading eigenvector of the area matrix.
+
+What the area matrix can say about the channels' timing is limited: it fixes
+the plane of the leading cycle and its orientation, but only up to an
+area-preserving linear map of that plane.  The *cyclic order* of the channels
+survives every such map; their angles in the plane (``positions``) do not, so
+they are positions in the cycle, not delays (see ``docs/theory.md``, section
+"Cyclic order").
+"""
 
 from __future__ import annotations
 
 import numpy as np
 
-from .._validation import as_float_array
+from .._validation import as_float_array, as_int
 from .areas import AreaMatrix
 
-__all__ = ["cyclic_order", "CyclicOrder"]
+__all__ = ["cyclic_order", "CyclicOrder", "noise_fit_baseline"]
 
 _TWO_PI = 2.0 * np.pi
+#: up to this many channels every eigenvalue is computed (dense Hermitian
+#: solver); beyond it only the leading one, by Lanczos iteration
+DENSE_MAX = 256
+#: number of leading eigenvalues computed beyond DENSE_MAX (each further one is
+#: costly: it lies in the bulk of the spectrum, where Lanczos converges slowly)
+N_LEADING = 1
 
 
 class CyclicOrder:
@@ -19,30 +33,42 @@ class CyclicOrder:
     ----------
     order : ndarray of int
         Channel indices listed so that each leads the next, cyclically (the
-        last leads the first).  Starts at the reference channel.
-    phases : ndarray of float, shape (n,)
-        Each channel's phase delay in radians behind the reference channel,
-        in [0, 2 pi), indexed by channel (``phases[order]`` is increasing).
+        last leads the first).  Starts at the reference channel.  This is
+        what the area matrix identifies.
+    positions : ndarray of float, shape (n,)
+        Each channel's position in the cycle, in radians in [0, 2 pi),
+        measured from the reference channel and indexed by channel
+        (``positions[order]`` is increasing).  Positions are *not* delays:
+        the area matrix fixes the plane of the cycle only up to an
+        area-preserving linear map, which keeps the order of the positions
+        but not their spacing (noise-free sines delayed by 0, 0.3 and 0.6 rad
+        get positions 0, 0.894 and 1.788).  They equal the delays only in
+        special cases (e.g. equal amplitudes, delays evenly spaced round the
+        whole cycle).
     fit : float
         Share of ``||A||_F^2`` explained by the leading eigenvalue pair, in
-        (0, 1].  Near 1: one cycle explains the lead-lag pattern; small: the
-        order is not meaningful.
+        (0, 1].  Always 1 for two and for three channels (every skew-symmetric
+        matrix of size 2 or 3 has rank 2); for more channels, near 1 means one
+        cycle explains the lead-lag pattern.  Compare it with
+        :func:`noise_fit_baseline`.
     moduli : ndarray of float, shape (n,)
         ``|v_k|`` of the leading eigenvector, scaled so the largest is 1:
-        how strongly each channel takes part in the cycle.  Phases of
+        how strongly each channel takes part in the cycle.  Positions of
         channels with small moduli are unreliable.
     eigenvalues : ndarray of float
         The ``lambda_k >= 0`` of the eigenvalue pairs ``+- i lambda_k`` of A,
-        in decreasing order (``floor(n/2)`` of them).
+        in decreasing order: all ``floor(n/2)`` of them for up to
+        ``DENSE_MAX`` (256) channels; beyond, only the leading one
+        (``N_LEADING``), which is all that ``.fit`` needs.
     names : tuple of str or None
         Channel names when A carried them.
     """
 
-    __slots__ = ("order", "phases", "fit", "moduli", "eigenvalues", "names")
+    __slots__ = ("order", "positions", "fit", "moduli", "eigenvalues", "names")
 
-    def __init__(self, order, phases, fit, moduli, eigenvalues, names):
+    def __init__(self, order, positions, fit, moduli, eigenvalues, names):
         self.order = order
-        self.phases = phases
+        self.positions = positions
         self.fit = fit
         self.moduli = moduli
         self.eigenvalues = eigenvalues
@@ -58,6 +84,109 @@ class CyclicOrder:
         return f"CyclicOrder(order={who}, fit={self.fit:.3f})"
 
 
+def _leading_pair(M):
+    """Leading eigenvector ``v`` (``M v = i lambda_1 v``), the leading lambdas, of skew M.
+
+    Small matrices: the dense Hermitian solver on ``iM`` (all eigenvalues).
+    Large ones: ``S = M^T M = -M^2`` is symmetric positive semi-definite with
+    every ``lambda_k^2`` twice; Lanczos iteration (ARPACK, through
+    :func:`scipy.sparse.linalg.eigsh`) on the operator ``x -> M^T (M x)``
+    (two matrix-vector products, ``S`` is never formed) finds the leading
+    ones.  A unit vector ``e1`` of the leading eigenspace of S and
+    ``e2 = -M e1 / lambda_1`` give ``M (e1 + i e2) = i lambda_1 (e1 + i e2)``.
+    """
+    n = M.shape[0]
+    if n <= DENSE_MAX:
+        w, V = np.linalg.eigh(1j * M)        # iM v = -lambda v  <=>  M v = i lambda v
+        lam = np.sort(np.abs(w))[::-1][::2][: n // 2]
+        return V[:, 0], lam, float(w[0] ** 2)
+    from scipy.sparse.linalg import ArpackNoConvergence, LinearOperator, eigsh
+
+    k = 2 * min(N_LEADING, n // 2)
+    op = LinearOperator((n, n), matvec=lambda x: M.T @ (M @ x), dtype=np.float64)
+    v0 = np.random.default_rng(0).standard_normal(n)   # fixed start: reproducible
+    try:
+        w, E = eigsh(op, k=k, which="LA", v0=v0)
+    except ArpackNoConvergence:                         # rare: fall back to a dense solver
+        import scipy.linalg
+
+        w, E = scipy.linalg.eigh(M.T @ M, subset_by_index=[n - k, n - 1])
+    idx = np.argsort(w)[::-1]
+    w, E = np.maximum(w[idx], 0.0), E[:, idx]
+    lam1 = float(np.sqrt(w[0]))
+    e1 = E[:, 0]
+    e2 = -(M @ e1) / lam1
+    return e1 + 1j * e2, np.sqrt(w[::2]), lam1 * lam1
+
+
+def noise_fit_baseline(n, *, draws=200, seed=0) -> float:
+    """Typical ``fit`` of :func:`cyclic_order` for n channels without a common cycle.
+
+    The median fit of skew-symmetric matrices with independent standard
+    normal entries above the diagonal, the area matrix of independent,
+    identically distributed channels in the large-sample limit.  Bounded in
+    time and memory at any n:
+
+    * n <= 3: 1.0 exactly (every skew-symmetric matrix of size 2 or 3 has
+      rank 2, so the fit is always 1: the fit says nothing for n <= 3);
+    * 4 <= n <= 64: the median over ``draws`` seeded simulated matrices,
+      computed in batches (at most ``draws * 64**2`` numbers at once);
+    * n > 64: the large-n approximation ``2 lambda_1^2 / ||A||_F^2`` with
+      ``||A||_F^2 = n (n - 1)`` and ``lambda_1 = 2 sqrt(n) - 1.80 n^(-1/6)``
+      (the edge of the semicircle law plus the median of its Tracy-Widom
+      (beta = 2) fluctuation, -1.80 from memory; checked against simulation
+      within 2 % for n = 48 to 256 in ``tests/test_signals_stats.py``).
+
+    A data set's fit well above this value suggests a common cycle.  The
+    baseline assumes independent, identically distributed area entries; it
+    is not calibrated for channels of very different scales or strong
+    autocorrelation.
+
+    Parameters
+    ----------
+    n : int
+        Number of channels (>= 2).
+    draws : int
+        Simulated matrices (4 <= n <= 64).
+    seed : int
+        Seed of the simulation (the baseline is reproducible).
+
+    Returns
+    -------
+    float
+
+    Examples
+    --------
+    >>> from wedgepath.signals import noise_fit_baseline
+    >>> noise_fit_baseline(3)
+    1.0
+    >>> round(noise_fit_baseline(16), 2), round(noise_fit_baseline(1000), 4)
+    (0.37, 0.0079)
+    """
+    n = as_int(n, "n")
+    draws = as_int(draws, "draws")
+    if n < 2:
+        raise ValueError(f"n must be at least 2 channels, got {n}")
+    if draws < 1:
+        raise ValueError(f"draws must be at least 1, got {draws}")
+    if n <= 3:
+        return 1.0
+    if n > 64:
+        lam1 = 2.0 * np.sqrt(n) - 1.80 * n ** (-1.0 / 6.0)
+        return float(2.0 * lam1 * lam1 / (n * (n - 1.0)))
+    rng = np.random.default_rng(seed)
+    fits = np.empty(draws)
+    batch = 50
+    for b0 in range(0, draws, batch):
+        b1 = min(draws, b0 + batch)
+        G = rng.standard_normal((b1 - b0, n, n))
+        M = np.triu(G, 1)
+        M = M - np.swapaxes(M, 1, 2)
+        lam = np.linalg.eigvalsh(1j * M)  # eigenvalues +-lambda_k of the Hermitian i*M
+        fits[b0:b1] = 2 * lam[:, -1] ** 2 / (lam ** 2).sum(axis=1)
+    return float(np.median(fits))
+
+
 def cyclic_order(A, *, start=None) -> CyclicOrder:
     """Order channels around the cycle that best explains a skew-symmetric lead matrix.
 
@@ -65,10 +194,18 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
     multivariate time series and applications to functional MRI data",
     IEEE CDC 2016) takes every channel to follow one periodic motion with its
     own delay, ``x_k(t) = a_k f(t - alpha_k)``.  Its area matrix is then close
-    to ``A[i, j] = c a_i a_j sin(alpha_j - alpha_i)``, of rank 2, whose
-    eigenvector for the eigenvalue ``+i lambda`` (lambda > 0, the largest)
-    is ``v_k ~ a_k exp(i alpha_k)``.  The arguments of ``v`` recover the
-    delays; sorting them gives the order in which the channels move.
+    to ``A[i, j] = c a_i a_j sin(alpha_j - alpha_i)``, of rank 2, and the
+    eigenvector ``v`` for the eigenvalue ``+i lambda`` (lambda > 0, the
+    largest) spans the plane of the cycle.  Sorting the arguments of ``v``
+    gives the order in which the channels move.
+
+    What this can and cannot say: ``A`` determines that plane and its
+    orientation, but only up to an area-preserving linear map of it (any
+    two curves whose coordinates differ by such a map have the same area
+    matrix).  Such a map keeps the cyclic order of the channels, so
+    ``.order`` is identified; it changes the angles, so ``.positions`` are
+    positions in the cycle, not delays (delays in time units need another
+    method).
 
     Parameters
     ----------
@@ -76,26 +213,37 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
         Skew-symmetric lead matrix, e.g. from :func:`area_matrix` (any
         normalisation: the order does not depend on it, the fit hardly).
     start : int or str, optional
-        Channel to start the order at (phase 0).  Default: the channel taking
-        part most strongly (largest modulus).
+        Channel to start the order at (position 0).  Default: the channel
+        taking part most strongly (largest modulus).
 
     Returns
     -------
     CyclicOrder
-        ``.order``, ``.phases``, ``.fit``, ``.moduli``, ``.eigenvalues``.
+        ``.order``, ``.positions``, ``.fit``, ``.moduli``, ``.eigenvalues``.
 
     Notes
     -----
     ``fit`` is the squared-Frobenius share of the leading pair,
-    ``lambda_1^2 / sum_k lambda_k^2``.  With two channels it is always 1 and
-    the phases are 0 and pi/2 whatever the true lag (the sign of ``A[0, 1]``
-    is all the information there is).  Near-equal leading eigenvalues mean
-    two cycles compete and the order is not stable.
+    ``lambda_1^2 / sum_k lambda_k^2``.  It is always 1 for n = 2 and n = 3
+    (a skew-symmetric matrix of size 2 or 3 has rank 2), so it carries no
+    information there.  With two channels the positions are 0 and pi/2
+    whatever the true lag (the sign of ``A[0, 1]`` is all the information
+    there is).  Near-equal leading eigenvalues mean two cycles compete and
+    the order is not stable.
+
+    Cost: up to ``DENSE_MAX`` (256) channels, a dense Hermitian eigensolver
+    (all eigenvalues); beyond, only the leading eigenvalue pair, by Lanczos
+    iteration on ``A^T A`` (matrix-vector products only: ``O(n^2)`` per
+    iteration, no ``O(n^3)`` reduction), and ``||A||_F``.  Lanczos converges
+    fast when one cycle stands out and slowly for patternless (noise-like)
+    matrices, whose leading eigenvalues crowd together.
+    ``benchmarks/bench_signals.py`` compares it with a full eigensolver.
 
     Examples
     --------
     Three sinusoids, each a third of a cycle behind the previous one,
-    given in scrambled column order:
+    given in scrambled column order (evenly spaced, equal amplitudes: here
+    the positions do equal the delays):
 
     >>> import numpy as np
     >>> import wedgepath as wp
@@ -104,10 +252,18 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
     >>> res = wp.cyclic_order(wp.area_matrix(X), start=1)
     >>> res.order.tolist()
     [1, 0, 2]
-    >>> np.round(np.degrees(res.phases), 6).tolist()
+    >>> np.round(np.degrees(res.positions), 6).tolist()
     [120.0, 0.0, 240.0]
     >>> round(res.fit, 12)
     1.0
+
+    Delays of 0, 0.3 and 0.6 rad: the order is right, the spacing is not
+    that of the delays:
+
+    >>> X = np.column_stack([np.sin(t), np.sin(t - 0.3), np.sin(t - 0.6)])
+    >>> res = wp.cyclic_order(wp.area_matrix(X), start=0)
+    >>> res.order.tolist(), np.round(res.positions, 3).tolist()
+    ([0, 1, 2], [0.0, 0.894, 1.788])
     """
     names = None
     if isinstance(A, AreaMatrix):
@@ -136,15 +292,13 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
         raise ValueError(f"A is not skew-symmetric (max |A + A^T| = {asym * scale:.3g}, "
                          f"max |A| = {scale:.3g})")
     M = 0.5 * (M - M.T)
-    # iA is Hermitian; A v = i lambda v  <=>  (iA) v = -lambda v
-    w, V = np.linalg.eigh(1j * M)
+    v, lam, top = _leading_pair(M)
     with np.errstate(over="ignore"):
-        lam = np.sort(np.abs(w))[::-1][::2][: n // 2] * scale
+        lam = lam * scale
     if not np.isfinite(lam).all():
         raise ValueError("cyclic_order: the eigenvalues of A overflow float64; rescale A")
-    v = V[:, 0]
     total = float(np.sum(M * M))
-    fit = float(2.0 * w[0] ** 2 / total)
+    fit = float(2.0 * top / total)
     mod = np.abs(v)
     mod = mod / mod.max()
     if start is None:
@@ -163,10 +317,10 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
             raise ValueError(f"start={ref} is out of range for {n} channels")
         ref %= n
     ang = np.angle(v)
-    phases = np.mod(ang - ang[ref], _TWO_PI)
-    phases[ref] = 0.0
-    # sort by phase, starting at the reference channel
-    order = np.argsort(phases, kind="stable")
-    if order[0] != ref:  # ties at phase 0: put the reference first
+    positions = np.mod(ang - ang[ref], _TWO_PI)
+    positions[ref] = 0.0
+    # sort by position, starting at the reference channel
+    order = np.argsort(positions, kind="stable")
+    if order[0] != ref:  # ties at position 0: put the reference first
         order = np.concatenate(([ref], order[order != ref]))
-    return CyclicOrder(order.astype(np.intp), phases, min(fit, 1.0), mod, lam, names)
+    return CyclicOrder(order.astype(np.intp), positions, min(fit, 1.0), mod, lam, names)
