@@ -307,6 +307,19 @@ row("wp.Form.from_sympy(components, symbols)", "length", "2 components, 1 symbol
     lambda: wp.Form.from_sympy([x_, y_], (x_,)), ValueError, "2 components for 1 symbols")
 row("wp.Form.from_sympy(components, symbols)", "option", "terms of mixed degree",
     lambda: wp.Form.from_sympy({(0,): x_, (0, 1): y_}, (x_, y_)), ValueError, "mixed degree")
+row("wp.Form.from_sympy(components, symbols)", "text", "a string of Python code (parsed, never run)",
+    lambda: wp.Form.from_sympy(["__import__('os').getcwd()", x_], (x_, y_)), ValueError,
+    "only plain function names may be called")
+row("wp.Form.from_sympy(components, symbols)", "text", "a formula string naming an unknown symbol",
+    lambda: wp.Form.from_sympy("z * x", (x_, y_)), ValueError, "unknown name 'z'")
+row("wp.Form.from_sympy(components, symbols)", "object", "bytes as a component",
+    lambda: wp.Form.from_sympy([b"x", 0], (x_, y_)), TypeError, "pass sympy expressions")
+row("wp.TwoForm.from_sympy(components, symbols)", "text", "a string of Python code (parsed, never run)",
+    lambda: wp.TwoForm.from_sympy({(0, 1): "exec('1')"}, (x_, y_)), ValueError,
+    "unknown function 'exec'")
+row("wp.OneForm.from_sympy(exprs, symbols)", "text", "a string of Python code (parsed, never run)",
+    lambda: wp.OneForm.from_sympy(["x.__class__", x_], (x_, y_)), ValueError,
+    "Attribute is not allowed")
 row("Form + Form", "dim", "a 1-form plus a 2-form", lambda: wp.dx(0) + (wp.dx(0) ^ wp.dx(1)),
     ValueError, "a 1-form and a 2-form")
 row("Form + Form", "dim", "forms on R^2 and R^3", lambda: wp.OneForm([1, 2]) + wp.OneForm([1, 2, 3]),
