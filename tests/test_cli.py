@@ -190,9 +190,15 @@ class TestBadInput:
 
 def test_python_dash_m_and_demo(tmp_path):
     out = tmp_path / "demo"
+    out.mkdir()
+    # a file of the user's that shares a name with a figure the demo can draw: --force
+    # replaces only what this run writes (--no-figures: no loop.png), so it stays (issue 13)
+    (out / "loop.png").write_bytes(b"the user's own picture")
     proc = subprocess.run([sys.executable, "-m", "wedgepath", "demo", "--out", str(out),
-                           "--quiet", "--no-figures"], capture_output=True, text=True, timeout=600)
+                           "--quiet", "--no-figures", "--force"], capture_output=True, text=True,
+                          timeout=600)
     assert proc.returncode == 0, proc.stdout + proc.stderr
+    assert (out / "loop.png").read_bytes() == b"the user's own picture"
     assert "cyclic order recovered" in proc.stdout
     assert "all checks passed" in proc.stdout
     rep = json.loads((out / "loop.json").read_text())
@@ -208,8 +214,8 @@ def test_bundled_demo_data_regenerates_identically(tmp_path):
 
 
 class TestOutputFolder:
-    def test_force_removes_what_the_new_run_does_not_write(self, three_signals, tmp_path,
-                                                           capsys):
+    def test_force_replaces_only_what_the_new_run_writes(self, three_signals, tmp_path,
+                                                         capsys):
         f, _, _ = three_signals
         out = tmp_path / "o"
         code, _, err = run(["leadlag", f, "--time", "t", "--window", 100, "--surrogates", 9,
@@ -220,9 +226,13 @@ class TestOutputFolder:
         code, _, err = run(["leadlag", f, "--time", "t", "--out", out, "--no-figures",
                             "--force"], capsys)
         assert code == 0, err
-        # the stale window and significance tables are gone; files not ours are kept
-        assert sorted(p.name for p in out.iterdir()) == ["area_matrix.csv", "notes.txt",
-                                                         "result.json"]
+        # nothing is removed: the earlier run's tables stay, and the manifest says which
+        # files belong to this run (issue 13: --force once deleted files it did not write)
+        assert sorted(p.name for p in out.iterdir()) == [
+            "area_matrix.csv", "manifest.json", "notes.txt", "pvalues.csv", "qvalues.csv",
+            "result.json", "rolling.csv"]
+        listed = [e["name"] for e in json.loads((out / "manifest.json").read_text())["files"]]
+        assert listed == ["result.json", "area_matrix.csv"]
 
     def test_files_get_the_mode_of_an_ordinary_new_file(self, three_signals, tmp_path, capsys):
         import os

@@ -16,10 +16,14 @@ Subcommands:
 
 Every subcommand prints a summary for people on standard output; with
 ``--out DIR`` it also writes ``result.json`` (with a schema version) and CSV
-tables for programs, and figures when matplotlib is installed.  Errors in the
-input are reported in one line on standard error with exit code 2
-(``--debug`` shows the traceback).  Existing files are never overwritten
-without ``--force``.
+tables for programs, figures when matplotlib is installed, and
+``manifest.json`` (every file of the run with its size and SHA-256, written
+last).  Errors in the input are reported in one line on standard error with
+exit code 2 (``--debug`` shows the traceback).  The files a run will write
+are known before it computes anything and checked then: an existing file of
+one of those names is replaced only with ``--force``, no other file is ever
+removed, and an output that is the input itself is refused
+(:mod:`wedgepath._outputs`).
 """
 
 from __future__ import annotations
@@ -28,13 +32,14 @@ import argparse
 import json
 import math
 import os
+import signal
 import sys
-import tempfile
 import warnings
 
 import numpy as np
 
 from . import __version__
+from ._outputs import Interrupted, OutputSet, csv_text
 from .io import TableError, read_table
 
 SCHEMA_VERSION = 1
@@ -52,77 +57,21 @@ class _Parser(argparse.ArgumentParser):
 
 
 # --------------------------------------------------------------------------- output
-class Output:
-    """Collects files and writes them at the end, all or nothing.
-
-    ``family`` lists every file name the command can write; with ``--force``
-    the members of the family that this run does not write are removed, so a
-    folder never mixes the results of two runs.
-    """
-
-    def __init__(self, folder, force, family=()):
-        self.folder = folder
-        self.force = force
-        self.family = tuple(family)
-        self.files = {}
-
-    def add(self, name, data):
-        self.files[name] = data if isinstance(data, bytes) else data.encode("utf-8")
-
-    def check_free(self, names):
-        """Refuse early when planned outputs exist and --force is not given."""
-        if self.folder is None or self.force:
-            return
-        taken = [n for n in names if os.path.exists(os.path.join(self.folder, n))]
-        if taken:
-            raise CLIError(f"{os.path.join(self.folder, taken[0])} exists; use --force to overwrite")
-
-    def write(self):
-        if self.folder is None or not self.files:
-            return []
-        self.check_free(list(self.files) + [n for n in self.family if n not in self.files])
-        if os.path.exists(self.folder) and not os.path.isdir(self.folder):
-            raise CLIError(f"{self.folder} exists and is not a folder")
-        mode = _file_mode()
-        try:
-            os.makedirs(self.folder, exist_ok=True)
-            staged = []
-            for name, data in self.files.items():
-                fd, tmp = tempfile.mkstemp(prefix=".wedgepath-", dir=self.folder)
-                staged.append((tmp, os.path.join(self.folder, name)))
-                with os.fdopen(fd, "wb") as fh:
-                    fh.write(data)
-                os.chmod(tmp, mode)      # mkstemp makes 0600; results are ordinary files
-        except OSError as exc:
-            for tmp, _ in locals().get("staged", []):
-                _silent_remove(tmp)
-            raise CLIError(f"cannot write to {self.folder}: {exc.strerror}") from None
-        for tmp, final in staged:
-            os.replace(tmp, final)
-        for name in self.family:         # only reached with --force (check_free above)
-            if name not in self.files:
-                _silent_remove(os.path.join(self.folder, name))
-        return [final for _, final in staged]
+def leadlag_files(*, window=False, surrogates=False, figures=False):
+    """The files ``leadlag`` writes with these options (``manifest.json`` comes on top)."""
+    names = ["result.json", "area_matrix.csv"]
+    if window:
+        names.append("rolling.csv")
+    if surrogates:
+        names += ["pvalues.csv", "qvalues.csv"]
+    if figures:
+        names += ["lead_matrix.png", "phases.png"] + (["rolling_lead.png"] if window else [])
+    return names
 
 
-def _file_mode():
-    """0666 less the process umask: the mode ``open()`` would give a new file."""
-    mask = os.umask(0)
-    os.umask(mask)
-    return 0o666 & ~mask
-
-
-def _silent_remove(path):
-    try:
-        os.remove(path)
-    except OSError:
-        pass
-
-
-#: every file each command can write (with --force, those a run does not write are removed)
-LEADLAG_FILES = ("result.json", "area_matrix.csv", "rolling.csv", "pvalues.csv", "qvalues.csv",
-                 "lead_matrix.png", "phases.png", "rolling_lead.png")
-LOOP_FILES = ("result.json", "cycles.csv", "loop.png", "cycles.png")
+def loop_files(*, figures=False):
+    """The files ``loop`` writes (``manifest.json`` comes on top)."""
+    return ["result.json", "cycles.csv"] + (["loop.png", "cycles.png"] if figures else [])
 
 
 def leadlag_tables(rep):
@@ -140,21 +89,16 @@ def leadlag_tables(rep):
 def loop_tables(rep):
     """CSV files (name -> text) of a loop report."""
     c = rep["cycles"]
-    return {"cycles.csv": "cycle,start,stop,value\n" + "".join(
-        f"{k + 1},{_num(a)},{_num(b)},{_num(v)}\n"
-        for k, (a, b, v) in enumerate(zip(c["start"], c["stop"], c["values"])))}
+    rows = [["cycle", "start", "stop", "value"]]
+    rows += [[k + 1, a, b, v] for k, (a, b, v) in enumerate(zip(c["start"], c["stop"],
+                                                                 c["values"]))]
+    return {"cycles.csv": csv_text(rows)}
 
 
 def _matrix_csv(M, names):
-    lines = ["channel," + ",".join(names)]
-    for name, row in zip(names, M):
-        lines.append(name + "," + ",".join(_num(v) for v in row))
-    return "\n".join(lines) + "\n"
-
-
-def _num(v):
-    v = float(v)
-    return "nan" if math.isnan(v) else repr(v)
+    rows = [["channel", *names]]
+    rows += [[name, *(float(v) for v in row)] for name, row in zip(names, M)]
+    return csv_text(rows)
 
 
 def _jsonable(obj):
@@ -324,9 +268,17 @@ def _want_figures(args):
     return True
 
 
-def _emit(args, payload, summary_lines, out: Output):
-    out.add("result.json", _dump_json(payload))
-    written = out.write()
+def _plan(args, names, command):
+    """The run's output files, checked against the folder before any work is done."""
+    plan = OutputSet(args.out, names, force=args.force, inputs=[args.table], command=command)
+    plan.check()
+    return plan
+
+
+def _emit(args, payload, summary_lines, plan: OutputSet, files):
+    files = dict(files)
+    files["result.json"] = _dump_json(payload)
+    written = plan.commit(files)
     if args.json:
         sys.stdout.write(_dump_json(payload))
     else:
@@ -507,17 +459,21 @@ def leadlag_summary(rep):
 
 
 def _cmd_leadlag(args):
-    out = Output(args.out, args.force, LEADLAG_FILES)
-    planned = ["result.json", "area_matrix.csv"]
-    if args.window:
-        planned.append("rolling.csv")
-    if args.surrogates:
-        planned += ["pvalues.csv", "qvalues.csv"]
-    out.check_free(planned)
     if args.step is not None and args.window is None:
         raise CLIError("--step needs --window")
     if args.stream:
-        return _cmd_leadlag_stream(args, out)
+        clash = [flag for flag, val in (("--window", args.window),
+                                         ("--surrogates", args.surrogates),
+                                         ("--normalize", args.normalize)) if val]
+        if clash:
+            raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
+        if args.closure != "chord":
+            raise CLIError("--stream supports --closure chord only")
+    figures = _want_figures(args)
+    plan = _plan(args, leadlag_files(window=bool(args.window), surrogates=bool(args.surrogates),
+                                     figures=figures), "leadlag")
+    if args.stream:
+        return _cmd_leadlag_stream(args, plan, figures)
     tab = _load(args, args.columns)
     _check_units(args, tab.names + ([args.time] if args.time else []))
     rep = leadlag_report(tab.values, tab.times, tab.names, closure=args.closure,
@@ -526,13 +482,11 @@ def _cmd_leadlag(args):
                          seed=args.seed, top=args.top, progress=_progress_flag(args))
     rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
     rep["units"] = dict(args.units)
-    for name, text in leadlag_tables(rep).items():
-        out.add(name, text)
-    if _want_figures(args):
+    files = leadlag_tables(rep)
+    if figures:
         from . import plotting
-        for name, png in plotting.leadlag_figures(rep, units=args.units).items():
-            out.add(name, png)
-    return _emit(args, rep, leadlag_summary(rep), out)
+        files.update(plotting.leadlag_figures(rep, units=args.units))
+    return _emit(args, rep, leadlag_summary(rep), plan, files)
 
 
 def _estimated_rows(path):
@@ -549,16 +503,10 @@ def _estimated_rows(path):
     return max(1, int(size / (len(head) / lines)))
 
 
-def _cmd_leadlag_stream(args, out):
+def _cmd_leadlag_stream(args, plan, figures):
     from ._progress import Progress
     from .io import stream_area_matrix
 
-    clash = [flag for flag, val in (("--window", args.window), ("--surrogates", args.surrogates),
-                                     ("--normalize", args.normalize)) if val]
-    if clash:
-        raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
-    if args.closure != "chord":
-        raise CLIError("--stream supports --closure chord only")
     total = _estimated_rows(args.table) or 1
     with Progress(total, "rows read (estimate)", enabled=False if args.quiet else None) as bar:
         last = [0]
@@ -582,24 +530,20 @@ def _cmd_leadlag_stream(args, out):
     }
     _check_units(args, names + ([args.time] if args.time else []))
     rep["units"] = dict(args.units)
-    for name, text in leadlag_tables(rep).items():
-        out.add(name, text)
-    if _want_figures(args):
+    files = leadlag_tables(rep)
+    if figures:
         from . import plotting
-        for name, png in plotting.leadlag_figures(rep, units=args.units).items():
-            out.add(name, png)
-    return _emit(args, rep, leadlag_summary(rep), out)
+        files.update(plotting.leadlag_figures(rep, units=args.units))
+    return _emit(args, rep, leadlag_summary(rep), plan, files)
 
 
 def _rolling_csv(r, names):
     pairs = [(i, j) for i in range(len(names)) for j in range(len(names)) if i < j]
-    head = "start_time,end_time," + ",".join(f"{names[i]}|{names[j]}" for i, j in pairs)
-    lines = [head]
+    rows = [["start_time", "end_time", *(f"{names[i]}|{names[j]}" for i, j in pairs)]]
     areas = np.asarray(r["areas"])
     for k in range(areas.shape[0]):
-        vals = ",".join(_num(areas[k, i, j]) for i, j in pairs)
-        lines.append(f"{_num(r['start_time'][k])},{_num(r['end_time'][k])},{vals}")
-    return "\n".join(lines) + "\n"
+        rows.append([r["start_time"][k], r["end_time"][k], *(areas[k, i, j] for i, j in pairs)])
+    return csv_text(rows)
 
 
 # --------------------------------------------------------------------------- loop
@@ -720,11 +664,11 @@ def loop_summary(rep):
 def _cmd_loop(args):
     from ._progress import Stages
 
-    out = Output(args.out, args.force, LOOP_FILES)
-    out.check_free(["result.json", "cycles.csv"])
     cols = [args.x, args.y]
     if args.x == args.y:
         raise CLIError("--x and --y name the same column")
+    figures = _want_figures(args)
+    plan = _plan(args, loop_files(figures=figures), "loop")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
     tab = _load(args, cols + ([extra] if extra else []))
     _check_units(args, tab.names + ([args.time] if args.time else []))
@@ -735,7 +679,6 @@ def _cmd_loop(args):
         reference = tab.values[:, 2]
     else:
         reference = None
-    figures = _want_figures(args)
     steps = ["areas and faces", "moments and cycles"] + (["weight"] if args.weight else []) \
         + (["figures"] if figures else [])
     # shown for long inputs only (decomposing a noisy loop of 10^4+ samples takes a while)
@@ -746,15 +689,13 @@ def _cmd_loop(args):
                           stages=stages)
         rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
         rep["units"] = dict(args.units)
-        for name, text in loop_tables(rep).items():
-            out.add(name, text)
+        files = loop_tables(rep)
         if figures:
             stages.start("figures")
             from . import plotting
-            for name, png in plotting.loop_figures(xy, cols, rep, closure=args.closure,
-                                                   units=args.units).items():
-                out.add(name, png)
-    return _emit(args, rep, loop_summary(rep), out)
+            files.update(plotting.loop_figures(xy, cols, rep, closure=args.closure,
+                                               units=args.units))
+    return _emit(args, rep, loop_summary(rep), plan, files)
 
 
 # --------------------------------------------------------------------------- demo
@@ -781,9 +722,14 @@ def main(argv=None) -> int:
         with warnings.catch_warnings():
             warnings.showwarning = _one_line_warning
             return int(args.func(args) or 0)
-    except KeyboardInterrupt:
-        print("wedgepath: interrupted", file=sys.stderr)
-        return 130
+    except KeyboardInterrupt as exc:
+        signum = getattr(exc, "signum", signal.SIGINT)
+        where = getattr(exc, "folder", None)
+        name = signal.Signals(signum).name
+        print(f"wedgepath: interrupted ({name})" + (
+            f" while writing to {where}: it holds no manifest.json, so its files are not one "
+            "complete run; temporary files were removed" if where else ""), file=sys.stderr)
+        return 128 + int(signum)
     except (CLIError, TableError, ValueError, TypeError, KeyError) as exc:
         if args.debug:
             raise
