@@ -93,14 +93,20 @@ AUDITED = {
         "argument is a sympy number made by _build",
     ("formula.py", "degree_bound", "sp.sympify"):
         "strict=True: never parses text (refuses it)",
+    ("formula.py", "float_value", "sympy.sympify"):
+        "strict=True: never parses text (refuses it)",
+    ("formula.py", "numpy_function", "sympy.lambdify"):
+        "argument is the strictly sympified expression (big integers replaced by dummies)",
+    ("formula.py", "numpy_function", "sympy.sympify"):
+        "strict=True: never parses text (refuses it)",
+    ("formula.py", "evaluation_cost", "sympy.sympify"):
+        "strict=True: never parses text (refuses it)",
     ("formula.py", "<doctest>", "parse_formula"):
         "docstring examples of the safe parser itself",
     ("calculus/forms.py", "_as_expression", "parse_formula"):
         "strings go through the safe parser, with the caller's symbols as the only names",
     ("calculus/forms.py", "_as_expression", "sympy.sympify"):
         "strict=True, only reached for real numbers (str is parsed safely before)",
-    ("calculus/forms.py", "from_sympy", "sympy.lambdify"):
-        "argument is the sympy expression returned by _as_expression",
     ("symbolic.py", "_as_expr", "sympy.sympify"):
         "strict=True after strings are refused; strict sympify never parses text",
     ("symbolic.py", "_tidy", "sympy.sympify"):

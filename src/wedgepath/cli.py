@@ -570,6 +570,11 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
     if energy not in ENERGY_FORMS:
         raise CLIError(f"unknown energy form {energy!r}; choose one of {', '.join(ENERGY_FORMS)}")
     stage = stages.start if stages is not None else (lambda name: None)
+    if weight is not None:
+        # parsed and its work bounded before anything is computed (a refusal comes at once)
+        x, y = sp.symbols("x y", real=True)
+        expr = parse_weight(weight, (x, y))
+        levels = weight_levels(expr, (x, y), _segments(xy))
     path = Path(xy, times=times, names=names)
     stage("areas and faces")
     sa = signed_area(path, closure=closure)
@@ -612,17 +617,103 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
         "mean": float(cyc.mean), "std": float(cyc.std),
     }
     if weight is not None:
-        from .formula import parse_formula
         stage("weight")
-        x, y = sp.symbols("x y", real=True)
-        expr = parse_formula(weight, {"x": x, "y": y})
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always")
-            r = region_integral(expr, path, closure=closure, symbols=(x, y))
-        rep["notes"] += [str(w.message) for w in caught]
+            try:
+                r = region_integral(expr, path, closure=closure, symbols=(x, y),
+                                    max_levels=levels)
+            except ValueError as exc:
+                raise CLIError(_weight_message(str(exc), weight)) from None
+        notes = [str(w.message) for w in caught]
+        if levels < _ADAPTIVE_LEVELS and any("not reached" in n for n in notes):
+            notes.append(f"the refinement of --weight was capped at {levels} levels by the "
+                         f"work limit ({WEIGHT_WORK_LIMIT:.0e} units, docs/cli.md)")
+        rep["notes"] += notes
         rep["weighted_integral"] = {"formula": weight, "value": float(r), "error": r.error,
                                     "exact": r.exact, "method": r.method}
     return rep
+
+
+#: work units (about nanoseconds of numpy on one core) that integrating a --weight may take:
+#: evaluation points x (formula.POINT_OVERHEAD + formula.evaluation_cost(formula)); see
+#: docs/cli.md and benchmarks/bench_formulas.py
+WEIGHT_WORK_LIMIT = 1e9
+#: the library's default refinement depth of adaptive region integrals
+_ADAPTIVE_LEVELS = 30
+#: points of the first adaptive pass per segment (4x4 and 5x5 Gauss rules)
+_ADAPTIVE_POINTS = 41
+#: work units per point of adaptive integration on top of the formula (the bookkeeping of
+#: the cells; measured by benchmarks/bench_formulas.py)
+ADAPTIVE_OVERHEAD = 40
+
+
+def parse_weight(text, symbols):
+    """The --weight formula as sympy (the safe parser), messages in the CLI's words."""
+    from .formula import parse_formula
+    try:
+        return parse_formula(text, {s.name: s for s in symbols})
+    except ValueError as exc:
+        raise CLIError("--weight: " + str(exc).removeprefix("formula: ")) from None
+
+
+def _segments(xy):
+    """Segments of the closed loop (an upper bound): one per complete sample."""
+    return int((~np.isnan(xy).any(axis=1)).sum())
+
+
+def weight_levels(expr, symbols, segments, limit=None):
+    """Refinement levels that keep integrating ``expr`` over ``segments`` within the work limit.
+
+    A polynomial weight is integrated exactly with a fixed number of points per
+    segment: refused (CLIError) when they cost more than the limit.  Any other
+    weight is integrated adaptively; each level of refinement at most doubles
+    the cells, so ``L`` levels cost at most ``(2**(L+1) - 1)`` times the first
+    pass, and ``L`` is the largest that stays within the limit (at most the
+    library's 30).
+    """
+    from .calculus.forms import Coefficient
+    from .calculus.quadrature import points_needed
+    from .formula import POINT_OVERHEAD, evaluation_cost
+
+    limit = WEIGHT_WORK_LIMIT if limit is None else limit
+    try:
+        coef = Coefficient.from_sympy(expr, symbols)
+    except ValueError as exc:
+        raise CLIError("--weight: " + str(exc).replace("form coefficient", "the formula")) \
+            from None
+    if coef.kind == "constant" or segments == 0:
+        return _ADAPTIVE_LEVELS
+    per_point = POINT_OVERHEAD + evaluation_cost(expr)
+    if coef.poly_degree is not None:
+        d = coef.poly_degree
+        points = segments * points_needed(d + 1) * points_needed(d)
+        if points * per_point > limit:
+            raise CLIError(f"--weight: exact integration of this degree-{d} polynomial over "
+                           f"{segments} segments takes {points:.3g} evaluations of "
+                           f"{per_point} work units each, above the limit of {limit:.0e} "
+                           "units; use a formula of lower degree or fewer samples")
+        return _ADAPTIVE_LEVELS
+    per_point += ADAPTIVE_OVERHEAD
+    first = segments * _ADAPTIVE_POINTS * per_point
+    if first > limit:
+        raise CLIError(f"--weight: one pass of adaptive integration over {segments} segments "
+                       f"takes {segments * _ADAPTIVE_POINTS:.3g} evaluations of {per_point} "
+                       f"work units each, above the limit of {limit:.0e} units; use a simpler "
+                       "formula or fewer samples")
+    return int(min(_ADAPTIVE_LEVELS, math.floor(math.log2(limit / first + 1)) - 1))
+
+
+def _weight_message(msg, weight):
+    """A library error of the weight's integral, in the command line's words."""
+    import re
+    m = re.match(r"f is not finite at the point \[(.*?)\](.*)$", msg)
+    if m:
+        return f"--weight {weight!r} is not finite at (x, y) = ({m.group(1)}){m.group(2)}"
+    if "overflows float64" in msg:
+        return (f"the region integral of --weight {weight!r} overflows float64: the weight's "
+                "values or the coordinates are too large (rescale the data or the formula)")
+    return msg
 
 
 def loop_summary(rep):
@@ -667,6 +758,9 @@ def _cmd_loop(args):
     cols = [args.x, args.y]
     if args.x == args.y:
         raise CLIError("--x and --y name the same column")
+    if args.weight is not None:
+        import sympy as sp
+        parse_weight(args.weight, sp.symbols("x y", real=True))   # a bad formula fails first
     figures = _want_figures(args)
     plan = _plan(args, loop_files(figures=figures), "loop")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None

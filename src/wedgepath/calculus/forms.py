@@ -104,15 +104,20 @@ class Coefficient:
             raise ValueError(f"form coefficient {expr} uses symbols {names} that are not "
                              f"coordinates {tuple(str(s) for s in symbols)}; substitute "
                              "numbers for parameters first")
+        from ..formula import degree_bound, float_value, numpy_function
         if not expr.free_symbols:
-            if not expr.is_real:
+            # float64 in bounded time: sympy's own float() of exp(exp(10**60)) never returns
+            v = float_value(expr)
+            if isinstance(v, complex):
                 raise ValueError(f"form coefficient {expr} is not a real number")
-            return cls.constant(float(expr))
+            if not np.isfinite(v):
+                raise ValueError(f"form coefficient {expr} is not a finite float64 number (it "
+                                 f"evaluates to {v})")
+            return cls.constant(v)
         deg = None
         if expr.is_polynomial(*symbols):
-            from ..formula import degree_bound
             deg = degree_bound(expr, symbols)
-        func = sympy.lambdify(symbols, expr, modules="numpy")
+        func = numpy_function(expr, symbols)
         return cls("sympy", expr=expr, symbols=tuple(symbols), func=func, poly_degree=deg)
 
     @classmethod
