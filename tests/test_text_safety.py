@@ -115,8 +115,12 @@ AUDITED = {
         "sympy Poly.eval (evaluates a polynomial at a number), not Python's eval",
     ("dask.py", "<module>", "re.compile"):
         "a regular expression literal, not Python's compile",
-    ("cli.py", "loop_report", "parse_formula"):
+    ("cli.py", "parse_weight", "parse_formula"):
         "the --weight text goes through the safe parser",
+    ("cli.py", "_cmd_loop", "sp.symbols"):
+        "constant names 'x y'",
+    ("planar/arrangement.py", "count_crossings", "tree.query"):
+        "a shapely STRtree query (geometry in, indices out), not pandas' query",
     ("cli.py", "loop_report", "sp.symbols"):
         "constant names 'x y'",
     ("symbolic.py", "_simplex_setup", "sympy.symbols"):

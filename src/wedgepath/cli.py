@@ -179,6 +179,19 @@ def _finite_float(text):
     return v
 
 
+def _nonnegative_float(text):
+    v = _finite_float(text)
+    if v < 0:
+        raise argparse.ArgumentTypeError(f"expected a number >= 0, got {text!r}")
+    return v
+
+
+def _add_tol(p):
+    p.add_argument("--tol", type=_nonnegative_float, default=None, metavar="D",
+                   help="with --closure require: the largest distance allowed between the end "
+                   "and the start of each gap-free piece (default 1e-9 times its extent)")
+
+
 def build_parser():
     parser = _Parser(prog="wedgepath",
                      description="Lead-lag structure and loop areas of recorded signals.")
@@ -193,6 +206,7 @@ def build_parser():
     ll.add_argument("--columns", metavar="A,B,...", help="channels to use (default: all but --time)")
     ll.add_argument("--closure", default="chord", choices=["chord", "none", "detrend", "require"],
                     help="how each gap-free piece is closed (default: chord)")
+    _add_tol(ll)
     ll.add_argument("--normalize", default=None, choices=["hilbert", "zscore", "frobenius"],
                     help="report a normalised lead strength instead of raw areas")
     ll.add_argument("--window", type=_positive_int, metavar="N",
@@ -221,6 +235,7 @@ def build_parser():
     lp.add_argument("--y", required=True, metavar="COL", help="vertical channel (e.g. stress)")
     lp.add_argument("--closure", default="chord", choices=["chord", "detrend", "require", "none"],
                     help="how each gap-free piece is closed (default: chord)")
+    _add_tol(lp)
     lp.add_argument("--cycles-by", metavar="COL",
                     help="split into cycles at upward mean crossings of this column (default: --x)")
     lp.add_argument("--level", type=_finite_float, help="crossing level (default: the mean)")
@@ -231,6 +246,9 @@ def build_parser():
                     "default) or x_dy = ∮ x dy (H dB with H horizontal)")
     lp.add_argument("--weight", metavar="FORMULA",
                     help="also integrate this weight over the region, in x and y, e.g. 'x**2*y'")
+    lp.add_argument("--max-crossings", type=_positive_int, default=None, metavar="N",
+                    help="refuse a loop that crosses itself more than N times before splitting "
+                    "it into faces (default 500000: about 1.7 GB and half a minute)")
     _add_common(lp)
     lp.set_defaults(func=_cmd_loop)
 
@@ -304,12 +322,21 @@ def _matrix_lines(M, names, indent="  "):
 
 
 # --------------------------------------------------------------------------- leadlag
+ZERO_MATRIX_NOTE = ("the area matrix is zero: no channel leads another (constant or "
+                    "proportional channels, or no closed stretch); there is no cyclic order")
+
+
 def _order_section(A, names, top):
     """Cyclic order, net lead and leaders/laggers of a matrix, as report entries."""
     from .signals import cyclic_order
 
     n = len(names)
     Afin = np.nan_to_num(np.asarray(A, dtype=float), nan=0.0)
+    if not np.any(Afin):
+        # a valid answer (constant or proportional channels): reported, with a note
+        return {"cyclic_order": None, "net_lead": {nm: 0.0 for nm in names},
+                "leaders": [], "laggers": [],
+                "notes": [ZERO_MATRIX_NOTE]}
     order = cyclic_order(Afin)
     lead = Afin.sum(axis=1)
     rank = np.argsort(-lead, kind="stable")
@@ -329,8 +356,13 @@ def _order_section(A, names, top):
 
 def leadlag_report(values, times, names, *, closure="chord", normalize=None, window=None,
                    step=None, surrogates=None, surrogate_method="shift", seed=0, top=3,
-                   progress=None):
-    """Compute the lead-lag report as a JSON-ready dict (used by the CLI and the demo)."""
+                   progress=None, tol=None):
+    """Compute the lead-lag report as a JSON-ready dict (used by the CLI and the demo).
+
+    A zero area matrix (constant or proportional channels) is a result: its
+    ``cyclic_order`` is None and a note says why.  ``tol`` is the gap allowed
+    by ``closure="require"``.
+    """
     from .signals import area_matrix, rolling_area_matrix, surrogate_test
 
     n = values.shape[1]
@@ -338,9 +370,14 @@ def leadlag_report(values, times, names, *, closure="chord", normalize=None, win
         raise CLIError(f"lead-lag needs at least 2 channels, got {n}")
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        A = area_matrix(values, times=times, closure=closure, normalize=normalize)
-        raw = A if normalize is None else area_matrix(values, times=times, closure=closure)
+        A = area_matrix(values, times=times, closure=closure, normalize=normalize,
+                        names=list(names), tol=tol)
+        raw = A if normalize is None else area_matrix(values, times=times, closure=closure,
+                                                      names=list(names), tol=tol)
+    A, raw = np.asarray(A), np.asarray(raw)
     notes = [str(w.message) for w in caught]
+    order = _order_section(A, names, top)
+    notes += order.pop("notes", [])
     report = {
         "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
         "wedgepath_version": __version__,
@@ -350,7 +387,7 @@ def leadlag_report(values, times, names, *, closure="chord", normalize=None, win
         "normalize": normalize,
         "area_matrix": A,
         "raw_area_matrix": raw,
-        **_order_section(A, names, top),
+        **order,
         "notes": notes,
     }
     if window is not None:
@@ -423,7 +460,9 @@ def leadlag_summary(rep):
              f"\n{what}: A[i, j] > 0 means row i leads column j"]
     lines += _matrix_lines(np.asarray(rep["area_matrix"], dtype=float), names)
     co = rep["cyclic_order"]
-    if len(names) == 2:
+    if co is None:
+        lines.append("\nno channel leads another: the area matrix is zero")
+    elif len(names) == 2:
         A = np.asarray(rep["area_matrix"], dtype=float)
         a, b = (0, 1) if A[0, 1] >= 0 else (1, 0)
         lines.append(f"\n{names[a]} leads {names[b]} (A = {abs(A[0, 1]):.6g})")
@@ -458,7 +497,27 @@ def leadlag_summary(rep):
     return lines
 
 
+def _check_tol(args):
+    if args.tol is not None and args.closure != "require":
+        raise CLIError("--tol applies to --closure require only")
+
+
+def _check_complete_rows(table, values, names):
+    """Refuse a table without one complete row, naming the empty columns (if any)."""
+    if values.size and (~np.isnan(values).any(axis=1)).any():
+        return
+    empty = [nm for k, nm in enumerate(names) if np.isnan(values[:, k]).all()]
+    if empty:
+        raise CLIError(f"{table}: column{'s' if len(empty) > 1 else ''} "
+                       f"{', '.join(repr(e) for e in empty)} "
+                       f"{'have' if len(empty) > 1 else 'has'} no values (every cell is empty "
+                       "or not a number)")
+    raise CLIError(f"{table}: no row has a value in every column used "
+                   f"({', '.join(repr(n) for n in names)}): every row has a gap")
+
+
 def _cmd_leadlag(args):
+    _check_tol(args)
     if args.step is not None and args.window is None:
         raise CLIError("--step needs --window")
     if args.stream:
@@ -476,10 +535,12 @@ def _cmd_leadlag(args):
         return _cmd_leadlag_stream(args, plan, figures)
     tab = _load(args, args.columns)
     _check_units(args, tab.names + ([args.time] if args.time else []))
+    _check_complete_rows(args.table, tab.values, tab.names)
     rep = leadlag_report(tab.values, tab.times, tab.names, closure=args.closure,
                          normalize=args.normalize, window=args.window, step=args.step,
                          surrogates=args.surrogates, surrogate_method=args.surrogate_method,
-                         seed=args.seed, top=args.top, progress=_progress_flag(args))
+                         seed=args.seed, top=args.top, progress=_progress_flag(args),
+                         tol=args.tol)
     rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
     rep["units"] = dict(args.units)
     files = leadlag_tables(rep)
@@ -518,14 +579,16 @@ def _cmd_leadlag_stream(args, plan, figures):
                                delimiter=args.delimiter, chunk_rows=args.chunk_rows, progress=tick)
     names = list(A.names)
     M = A.values
+    order = _order_section(M, names, args.top)
+    order_notes = order.pop("notes", [])
     rep = {
         "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
         "wedgepath_version": __version__,
         "channels": names, "samples": int(last[0]), "closure": "chord", "normalize": None,
         "streamed": True, "chunk_rows": args.chunk_rows,
         "area_matrix": M, "raw_area_matrix": M,
-        **_order_section(M, names, args.top),
-        "notes": [],
+        **order,
+        "notes": order_notes,
         "input": {"table": os.path.abspath(args.table), "time_column": args.time},
     }
     _check_units(args, names + ([args.time] if args.time else []))
@@ -551,7 +614,8 @@ ENERGY_FORMS = ("y_dx", "x_dy")
 
 
 def loop_report(xy, times, names, *, closure="chord", reference=None, reference_name=None,
-                level=None, hysteresis=0.0, energy="y_dx", weight=None, stages=None):
+                level=None, hysteresis=0.0, energy="y_dx", weight=None, stages=None,
+                max_crossings=None, progress=False, return_decomposition=False, tol=None):
     """Compute the loop report of the planar curve ``xy`` (T, 2) as a JSON-ready dict.
 
     ``energy`` chooses the per-cycle quantity: ``"y_dx"`` is ∮ y dx (work of
@@ -559,7 +623,10 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
     with x = V, y = p), ``"x_dy"`` is ∮ x dy (e.g. H dB with x = H, y = B).
     They differ only in sign: ∮ x dy = -∮ y dx = the signed area.
     ``reference`` (T,) is the channel whose upward crossings cut cycles
-    (default: x).
+    (default: x).  ``max_crossings`` (default: the library's) and
+    ``progress`` go to :func:`~wedgepath.decompose`; a curve beyond the limit
+    is refused with a message naming ``--max-crossings``.  With
+    ``return_decomposition`` the result is ``(report, decomposition)``.
     """
     import sympy as sp
 
@@ -576,11 +643,13 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
         expr = parse_weight(weight, (x, y))
         levels = weight_levels(expr, (x, y), _segments(xy))
     path = Path(xy, times=times, names=names)
+    if closure == "require" and tol is not None:
+        path = path.close("require", tol=tol)     # closed within tol: exactly closed after
     stage("areas and faces")
     sa = signed_area(path, closure=closure)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        dec = decompose(path, closure=closure)
+        dec = _decompose(path, closure, max_crossings, progress)
         stage("moments and cycles")
         mom = region_moments(path, closure=closure)
     centroid = getattr(mom, "centroid", None)
@@ -605,16 +674,32 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
     ref_col = 0 if reference is None else 2
     # A[i, j] = ∮ x_i dx_j on each closed cycle: y dx is A[1, 0], x dy is A[0, 1]
     i, j = (1, 0) if energy == "y_dx" else (0, 1)
-    cyc = cycle_areas(data, i, j, reference=ref_col, level=level, hysteresis=hysteresis,
-                      times=times)
+    ref_name = reference_name or names[0]
+    try:
+        cyc = cycle_areas(data, i, j, reference=ref_col, level=level, hysteresis=hysteresis,
+                          times=times)
+    except ValueError as exc:
+        if "is constant, so it has no crossings" in str(exc):
+            cyc = None          # a valid answer: no cycle at all, said in a note
+            rep["notes"].append(f"no cycles: the column {ref_name!r} is constant, so it never "
+                                "crosses a level (choose another --cycles-by)")
+        elif "has no samples" in str(exc):
+            raise CLIError(f"the column {ref_name!r} that cuts cycles has no values (every "
+                           "cell is empty); choose another --cycles-by") from None
+        else:
+            raise
+    empty = np.zeros(0)
     rep["cycles"] = {
-        "reference": reference_name or names[0],
+        "reference": ref_name,
         "quantity": "integral of y dx per cycle" if energy == "y_dx" else "integral of x dy per cycle",
-        "count": int(cyc.count),
-        "values": cyc.areas,
-        "start": cyc.start_times if cyc.start_times is not None else cyc.starts,
-        "stop": cyc.stop_times if cyc.stop_times is not None else cyc.stops,
-        "mean": float(cyc.mean), "std": float(cyc.std),
+        "count": 0 if cyc is None else int(cyc.count),
+        "values": empty if cyc is None else cyc.areas,
+        "start": empty if cyc is None else (cyc.start_times if cyc.start_times is not None
+                                            else cyc.starts),
+        "stop": empty if cyc is None else (cyc.stop_times if cyc.stop_times is not None
+                                           else cyc.stops),
+        "mean": math.nan if cyc is None else float(cyc.mean),
+        "std": math.nan if cyc is None else float(cyc.std),
     }
     if weight is not None:
         stage("weight")
@@ -632,7 +717,28 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
         rep["notes"] += notes
         rep["weighted_integral"] = {"formula": weight, "value": float(r), "error": r.error,
                                     "exact": r.exact, "method": r.method}
-    return rep
+    return (rep, dec) if return_decomposition else rep
+
+
+def _decompose(path, closure, max_crossings, progress):
+    """decompose, with a refusal for size in the command line's words."""
+    from .planar import decompose
+    from .planar.arrangement import MAX_CROSSINGS, ArrangementTooLarge
+
+    limit = MAX_CROSSINGS if max_crossings is None else max_crossings
+    try:
+        return decompose(path, closure=closure, max_crossings=limit, progress=progress)
+    except ArrangementTooLarge as exc:
+        msg = str(exc).removeprefix("decompose: ")
+        if exc.cause == "memory":
+            raise CLIError("the loop's arrangement does not fit in memory: " + msg) from None
+        msg = msg.split(": pass max_crossings=")[0]
+        # the count is an estimate: suggest half as much again, rounded up to 2 digits
+        want = 1.5 * exc.crossings
+        step = 10 ** max(0, int(math.log10(want)) - 1)
+        need = int(math.ceil(want / step) * step)
+        raise CLIError(f"the loop is too tangled to split into faces: {msg}; to build it anyway "
+                       f"pass --max-crossings {need} or more") from None
 
 
 #: work units (about nanoseconds of numpy on one core) that integrating a --weight may take:
@@ -755,6 +861,7 @@ def loop_summary(rep):
 def _cmd_loop(args):
     from ._progress import Stages
 
+    _check_tol(args)
     cols = [args.x, args.y]
     if args.x == args.y:
         raise CLIError("--x and --y name the same column")
@@ -767,6 +874,7 @@ def _cmd_loop(args):
     tab = _load(args, cols + ([extra] if extra else []))
     _check_units(args, tab.names + ([args.time] if args.time else []))
     xy = tab.values[:, :2]
+    _check_complete_rows(args.table, xy, cols)
     if args.cycles_by == args.y:
         reference = tab.values[:, 1]
     elif extra:
@@ -780,7 +888,10 @@ def _cmd_loop(args):
         rep = loop_report(xy, tab.times, cols, closure=args.closure, reference=reference,
                           reference_name=args.cycles_by, level=args.level,
                           hysteresis=args.hysteresis, energy=args.energy, weight=args.weight,
-                          stages=stages)
+                          stages=stages, max_crossings=args.max_crossings,
+                          progress=False if (args.quiet or stages.enabled) else None,
+                          return_decomposition=True, tol=args.tol)
+        rep, dec = rep
         rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
         rep["units"] = dict(args.units)
         files = loop_tables(rep)
@@ -788,7 +899,7 @@ def _cmd_loop(args):
             stages.start("figures")
             from . import plotting
             files.update(plotting.loop_figures(xy, cols, rep, closure=args.closure,
-                                               units=args.units))
+                                               units=args.units, decomposition=dec))
     return _emit(args, rep, loop_summary(rep), plan, files)
 
 
@@ -800,6 +911,42 @@ def _cmd_demo(args):
 
 
 # --------------------------------------------------------------------------- main
+#: library wording -> the command line's (argument names become flags)
+_WORDS = [
+    (r"^(?:signed_area|decompose|region_integral|region_moments|winding_number|cycle_areas|"
+     r"area_matrix|rolling_area_matrix|hilbert_energy|surrogate_test): ", ""),
+    (r"^(?:signed_area|decompose|region_integral|region_moments|winding_number) needs a "
+     r"closed curve", "--closure none needs a closed loop"),
+    (r" \(options: 'none', 'chord', 'detrend', 'require'\)", ""),
+    (r" and closure='none';", ";"),
+    (r"closure='(\w+)'", r"--closure \1"),
+    (r"(--closure \w+(?: \(the default\))?),? '(\w+)'(,)? or '(\w+)'", r"\1, \2\3 or \4"),
+    (r"(--closure \w+) or '(\w+)'", r"\1 or \2"),
+    (r"pass a larger tol\b", "pass a larger --tol (the distance allowed between the end and "
+     "the start)"),
+    (r"times must be strictly increasing; times\[(\d+)\]=(\S+) does not exceed "
+     r"times\[(\d+)\]=(\S+)", lambda m: (
+         f"the --time column must be strictly increasing; data row {int(m[1]) + 1} ({m[2]}) "
+         f"does not exceed data row {int(m[3]) + 1} ({m[4]})")),
+    (r"^(?:X|points|path) has no complete sample: every row contains NaN",
+     "no row has a value in every column used: every row has a gap"),
+    (r"^(?:X|points) contains", "the table contains"),
+    (r"\bn_surrogates\b", "--surrogates"),
+    (r"^window=(\d+)", r"--window \1"),
+    (r"^(window|step|hysteresis|level|tol) must", r"--\1 must"),
+    (r"rescale the path \(e\.g\. divide it by its largest value\)",
+     "rescale the data (e.g. divide each column by its largest value)"),
+]
+
+
+def cli_words(msg):
+    """A library error message in the command line's words (flags, not argument names)."""
+    import re
+    for pattern, repl in _WORDS:
+        msg = re.sub(pattern, repl, msg)
+    return msg
+
+
 def _one_line_warning(message, category, filename, lineno, file=None, line=None):
     text = str(message).strip().splitlines()
     print(f"wedgepath: warning: {text[0] if text else category.__name__}", file=sys.stderr)
@@ -828,6 +975,8 @@ def main(argv=None) -> int:
         if args.debug:
             raise
         msg = str(exc).strip().splitlines()[0] if str(exc).strip() else type(exc).__name__
+        if not isinstance(exc, (CLIError, TableError)):
+            msg = cli_words(msg)
         print(f"wedgepath: error: {msg}", file=sys.stderr)
         return 2
     except OSError as exc:

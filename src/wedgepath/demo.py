@@ -103,7 +103,8 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
     print("=" * 72)
     print("2. Loop: cyclic load test of an elastomer pad (invented data)")
     print("=" * 72)
-    lrep = loop_report(load.values, load.times, load.names, energy="y_dx")
+    lrep, dec = loop_report(load.values, load.times, load.names, energy="y_dx",
+                            progress=False if quiet else None, return_decomposition=True)
     print("\n".join(loop_summary(lrep)))
     omega = 2 * math.pi * LOAD["f"]
     truth = math.pi * LOAD["eta"] * omega * LOAD["e0"] ** 2
@@ -125,7 +126,8 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
         xy = np.asarray(load.values)
         # the known energy per cycle, in the data's units (MPa x mm/mm = MJ/m^3)
         files.update(plotting.loop_figures(xy, load.names, lrep, units=lrep["units"],
-                                           reference=truth, reference_label="known value"))
+                                           reference=truth, reference_label="known value",
+                                           decomposition=dec))
     written = output.commit(files)
     if written:
         print(f"\nwrote {len(written)} file(s) to {out}")

@@ -125,6 +125,8 @@ def float_value(expr):
     (0.3333333333333333, inf)
     """
     expr = sympy.sympify(expr, strict=True)
+    if expr.has(sympy.zoo, sympy.nan):
+        return math.nan
     if expr.is_Number:
         try:
             return float(expr)
@@ -349,6 +351,10 @@ def _build(node, variables, src, memo):
     if isinstance(node, ast.BinOp) and type(node.op) in _BINOPS:
         left = _build(node.left, variables, src, memo)
         right = _build(node.right, variables, src, memo)
+        for part, sub in ((left, node.left), (right, node.right)):
+            if part.has(sympy.zoo, sympy.nan, sympy.oo, -sympy.oo):
+                raise ValueError(f"formula: {ast.get_source_segment(src, sub)!r} is not finite "
+                                 "(e.g. division by zero)")
         if isinstance(node.op, ast.Pow) and right.is_number:
             mag = _exponent_ok(right, src, node.right)
             if left.is_number and _digits(left) * mag > _MAX_DIGITS:

@@ -356,6 +356,8 @@ def leadlag_figures(report, units=None) -> dict:
     """PNG files (name -> bytes) for a lead-lag report made by the command line.
 
     ``units`` maps column names (channels or the time column) to units for the axis labels.
+    A report without a cyclic order (a zero area matrix) gets a ``phases.png`` that says so.
+    Names and units are drawn literally (a ``$`` is not math).
     """
     with _literal_text():
         return _leadlag_figures(report, units)
@@ -365,16 +367,27 @@ def _leadlag_figures(report, units):
     names = report["channels"]
     A = np.asarray(report["area_matrix"], dtype=float)
     idx = {nm: k for k, nm in enumerate(names)}
-    order = [idx[nm] for nm in report["cyclic_order"]["order"]]
+    co = report["cyclic_order"]
+    order = None if co is None else [idx[nm] for nm in co["order"]]
     label = "lead strength" if report.get("normalize") else "oriented area A[i, j]"
     out = {}
-    ax = lead_heatmap(A, names, order, title="Lead matrix, channels in cyclic order", label=label)
+    ax = lead_heatmap(A, names, order, label=label,
+                      title="Lead matrix" + ("" if co is None else ", channels in cyclic order"))
     out["lead_matrix.png"] = _png(ax.figure)
-    ph = np.array([report["cyclic_order"]["phases_rad"][nm] for nm in names])
-    mod = np.array([report["cyclic_order"]["moduli"][nm] for nm in names])
-    ax = phase_circle(ph, names, mod, order,
-                      title=f"Phase of each channel (fit {report['cyclic_order']['fit']:.2f})")
-    out["phases.png"] = _png(ax.figure)
+    if co is None:
+        # always drawn (the set of files is known before the run): says why it is empty
+        _, plt, _ = _mpl()
+        fig, ax = plt.subplots(figsize=(5.5, 5.5), dpi=110)
+        ax.axis("off")
+        ax.text(0.5, 0.5, "No cyclic order:\nthe area matrix is zero\n(no channel leads "
+                "another)", ha="center", va="center", color=_INK, transform=ax.transAxes)
+        out["phases.png"] = _png(fig)
+    else:
+        ph = np.array([co["phases_rad"][nm] for nm in names])
+        mod = np.array([co["moduli"][nm] for nm in names])
+        ax = phase_circle(ph, names, mod, order,
+                          title=f"Phase of each channel (fit {co['fit']:.2f})")
+        out["phases.png"] = _png(ax.figure)
     if "rolling" in report:
         r = report["rolling"]
         tcol = (report.get("input") or {}).get("time_column")
