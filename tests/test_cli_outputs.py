@@ -364,3 +364,15 @@ class TestFigureLabels:
         from matplotlib import cbook
         assert not cbook.is_math_text(ax.get_xlabel())
         assert not cbook.is_math_text(ax.get_ylabel())
+
+
+# =========================================================================== terminal
+def test_summary_escapes_control_characters(tmp_path):
+    names = ["\x1b[31mred", "b\u202ec", "plain"]
+    f, _ = signals_table(tmp_path, names)
+    code, out, err = run(["leadlag", f, "--quiet"])
+    assert code == 0, err
+    assert "\x1b" not in out and "\u202e" not in out
+    assert "\\x1b[31mred" in out and "b\\u202ec" in out
+    code, out, err = run(["leadlag", f, "--quiet", "--json"])
+    assert json.loads(out)["channels"] == names          # the JSON keeps them exactly

@@ -293,6 +293,21 @@ def _plan(args, names, command):
     return plan
 
 
+def printable(text):
+    """``text`` safe for a terminal: control characters (escape sequences, carriage
+    returns, tabs) and bidirectional overrides shown as ``\\x1b``-style escapes, so a
+    column name cannot recolour, move the cursor or reorder what the summary shows."""
+    import unicodedata
+    out = []
+    for ch in str(text):
+        if ch != "\n" and (unicodedata.category(ch) == "Cc" or "\u202a" <= ch <= "\u202e"
+                           or "\u2066" <= ch <= "\u2069"):
+            out.append(ch.encode("unicode_escape").decode("ascii"))
+        else:
+            out.append(ch)
+    return "".join(out)
+
+
 def _emit(args, payload, summary_lines, plan: OutputSet, files):
     files = dict(files)
     files["result.json"] = _dump_json(payload)
@@ -300,7 +315,7 @@ def _emit(args, payload, summary_lines, plan: OutputSet, files):
     if args.json:
         sys.stdout.write(_dump_json(payload))
     else:
-        print("\n".join(summary_lines))
+        print(printable("\n".join(summary_lines)))
         if written:
             print(f"\nwrote {len(written)} file(s) to {args.out}: "
                   + ", ".join(os.path.basename(w) for w in written))
