@@ -684,7 +684,7 @@ def _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count, 
         warnings.warn(f"decompose: {bad} face adjacencies disagree with the assigned winding "
                       f"numbers and {unreached.size} faces were not reached from the outside; "
                       "the noding of this curve is not consistent (see .diagnostics)",
-                      DecompositionWarning, stacklevel=2)
+                      DecompositionWarning, stacklevel=3)
     face_area = rings.face_area
     if grid is not None:
         # snap-rounding can make -0.0 (see above): canonical zeros, identical calls alike
@@ -729,7 +729,7 @@ def _checked(dec, noise):
         warnings.warn(f"decompose: the faces account for {dec.signed_area:.6g} of the curve's "
                       f"signed area {shoelace:.6g} (residual {dec.residual:.3g}); the noding "
                       "of this curve lost faces (see .diagnostics)", DecompositionWarning,
-                      stacklevel=3)
+                      stacklevel=4)
     return dec
 
 
