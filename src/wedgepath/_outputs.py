@@ -42,6 +42,8 @@ import stat
 import tempfile
 import threading
 
+import numpy as np
+
 __all__ = ["OutputSet", "OutputError", "Interrupted", "csv_text", "safe_cell", "MANIFEST",
            "MANIFEST_SCHEMA"]
 
@@ -79,11 +81,15 @@ def safe_cell(value) -> str:
     >>> from wedgepath._outputs import safe_cell
     >>> safe_cell('=HYPERLINK("x")'), safe_cell("-a"), safe_cell(-2.5), safe_cell("a,b")
     ('\\'=HYPERLINK("x")', "'-a", '-2.5', 'a,b')
+    >>> safe_cell(3), safe_cell(float("nan"))
+    ('3', 'nan')
     """
     if isinstance(value, str):
         return "'" + value if value.startswith(_FORMULA_START) else value
-    if isinstance(value, bool):
+    if isinstance(value, (bool, np.bool_)):
         raise TypeError("a CSV cell cannot be a boolean")
+    if isinstance(value, (int, np.integer)):
+        return str(int(value))
     v = float(value)
     return "nan" if math.isnan(v) else repr(v)
 
