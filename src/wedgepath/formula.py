@@ -7,6 +7,14 @@ variables the caller allows, ``+ - * / **``, parentheses and a fixed set of
 functions.  Anything else (attributes, subscripts, names not listed,
 keywords, comprehensions, strings) is refused with a ``ValueError`` naming it.
 
+The work a formula can cause is bounded without expanding or evaluating it
+symbolically: numbers are read exactly from their text and limited in size,
+exponents and polynomial degrees are limited (:func:`degree_bound` walks the
+tree once), constants are evaluated in float64 by numpy (:func:`float_value`;
+sympy's own ``float(exp(exp(10**60)))`` never returns), and
+:func:`evaluation_cost` gives the per-point cost the command line uses to
+bound a region integral before it starts.
+
 Examples
 --------
 >>> import sympy as sp

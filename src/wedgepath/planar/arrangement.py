@@ -201,6 +201,8 @@ class _SegmentChains:
         self.a = a = np.concatenate([p[:-1] for p in pieces])
         self.b = b = np.concatenate([p[1:] for p in pieces])
         self.lo, self.hi = np.minimum(a, b), np.maximum(a, b)
+        self.xlo, self.ylo = self.lo[:, 0].copy(), self.lo[:, 1].copy()
+        self.xhi, self.yhi = self.hi[:, 0].copy(), self.hi[:, 1].copy()
         sizes = np.array([len(p) - 1 for p in pieces])
         self.piece = np.repeat(np.arange(len(pieces)), sizes)
         self.first = np.concatenate(([0], np.cumsum(sizes)[:-1]))
@@ -217,11 +219,15 @@ class _SegmentChains:
         self.chi = np.maximum.reduceat(self.hi, self.cs, axis=0)
         self.xdir = d[self.cs, 0]             # +1 / -1 / 0: how x runs along the chain
 
-    def _allowed(self, i, j):
-        """Pairs i < j that are not neighbours on a piece and whose boxes overlap."""
+    def _allowed(self, i, j, x_checked=False):
+        """Pairs i < j whose boxes overlap and that are not neighbours on a piece."""
+        ok = (self.ylo[i] <= self.yhi[j]) & (self.ylo[j] <= self.yhi[i])
+        if not x_checked:
+            ok &= (self.xlo[i] <= self.xhi[j]) & (self.xlo[j] <= self.xhi[i])
+        i, j = i[ok], j[ok]
         p = self.piece
-        ok = ~((p[i] == p[j]) & ((j == i + 1) | ((i == self.first[p[i]]) & (j == self.last[p[j]]))))
-        ok &= (self.lo[i] <= self.hi[j]).all(axis=1) & (self.lo[j] <= self.hi[i]).all(axis=1)
+        pi = p[i]
+        ok = ~((pi == p[j]) & ((j == i + 1) | ((i == self.first[pi]) & (j == self.last[pi]))))
         return i[ok], j[ok]
 
     def candidate_pairs(self, qa, qb):
@@ -250,13 +256,13 @@ class _SegmentChains:
         tj = np.arange(self.cs[B], self.ce[B])
         if self.xdir[B] < 0:
             tj = tj[::-1]                     # x increasing along tj
-        xlo, xhi = self.lo[tj, 0], self.hi[tj, 0]
+        xlo, xhi = self.xlo[tj], self.xhi[tj]
         if self.xdir[B] == 0:                 # a vertical chain: every segment spans one x
-            left = np.where(self.lo[si, 0] <= xhi[0], 0, tj.size)
-            right = np.where(self.hi[si, 0] >= xlo[0], tj.size, 0)
+            left = np.where(self.xlo[si] <= xhi[0], 0, tj.size)
+            right = np.where(self.xhi[si] >= xlo[0], tj.size, 0)
         else:
-            left = np.searchsorted(xhi, self.lo[si, 0], side="left")
-            right = np.searchsorted(xlo, self.hi[si, 0], side="right")
+            left = np.searchsorted(xhi, self.xlo[si], side="left")
+            right = np.searchsorted(xlo, self.xhi[si], side="right")
         per = np.maximum(right - left, 0)
         total = int(per.sum())
         if not total:
@@ -266,7 +272,7 @@ class _SegmentChains:
         i = si[rep]
         j = tj[left[rep] + k]
         i, j = np.minimum(i, j), np.maximum(i, j)
-        return self._allowed(i, j)
+        return self._allowed(i, j, x_checked=True)
 
 
 def _segments_meet(p1, p2, q1, q2):
