@@ -4,16 +4,17 @@ The command line bounds the work of a ``--weight`` region integral before it run
 (``cli.WEIGHT_WORK_LIMIT`` units; a unit is meant to be about a nanosecond of numpy
 on one core).  This script checks that model on the machine it runs on:
 
-* for each formula, the region integral over a circle (200 samples for the formulas
-  that once ran away, up to 200,000 for everyday ones, so that each row does enough
-  work to be timed) with the levels the command line allows: evaluation points (counted), predicted units
-  (points x (``formula.POINT_OVERHEAD`` + ``formula.evaluation_cost``, + ``cli.ADAPTIVE_OVERHEAD``
-  for adaptive integration)) and the
-  measured time; the row is the measured nanoseconds per predicted unit, after
-  the part that does not depend on the formula (the per-segment time of the
-  weight ``x``, measured in the same run, which grows with the data only)
-  (target: at most 3, i.e. the model underestimates the formula's time by at
-  most 3x, so the limit of 1e9 units means at most about 3 s of it);
+* for each formula, the region integral over a circle (200 samples for the
+  formulas that once ran away, up to 200,000 for everyday ones, so that each
+  row does enough work to be timed) with the levels the command line allows:
+  evaluation points (counted), predicted units (points x
+  (``formula.POINT_OVERHEAD`` + ``formula.evaluation_cost``, plus
+  ``cli.ADAPTIVE_OVERHEAD`` for adaptive integration)) and the measured time;
+  the row is the measured nanoseconds per predicted unit, after the part that
+  does not depend on the formula (the per-segment time of the weight ``x``,
+  measured in the same run, which grows with the data only) (target: at most
+  3, i.e. the model underestimates the formula's time by at most 3x, so the
+  limit of 1e9 units means at most about 3 s of it);
 * preparing the formulas that once ran for minutes (issue 13: ``((x+y+1)**64)**4``
   46 s, a product of four powers killed at 300 s): parse and build the
   coefficient (degree found without expanding), as a ratio to preparing
