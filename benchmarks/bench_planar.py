@@ -16,6 +16,14 @@ Rows:
   query/segment near-pairs then grows faster than vertices + queries), and
   the peak traced memory of the 10^6-query call.
 
+* the size estimate of issue 13: ``count_crossings`` on the same noisy loop
+  against the two geometry steps (target at most 0.1x: counting first costs
+  little), on a smooth 10^6-sample loop (three turns, few crossings: the case
+  where counting weighs most) against the whole decompose of it (target at
+  most 0.25x), and the time ``decompose`` takes to refuse
+  3,000 uniform-noise points and a 2,001-point star polygon (target at most
+  5 s each; before the estimate they ran 58 s with 3.4 GB, and past 200 s).
+
 Run:  .venv/bin/python benchmarks/bench_planar.py  [--quick]
 """
 
@@ -31,6 +39,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from _harness import Table, best_time, peak_memory  # noqa: E402
 
 import wedgepath as wp  # noqa: E402
+from wedgepath.planar.arrangement import count_crossings  # noqa: E402
 
 
 def interleaved_best(fns, repeat):
@@ -56,6 +65,13 @@ def rippled_loop(n, turns=10):
     return np.column_stack([r * np.cos(t), r * np.sin(t)])
 
 
+def star(n):
+    """A star polygon {n/((n-1)/2)}: nearly every edge crosses every other."""
+    k = np.arange(n)
+    ang = 2 * np.pi * (k * ((n - 1) // 2) % n) / n
+    return np.c_[np.cos(ang), np.sin(ang)]
+
+
 def baseline_faces(pts):
     """shapely alone: node the closed linework and polygonize it into faces."""
     line = shapely.linestrings(np.vstack([pts, pts[:1]]))
@@ -69,13 +85,39 @@ def main(quick=False):
     # ---------------------------------------------------------------- decompose
     n = 2_000 if quick else 10_000
     pts = noisy_loop(n)
-    d = wp.decompose(pts)
-    t_base, t_dec = interleaved_best([lambda: baseline_faces(pts), lambda: wp.decompose(pts)],
+    d = wp.decompose(pts, progress=False)
+    t_base, t_dec = interleaved_best([lambda: baseline_faces(pts),
+                                      lambda: wp.decompose(pts, progress=False)],
                                      repeat=2 if quick else 3)
     table.ratio(f"decompose vs shapely node+polygonize ({n} vertices)", t_dec, t_base, 1.5,
                 note=f"{t_dec:.2f} s vs {t_base:.2f} s, {d.n_faces} faces")
     table.info("  decompose check", f"sum w*area - shoelace = {d.residual:.2g}; "
                f"{d.diagnostics['inconsistent_adjacencies']} inconsistent adjacencies")
+
+    # ---------------------------------------------------------------- size estimate (issue 13)
+    closed = [np.vstack([pts, pts[:1]])]
+    t_count = best_time(lambda: count_crossings(closed), repeat=2 if quick else 3)
+    table.ratio(f"  count_crossings vs shapely node+polygonize ({n} vertices)", t_count, t_base,
+                0.1, note=f"{t_count:.2f} s, {count_crossings(closed).crossings} crossings")
+    m = 200_000 if quick else 1_000_000
+    s_ = np.linspace(0, 2 * np.pi * 3, m + 1)
+    smooth = [np.c_[np.cos(s_) * (1 + 0.2 * np.cos(s_ / 3)), np.sin(s_)]]
+    t_full = best_time(lambda: wp.decompose(smooth[0], progress=False), repeat=2)
+    t_smooth = best_time(lambda: count_crossings(smooth), repeat=3)
+    table.ratio(f"  count_crossings of a smooth {m}-sample loop vs decompose of it",
+                t_smooth, t_full, 0.25, note=f"{t_smooth:.2f} s vs {t_full:.2f} s")
+    for name, curve, old in (("3,000 uniform-noise points", rng.uniform(0, 1, (3000, 2)),
+                              "58 s and 3.4 GB before"),
+                             ("a 2,001-point star polygon", star(2001), "past 200 s before")):
+        def refused(curve=curve):
+            try:
+                wp.decompose(curve, progress=False)
+            except ValueError:
+                return
+            raise AssertionError("not refused")
+        t_ref = best_time(refused, repeat=2)
+        table.value(f"  decompose refuses {name} (about 1e6 or more crossings)", t_ref, 5.0,
+                    unit=" s", note=old)
 
     # ---------------------------------------------------------------- winding_number
     v, q = (2_000, 200_000) if quick else (10_000, 1_000_000)

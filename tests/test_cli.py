@@ -190,9 +190,15 @@ class TestBadInput:
 
 def test_python_dash_m_and_demo(tmp_path):
     out = tmp_path / "demo"
+    out.mkdir()
+    # a file of the user's that shares a name with a figure the demo can draw: --force
+    # replaces only what this run writes (--no-figures: no loop.png), so it stays (issue 13)
+    (out / "loop.png").write_bytes(b"the user's own picture")
     proc = subprocess.run([sys.executable, "-m", "wedgepath", "demo", "--out", str(out),
-                           "--quiet", "--no-figures"], capture_output=True, text=True, timeout=600)
+                           "--quiet", "--no-figures", "--force"], capture_output=True, text=True,
+                          timeout=600)
     assert proc.returncode == 0, proc.stdout + proc.stderr
+    assert (out / "loop.png").read_bytes() == b"the user's own picture"
     assert "cyclic order recovered" in proc.stdout
     assert "all checks passed" in proc.stdout
     rep = json.loads((out / "loop.json").read_text())
@@ -208,8 +214,8 @@ def test_bundled_demo_data_regenerates_identically(tmp_path):
 
 
 class TestOutputFolder:
-    def test_force_removes_what_the_new_run_does_not_write(self, three_signals, tmp_path,
-                                                           capsys):
+    def test_force_replaces_only_what_the_new_run_writes(self, three_signals, tmp_path,
+                                                         capsys):
         f, _, _ = three_signals
         out = tmp_path / "o"
         code, _, err = run(["leadlag", f, "--time", "t", "--window", 100, "--surrogates", 9,
@@ -220,9 +226,13 @@ class TestOutputFolder:
         code, _, err = run(["leadlag", f, "--time", "t", "--out", out, "--no-figures",
                             "--force"], capsys)
         assert code == 0, err
-        # the stale window and significance tables are gone; files not ours are kept
-        assert sorted(p.name for p in out.iterdir()) == ["area_matrix.csv", "notes.txt",
-                                                         "result.json"]
+        # nothing is removed: the earlier run's tables stay, and the manifest says which
+        # files belong to this run (issue 13: --force once deleted files it did not write)
+        assert sorted(p.name for p in out.iterdir()) == [
+            "area_matrix.csv", "manifest.json", "notes.txt", "pvalues.csv", "qvalues.csv",
+            "result.json", "rolling.csv"]
+        listed = [e["name"] for e in json.loads((out / "manifest.json").read_text())["files"]]
+        assert listed == ["result.json", "area_matrix.csv"]
 
     def test_files_get_the_mode_of_an_ordinary_new_file(self, three_signals, tmp_path, capsys):
         import os
@@ -284,3 +294,135 @@ class TestMessages:
         assert code == 2 and "--units names column 'zz'" in err
         code, _, err = run(["leadlag", f, "--units", "a"], capsys)
         assert code == 2 and "expected COL=UNIT" in err and len(err.strip().splitlines()) == 1
+
+
+# =========================================================================== issue 13, 12 and 16
+def _table(path, text):
+    path.write_text(text)
+    return path
+
+
+class TestMessagesSpeakTheCommandLine:
+    """Every message names flags the command line has, and valid answers are answers."""
+
+    def test_zero_matrix_is_a_result_with_a_note(self, tmp_path, capsys):
+        t = np.arange(60.0)
+        f = write_csv(tmp_path / "p.csv", ["t", "a", "b"], np.c_[t, np.ones(60), 2 * np.ones(60)])
+        out = tmp_path / "o"
+        code, stdout, err = run(["leadlag", f, "--out", out, "--quiet"], capsys)
+        assert code == 0, err
+        rep = json.loads((out / "result.json").read_text())
+        assert rep["cyclic_order"] is None and rep["leaders"] == []
+        assert any("the area matrix is zero" in n for n in rep["notes"])
+        assert "no channel leads another" in stdout
+        expect = {"result.json", "area_matrix.csv", "manifest.json"}
+        try:
+            import matplotlib  # noqa: F401
+            expect |= {"lead_matrix.png", "phases.png"}
+        except ImportError:
+            pass
+        assert {p.name for p in out.iterdir()} == expect
+        code, stdout, err = run(["leadlag", f, "--stream", "--json", "--quiet"], capsys)
+        assert code == 0 and json.loads(stdout)["cyclic_order"] is None
+
+    def test_closure_none_names_the_flag(self, tmp_path, capsys):
+        s = np.linspace(0, 5, 50)
+        f = write_csv(tmp_path / "o.csv", ["x", "y"], np.c_[s, np.sin(s)])
+        code, _, err = run(["loop", f, "--x", "x", "--y", "y", "--closure", "none"], capsys)
+        assert code == 2 and "--closure chord" in err and "closure='" not in err
+
+    def test_closure_require_names_tol_and_tol_works(self, tmp_path, capsys):
+        s = np.linspace(0, 2 * np.pi, 81)
+        xy = np.c_[np.cos(s), np.sin(s)]
+        xy[-1] += 1e-3                                  # ends 1e-3 from its start
+        f = write_csv(tmp_path / "c.csv", ["x", "y"], xy)
+        for cmd in (["loop", f, "--x", "x", "--y", "y"], ["leadlag", f]):
+            code, _, err = run(cmd + ["--closure", "require"], capsys)
+            assert code == 2 and "--tol" in err and "closure='" not in err
+            assert "pass a larger tol" not in err
+            code, _, err = run(cmd + ["--closure", "require", "--tol", "0.01", "--json"], capsys)
+            assert code == 0, err
+        code, _, err = run(["leadlag", f, "--tol", "0.01"], capsys)
+        assert code == 2 and "--tol applies to --closure require only" in err
+
+    @pytest.mark.parametrize("text, words", [
+        ("a,b\nnan,1\n,2\nNA,3\n", "column 'a' has no values"),
+        ("a,b\n1,\n,2\n3,\n,4\n", "no row has a value in every column used ('a', 'b')"),
+    ])
+    def test_all_gap_table_names_file_and_columns(self, text, words, tmp_path, capsys):
+        f = _table(tmp_path / "g.csv", text)
+        for cmd in (["leadlag", f], ["loop", f, "--x", "a", "--y", "b"]):
+            code, _, err = run(cmd, capsys)
+            assert code == 2 and words in err and "g.csv" in err
+            assert "X has" not in err and "points has" not in err
+
+    def test_decreasing_times_name_the_flag_and_rows(self, tmp_path, capsys):
+        f = _table(tmp_path / "t.csv", "t,a,b\n0,1,0\n1,0,1\n0.5,-1,0\n3,0,-1\n")
+        code, _, err = run(["leadlag", f, "--time", "t"], capsys)
+        # the reader names the time column, the line and the data row, in the table's words
+        assert code == 2 and "'t'" in err and "data row 3" in err and "times[" not in err
+
+    def test_constant_reference_gives_no_cycles_and_a_note(self, tmp_path, capsys):
+        s = np.linspace(0, 6 * np.pi, 90)
+        f = write_csv(tmp_path / "k.csv", ["x", "y", "z"],
+                      np.c_[np.cos(s), np.sin(s), np.ones(90)])
+        code, stdout, err = run(["loop", f, "--x", "x", "--y", "y", "--cycles-by", "z", "--json",
+                                 "--quiet"], capsys)
+        assert code == 0, err
+        rep = json.loads(stdout)
+        assert rep["cycles"]["count"] == 0 and rep["cycles"]["mean"] is None
+        assert any("'z' is constant" in n and "--cycles-by" in n for n in rep["notes"])
+
+    def test_tangled_loop_is_refused_with_the_flag(self, tmp_path, capsys):
+        n = 2001
+        k = np.arange(n)
+        ang = 2 * np.pi * (k * 1000 % n) / n
+        f = write_csv(tmp_path / "star.csv", ["x", "y"], np.c_[np.cos(ang), np.sin(ang)])
+        code, _, err = run(["loop", f, "--x", "x", "--y", "y", "--quiet"], capsys)
+        assert code == 2 and len(err.strip().splitlines()) == 1
+        assert "crosses itself more than 500,000 times" in err and "--max-crossings" in err
+        assert "max_crossings=" not in err and "extreme coordinates" not in err
+        code, _, err = run(["loop", f, "--x", "x", "--y", "y", "--max-crossings", "50",
+                            "--quiet"], capsys)
+        assert code == 2 and "more than 50 times" in err
+
+    def test_max_crossings_reaches_the_figures(self, tmp_path, capsys):
+        pytest.importorskip("matplotlib")
+        pts = np.random.default_rng(0).uniform(0, 1, (120, 2))   # about 1,400 crossings
+        f = write_csv(tmp_path / "n.csv", ["x", "y"], pts)
+        code, _, err = run(["loop", f, "--x", "x", "--y", "y", "--max-crossings", "1000",
+                            "--quiet"], capsys)
+        assert code == 2
+        code, _, err = run(["loop", f, "--x", "x", "--y", "y", "--max-crossings", "5000",
+                            "--out", tmp_path / "o", "--quiet"], capsys)
+        assert code == 0, err and (tmp_path / "o" / "loop.png").exists()
+
+    def test_no_library_wording_leaks(self, tmp_path, capsys):
+        # a sweep of bad inputs: no message names an argument of the Python API
+        s = np.linspace(0, 5, 50)
+        opened = write_csv(tmp_path / "o.csv", ["x", "y"], np.c_[s, np.sin(s)])
+        good = write_csv(tmp_path / "g.csv", ["t", "x", "y"],
+                         np.c_[np.arange(40.0), np.cos(np.arange(40) / 3), np.sin(np.arange(40) / 3)])
+        gaps = _table(tmp_path / "gap.csv", "a,b\n1,\n,2\n")
+        cases = [
+            ["loop", opened, "--x", "x", "--y", "y", "--closure", "none"],
+            ["loop", opened, "--x", "x", "--y", "y", "--closure", "require"],
+            ["leadlag", opened, "--closure", "require"],
+            ["leadlag", gaps], ["loop", gaps, "--x", "a", "--y", "b"],
+            ["leadlag", good, "--time", "x"],
+            ["leadlag", good, "--window", "1"],
+            ["leadlag", good, "--window", "500"],
+            ["loop", good, "--x", "x", "--y", "y", "--weight", "1e999"],
+            ["loop", good, "--x", "x", "--y", "y", "--weight", "exp(10**60)"],
+            ["loop", good, "--x", "x", "--y", "y", "--weight", "x**(1/0)"],
+            ["loop", good, "--x", "x", "--y", "y", "--weight", "log(x)"],
+            ["loop", good, "--x", "x", "--y", "y", "--level", "5"],
+        ]
+        api = ["closure='", "max_crossings", "n_surrogates", "tol=", "times[", "symbols=",
+               "degree=", "path.plane", "X has", "X contains", "points has", "invalid input",
+               "form coefficient"]
+        for argv in cases:
+            code, _, err = run(argv + ["--quiet"], capsys)
+            assert code in (0, 2), (argv, err)
+            for word in api:
+                assert word not in err, (argv, err)

@@ -278,3 +278,144 @@ def test_inputs_are_not_modified():
     pts.flags.writeable = False
     wp.decompose(pts)
     assert np.array_equal(pts, keep)
+
+
+# =========================================================================== size bound
+# (issue 13, item 12): the arrangement's size is estimated before it is built, refused
+# beyond a documented limit (max_crossings=), and a lack of memory is named as such.
+from wedgepath.planar import arrangement as _arr  # noqa: E402
+
+
+def star(n):
+    """A star polygon {n/((n-1)/2)}: nearly every edge crosses every other."""
+    k = np.arange(n)
+    ang = 2 * np.pi * (k * ((n - 1) // 2) % n) / n
+    return np.c_[np.cos(ang), np.sin(ang)]
+
+
+def brute_force_meetings(pts):
+    """Pairs of non-adjacent edges of the closed polygon that meet (shapely, all pairs)."""
+    P = np.vstack([pts, pts[:1]])
+    segs = [shapely.LineString(P[i:i + 2]) for i in range(len(pts))]
+    n = len(segs)
+    return sum(1 for i in range(n) for j in range(i + 2, n)
+               if not (i == 0 and j == n - 1) and segs[i].intersects(segs[j]))
+
+
+@pytest.mark.parametrize("make", [
+    lambda: np.random.default_rng(0).uniform(0, 1, (60, 2)),
+    lambda: star(31),
+    lambda: np.array([[0, 0], [2, 2], [2, 0], [0, 2]], float),             # figure eight
+    lambda: np.array([[0, 0], [1, 0], [1, 1], [0, 1]] * 2, float),         # traced twice
+    lambda: np.random.default_rng(1).integers(0, 4, (40, 2)).astype(float),  # touching, collinear
+])
+def test_crossing_count_is_exact(make):
+    pts = make()
+    pieces = [_arr.drop_repeats(np.vstack([pts, pts[:1]]))]
+    count = _arr.count_crossings(pieces, limit=None)
+    assert count.crossings == brute_force_meetings(pieces[0][:-1])
+    assert count.complete and count.segments == len(pieces[0]) - 1
+
+
+def test_counting_stops_at_the_limit_and_extrapolates():
+    pts = np.random.default_rng(2).uniform(0, 1, (400, 2))
+    pieces = [np.vstack([pts, pts[:1]])]
+    full = _arr.count_crossings(pieces, limit=None)
+    part = _arr.count_crossings(pieces, limit=full.crossings // 10)
+    assert not part.complete and part.crossings > full.crossings // 10
+    assert part.done < part.segments
+    assert 0.5 * full.crossings < part.estimate < 2 * full.crossings
+
+
+@pytest.fixture
+def no_geometry(monkeypatch):
+    def refuse(*a, **k):
+        raise AssertionError("the arrangement was built")
+    monkeypatch.setattr(shapely, "node", refuse)
+    monkeypatch.setattr(shapely, "polygonize", refuse)
+    monkeypatch.setattr(shapely, "unary_union", refuse)
+
+
+def test_star_is_refused_before_building(no_geometry):
+    with pytest.raises(ValueError) as info:
+        wp.decompose(star(2001))
+    msg = str(info.value)
+    assert "crosses itself more than 500,000 times" in msg and "max_crossings=" in msg
+    assert "GB" in msg and "\n" not in msg
+    assert _arr.MAX_CROSSINGS == 500_000
+
+
+def test_uniform_noise_is_refused_with_a_low_limit(no_geometry):
+    pts = np.random.default_rng(0).uniform(0, 1, (300, 2))
+    with pytest.raises(ValueError, match="more than 1,000 times"):
+        wp.decompose(pts, max_crossings=1000)
+
+
+def test_the_limit_can_be_raised_or_lifted():
+    pts = np.random.default_rng(0).uniform(0, 1, (60, 2))
+    a = wp.decompose(pts, max_crossings=None)
+    b = wp.decompose(pts, max_crossings=10 ** 6)
+    assert a.n_faces == b.n_faces > 100
+    with pytest.raises(ValueError, match="max_crossings must be"):
+        wp.decompose(pts, max_crossings=-1)
+
+
+def test_memory_error_is_named(monkeypatch):
+    def oom(*a, **k):
+        raise MemoryError()
+    monkeypatch.setattr(shapely, "polygonize", oom)
+    with pytest.raises(ValueError) as info:
+        wp.decompose(star(31))
+    msg = str(info.value)
+    assert "memory" in msg and "31 segments" in msg and "crossings" in msg
+    assert "extreme coordinates" not in msg
+
+
+def test_geos_failure_reports_geos_and_no_false_cause(monkeypatch):
+    def fail(*a, **k):
+        raise shapely.errors.GEOSException("std::bad_alloc")
+    monkeypatch.setattr(shapely, "node", fail)
+    monkeypatch.setattr(shapely, "unary_union", fail)
+    with pytest.raises(ValueError) as info:
+        wp.decompose(np.random.default_rng(0).uniform(0, 1, (30, 2)))
+    msg = str(info.value)
+    assert "out of memory" in msg and "extreme coordinates" not in msg
+
+
+def test_progress_only_when_asked_or_slow(capsys):
+    wp.decompose(star(31))
+    assert capsys.readouterr().err == ""
+    wp.decompose(star(31), progress=True)
+    err = capsys.readouterr().err
+    assert "decompose: counting crossings" in err and "decompose: done" in err
+
+
+@PROPS
+@given(int_polygons(max_size=14, span=3))
+def test_crossing_count_matches_brute_force_on_integer_polygons(poly):
+    # small integer coordinates: many touching, collinear and overlapping segments
+    pieces = [_arr.drop_repeats(np.vstack([poly, poly[:1]]))]
+    if len(pieces[0]) < 3:
+        return
+    assert _arr.count_crossings(pieces).crossings == brute_force_meetings(pieces[0][:-1])
+
+
+@pytest.mark.parametrize("n, k", [(400, 3), (333, 5), (500, 2)])
+def test_crossing_count_on_long_monotone_chains(n, k):
+    # rose curves and laps: long monotone chains that cross each other (binary search path)
+    t = np.linspace(0, 2 * np.pi * k, n, endpoint=False)
+    pts = np.c_[np.cos(t) * (1 + 0.3 * np.cos(k * t / 2.5)), np.sin(t) * (1 + 0.2 * np.sin(t))]
+    pieces = [np.vstack([pts, pts[:1]])]
+    seg = _arr._SegmentChains(pieces)
+    assert (seg.ce - seg.cs).max() > 16            # the long-chain path is exercised
+    assert _arr.count_crossings(pieces).crossings == brute_force_meetings(pts)
+
+
+def test_crossing_count_of_several_pieces_and_vertical_runs():
+    a = np.array([[0, 0], [0, 1], [0, 2], [0, 3], [1, 3], [1, 0], [0, 0]], float)
+    b = np.array([[-1, 1.5], [2, 1.5], [2, 2.5], [-1, 2.5], [-1, 1.5]], float)
+    got = _arr.count_crossings([a, b]).crossings
+    segs_a = [shapely.LineString(a[i:i + 2]) for i in range(len(a) - 1)]
+    segs_b = [shapely.LineString(b[i:i + 2]) for i in range(len(b) - 1)]
+    across = sum(1 for s in segs_a for t in segs_b if s.intersects(t))
+    assert got == across + brute_force_meetings(a[:-1]) + brute_force_meetings(b[:-1])

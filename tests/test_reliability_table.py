@@ -307,6 +307,19 @@ row("wp.Form.from_sympy(components, symbols)", "length", "2 components, 1 symbol
     lambda: wp.Form.from_sympy([x_, y_], (x_,)), ValueError, "2 components for 1 symbols")
 row("wp.Form.from_sympy(components, symbols)", "option", "terms of mixed degree",
     lambda: wp.Form.from_sympy({(0,): x_, (0, 1): y_}, (x_, y_)), ValueError, "mixed degree")
+row("wp.Form.from_sympy(components, symbols)", "text", "a string of Python code (parsed, never run)",
+    lambda: wp.Form.from_sympy(["__import__('os').getcwd()", x_], (x_, y_)), ValueError,
+    "only plain function names may be called")
+row("wp.Form.from_sympy(components, symbols)", "text", "a formula string naming an unknown symbol",
+    lambda: wp.Form.from_sympy("z * x", (x_, y_)), ValueError, "unknown name 'z'")
+row("wp.Form.from_sympy(components, symbols)", "object", "bytes as a component",
+    lambda: wp.Form.from_sympy([b"x", 0], (x_, y_)), TypeError, "pass sympy expressions")
+row("wp.TwoForm.from_sympy(components, symbols)", "text", "a string of Python code (parsed, never run)",
+    lambda: wp.TwoForm.from_sympy({(0, 1): "exec('1')"}, (x_, y_)), ValueError,
+    "unknown function 'exec'")
+row("wp.OneForm.from_sympy(exprs, symbols)", "text", "a string of Python code (parsed, never run)",
+    lambda: wp.OneForm.from_sympy(["x.__class__", x_], (x_, y_)), ValueError,
+    "Attribute is not allowed")
 row("Form + Form", "dim", "a 1-form plus a 2-form", lambda: wp.dx(0) + (wp.dx(0) ^ wp.dx(1)),
     ValueError, "a 1-form and a 2-form")
 row("Form + Form", "dim", "forms on R^2 and R^3", lambda: wp.OneForm([1, 2]) + wp.OneForm([1, 2, 3]),
@@ -588,8 +601,25 @@ row("wp.region_integral(f, path2d)", "option", "order=0",
     lambda: wp.region_integral(lambda x, y: x, SQUARE, order=0), ValueError, "order must be >= 1")
 row("wp.region_integral(f, path2d)", "option", "rtol=-1",
     lambda: wp.region_integral(lambda x, y: x, SQUARE, rtol=-1), ValueError, "rtol must be finite")
+row("wp.decompose(path2d)", "option", "a star polygon of 2,001 points (2 million crossings)",
+    lambda: wp.decompose(_star(2001)), ValueError, "crosses itself more than 500,000 times")
+row("wp.decompose(path2d)", "option", "uniform noise, 300 points, max_crossings=1000",
+    lambda: wp.decompose(np.random.default_rng(0).uniform(0, 1, (300, 2)), max_crossings=1000),
+    ValueError, "pass max_crossings= a larger number (or None)")
+row("wp.decompose(path2d)", "option", "max_crossings=-1",
+    lambda: wp.decompose(SQUARE, max_crossings=-1), ValueError, "max_crossings must be")
+row("wp.decompose(path2d)", "option", "progress='yes'",
+    lambda: wp.decompose(SQUARE, progress="yes"), TypeError, "progress must be True, False or None")
 row("Decomposition.significant_lobes(fraction)", "option", "fraction=2",
     lambda: wp.decompose(SQUARE).significant_lobes(2), ValueError, "fraction")
+
+
+
+def _star(n):
+    k = np.arange(n)
+    ang = 2 * np.pi * (k * ((n - 1) // 2) % n) / n
+    return np.c_[np.cos(ang), np.sin(ang)]
+
 
 # =========================================================================== signals
 SIG = "wp.area_matrix(X)"
@@ -1112,6 +1142,9 @@ def run_cli(argv, files=None):
         return code, out.getvalue(), err.getvalue(), written + stray
 
 
+STAR_CSV = "x,y\n" + "".join(f"{float(np.cos(2 * np.pi * (k * 1000 % 2001) / 2001))!r},"
+                             f"{float(np.sin(2 * np.pi * (k * 1000 % 2001) / 2001))!r}\n"
+                             for k in range(2001))
 LOOP_CSV = "t,x,y\n" + "".join(f"{k},{np.cos(k / 3):.6f},{np.sin(k / 3):.6f}\n" for k in range(40))
 for key, (cls, given, content, frag) in MALFORMED.items():
     for sub in ("leadlag", "loop"):
@@ -1164,7 +1197,8 @@ row("wedgepath leadlag", "times", "decreasing time stamps, streamed",
                     {"in.csv": "t,a,b\n3,1,0\n2,0,1\n1,-1,0\n0,0,-1\n"}), "exit 2",
     "times are not strictly increasing")
 row("wedgepath leadlag", "nan", "every row a gap", lambda: run_cli(
-    ["leadlag", "in.csv"], {"in.csv": "a,b\nnan,1\n2,\nNA,3\n"}), "exit 2", "no complete sample")
+    ["leadlag", "in.csv"], {"in.csv": "a,b\nnan,1\n2,\nNA,3\n"}), "exit 2",
+    "no row has a value in every column used ('a', 'b')")
 row("wedgepath leadlag", "option", "--closure require on an open recording",
     lambda: run_cli(["leadlag", "in.csv", "--closure", "require"], {"in.csv": GOOD_CSV[:-7]}),
     "exit 2", "not closed")
@@ -1187,7 +1221,7 @@ row("wedgepath loop", "option", "--level inf",
                     {"in.csv": LOOP_CSV}), "exit 2", "expected a finite number")
 row("wedgepath loop", "option", "--closure none on an open loop",
     lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--closure", "none"],
-                    {"in.csv": LOOP_CSV}), "exit 2", "needs a closed curve")
+                    {"in.csv": LOOP_CSV}), "exit 2", "choose --closure chord (the default)")
 row("wedgepath loop", "overflow", "coordinates near 1e200 (areas beyond float64)",
     lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y"],
                     {"in.csv": "x,y\n0,0\n1e200,0\n1e200,1e200\n0,1e200\n"}), "exit 2",
@@ -1202,6 +1236,34 @@ row("wedgepath loop", "option", "--weight whose nested powers have thousands of 
     lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--weight",
                      "(((9**64)**64)**64)**64"], {"in.csv": LOOP_CSV}), "exit 2",
     "more than 400 digits")
+row("wedgepath leadlag", "option", "--closure require with a gap beyond the default tolerance",
+    lambda: run_cli(["leadlag", "in.csv", "--closure", "require"], {"in.csv": GOOD_CSV[:-7]}),
+    "exit 2", "pass a larger --tol")
+row("wedgepath leadlag", "option", "--tol without --closure require",
+    lambda: run_cli(["leadlag", "in.csv", "--tol", "1"], {"in.csv": GOOD_CSV}), "exit 2",
+    "--tol applies to --closure require only")
+row("wedgepath leadlag", "nan", "a column without a value",
+    lambda: run_cli(["leadlag", "in.csv"], {"in.csv": "a,b,c\n1,,2\n3,,4\n5,,1\n"}), "exit 2",
+    "column 'b' has no values")
+row("wedgepath leadlag", "times", "decreasing time stamps",
+    lambda: run_cli(["leadlag", "in.csv", "--time", "t"],
+                    {"in.csv": "t,a,b\n0,1,0\n1,0,1\n0.5,-1,0\n3,0,-1\n"}), "exit 2",
+    "line 4 (data row 3): times are not strictly increasing: 't' = 0.5 is before 1")
+row("wedgepath loop", "option", "--weight 1e999",
+    lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--weight", "1e999"],
+                    {"in.csv": LOOP_CSV}), "exit 2", "the number ('1e999') has more than 400 digits")
+row("wedgepath loop", "overflow", "--weight exp(10**60) (a constant beyond float64)",
+    lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--weight", "exp(10**60)"],
+                    {"in.csv": LOOP_CSV}), "exit 2", "is a constant beyond float64")
+row("wedgepath loop", "overflow", "--weight not finite on the loop (log(x) where x < 0)",
+    lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--weight", "log(x)"],
+                    {"in.csv": LOOP_CSV}), "exit 2", "--weight 'log(x)' is not finite at (x, y)")
+row("wedgepath loop", "option", "a star polygon of 2,001 points (2 million crossings)",
+    lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y"], {"in.csv": STAR_CSV}), "exit 2",
+    "crosses itself more than 500,000 times")
+row("wedgepath loop", "option", "--max-crossings 0",
+    lambda: run_cli(["loop", "in.csv", "--x", "x", "--y", "y", "--max-crossings", "0"],
+                    {"in.csv": LOOP_CSV}), "exit 2", "expected a positive whole number")
 row("wedgepath demo", "option", "an unknown flag --frobnicate",
     lambda: run_cli(["demo", "--frobnicate"]), "exit 2", "unrecognized arguments: --frobnicate")
 row("wedgepath", "option", "an unknown subcommand", lambda: run_cli(["fly"]), "exit 2",
@@ -1307,7 +1369,8 @@ def test_row(r: Row):
         return
     assert kind == "raised", f"returned {value!r}; expected {r.raises.__name__}"
     assert type(value) is r.raises or (r.raises is ValueError and isinstance(value, ValueError)
-                                       and type(value).__name__ in ("TableError", "ChunkError")), \
+                                       and type(value).__name__ in ("TableError", "ChunkError",
+                                                                   "ArrangementTooLarge")), \
         f"raised {type(value).__name__}: {value}; expected {r.raises.__name__}"
     msg = str(value)
     if isinstance(value, KeyError):

@@ -55,8 +55,17 @@ def as_float_array(value, name: str, *, ndim=None, allow_nan: bool = False,
     copy : bool
         Always return a new array (the default) so that the caller's data can
         never be changed through the result.
+
+    Notes
+    -----
+    A masked array (:class:`numpy.ma.MaskedArray`) is read with its mask:
+    masked entries become NaN (gaps) in a fresh array when ``allow_nan``,
+    and are refused with a ``ValueError`` naming the first one otherwise.
+    The values hidden under the mask are never looked at.
     """
-    if hasattr(value, "to_numpy") and not isinstance(value, np.ndarray):
+    if isinstance(value, np.ma.MaskedArray):
+        value = _unmasked(value, name, allow_nan)
+    elif hasattr(value, "to_numpy") and not isinstance(value, np.ndarray):
         # pandas objects and the like: look at their values, not their index.
         value = value.to_numpy()
     try:
@@ -119,6 +128,38 @@ def as_float_array(value, name: str, *, ndim=None, allow_nan: bool = False,
                 where = np.argwhere(np.isnan(arr))[0]
                 raise ValueError(f"{name} contains NaN at index {tuple(int(w) for w in where)}")
     return arr
+
+
+def _unmasked(value, name: str, allow_nan: bool):
+    """A masked array's data with masked entries as NaN (a new array), or a refusal."""
+    mask = np.ma.getmaskarray(value)
+    data = np.ma.getdata(value)
+    if not mask.any():
+        return data
+    where = tuple(int(w) for w in np.argwhere(mask)[0])
+    count = int(mask.sum())
+    if not allow_nan:
+        raise ValueError(f"{name} is a masked array with {count} masked "
+                         f"entr{'y' if count == 1 else 'ies'} (the first at index {where}); "
+                         f"{name} cannot have gaps: fill them (e.g. {name}.filled(...)) or "
+                         "drop them")
+    kind = data.dtype.kind
+    if kind in "iuf":
+        if kind == "f" and data.dtype.itemsize > 8:
+            # long double: an unmasked value beyond float64 must not become inf silently
+            big = ~mask & np.isfinite(data) & (np.abs(data) > np.finfo(np.float64).max)
+            if big.any():
+                at = tuple(int(w) for w in np.argwhere(big)[0])
+                raise ValueError(f"{name} has an entry too large for float64 at index {at}; "
+                                 "rescale the data")
+        with np.errstate(over="ignore", invalid="ignore"):
+            out = np.array(data, dtype=np.float64, order="C")   # a copy: never the caller's
+    elif kind == "O":
+        out = np.array(data, dtype=object)
+    else:
+        return data                     # complex, bool, text...: refused by the caller's checks
+    out[mask] = np.nan
+    return out
 
 
 def check_choice(value, name: str, choices) -> str:

@@ -16,10 +16,14 @@ Subcommands:
 
 Every subcommand prints a summary for people on standard output; with
 ``--out DIR`` it also writes ``result.json`` (with a schema version) and CSV
-tables for programs, and figures when matplotlib is installed.  Errors in the
-input are reported in one line on standard error with exit code 2
-(``--debug`` shows the traceback).  Existing files are never overwritten
-without ``--force``.
+tables for programs, figures when matplotlib is installed, and
+``manifest.json`` (every file of the run with its size and SHA-256, written
+last).  Errors in the input are reported in one line on standard error with
+exit code 2 (``--debug`` shows the traceback).  The files a run will write
+are known before it computes anything and checked then: an existing file of
+one of those names is replaced only with ``--force``, no other file is ever
+removed, and an output that is the input itself is refused
+(:mod:`wedgepath._outputs`).
 """
 
 from __future__ import annotations
@@ -28,14 +32,15 @@ import argparse
 import json
 import math
 import os
+import signal
 import stat
 import sys
-import tempfile
 import warnings
 
 import numpy as np
 
 from . import __version__
+from ._outputs import Interrupted, OutputSet, csv_text
 from .io import TableError, read_table
 
 SCHEMA_VERSION = 2
@@ -53,77 +58,21 @@ class _Parser(argparse.ArgumentParser):
 
 
 # --------------------------------------------------------------------------- output
-class Output:
-    """Collects files and writes them at the end, all or nothing.
-
-    ``family`` lists every file name the command can write; with ``--force``
-    the members of the family that this run does not write are removed, so a
-    folder never mixes the results of two runs.
-    """
-
-    def __init__(self, folder, force, family=()):
-        self.folder = folder
-        self.force = force
-        self.family = tuple(family)
-        self.files = {}
-
-    def add(self, name, data):
-        self.files[name] = data if isinstance(data, bytes) else data.encode("utf-8")
-
-    def check_free(self, names):
-        """Refuse early when planned outputs exist and --force is not given."""
-        if self.folder is None or self.force:
-            return
-        taken = [n for n in names if os.path.exists(os.path.join(self.folder, n))]
-        if taken:
-            raise CLIError(f"{os.path.join(self.folder, taken[0])} exists; use --force to overwrite")
-
-    def write(self):
-        if self.folder is None or not self.files:
-            return []
-        self.check_free(list(self.files) + [n for n in self.family if n not in self.files])
-        if os.path.exists(self.folder) and not os.path.isdir(self.folder):
-            raise CLIError(f"{self.folder} exists and is not a folder")
-        mode = _file_mode()
-        try:
-            os.makedirs(self.folder, exist_ok=True)
-            staged = []
-            for name, data in self.files.items():
-                fd, tmp = tempfile.mkstemp(prefix=".wedgepath-", dir=self.folder)
-                staged.append((tmp, os.path.join(self.folder, name)))
-                with os.fdopen(fd, "wb") as fh:
-                    fh.write(data)
-                os.chmod(tmp, mode)      # mkstemp makes 0600; results are ordinary files
-        except OSError as exc:
-            for tmp, _ in locals().get("staged", []):
-                _silent_remove(tmp)
-            raise CLIError(f"cannot write to {self.folder}: {exc.strerror}") from None
-        for tmp, final in staged:
-            os.replace(tmp, final)
-        for name in self.family:         # only reached with --force (check_free above)
-            if name not in self.files:
-                _silent_remove(os.path.join(self.folder, name))
-        return [final for _, final in staged]
+def leadlag_files(*, window=False, surrogates=False, figures=False):
+    """The files ``leadlag`` writes with these options (``manifest.json`` comes on top)."""
+    names = ["result.json", "area_matrix.csv"]
+    if window:
+        names.append("rolling.csv")
+    if surrogates:
+        names += ["pvalues.csv", "qvalues.csv"]
+    if figures:
+        names += ["lead_matrix.png", "phases.png"] + (["rolling_lead.png"] if window else [])
+    return names
 
 
-def _file_mode():
-    """0666 less the process umask: the mode ``open()`` would give a new file."""
-    mask = os.umask(0)
-    os.umask(mask)
-    return 0o666 & ~mask
-
-
-def _silent_remove(path):
-    try:
-        os.remove(path)
-    except OSError:
-        pass
-
-
-#: every file each command can write (with --force, those a run does not write are removed)
-LEADLAG_FILES = ("result.json", "area_matrix.csv", "rolling.csv", "pvalues.csv", "qvalues.csv",
-                 "lead_matrix.png", "phases.png", "rolling_lead.png")
-LOOP_FILES = ("result.json", "cycles.csv", "loop.png", "cycles.png")
+def loop_files(*, figures=False):
+    """The files ``loop`` writes (``manifest.json`` comes on top)."""
+    return ["result.json", "cycles.csv"] + (["loop.png", "cycles.png"] if figures else [])
 
 
 def leadlag_tables(rep):
@@ -141,21 +90,16 @@ def leadlag_tables(rep):
 def loop_tables(rep):
     """CSV files (name -> text) of a loop report."""
     c = rep["cycles"]
-    return {"cycles.csv": "cycle,start,stop,value\n" + "".join(
-        f"{k + 1},{_num(a)},{_num(b)},{_num(v)}\n"
-        for k, (a, b, v) in enumerate(zip(c["start"], c["stop"], c["values"])))}
+    rows = [["cycle", "start", "stop", "value"]]
+    rows += [[k + 1, a, b, v] for k, (a, b, v) in enumerate(zip(c["start"], c["stop"],
+                                                                 c["values"]))]
+    return {"cycles.csv": csv_text(rows)}
 
 
 def _matrix_csv(M, names):
-    lines = ["channel," + ",".join(names)]
-    for name, row in zip(names, M):
-        lines.append(name + "," + ",".join(_num(v) for v in row))
-    return "\n".join(lines) + "\n"
-
-
-def _num(v):
-    v = float(v)
-    return "nan" if math.isnan(v) else repr(v)
+    rows = [["channel", *names]]
+    rows += [[name, *(float(v) for v in row)] for name, row in zip(names, M)]
+    return csv_text(rows)
 
 
 def _jsonable(obj):
@@ -237,6 +181,19 @@ def _finite_float(text):
     return v
 
 
+def _nonnegative_float(text):
+    v = _finite_float(text)
+    if v < 0:
+        raise argparse.ArgumentTypeError(f"expected a number >= 0, got {text!r}")
+    return v
+
+
+def _add_tol(p):
+    p.add_argument("--tol", type=_nonnegative_float, default=None, metavar="D",
+                   help="with --closure require: the largest distance allowed between the end "
+                   "and the start of each gap-free piece (default 1e-9 times its extent)")
+
+
 def build_parser():
     parser = _Parser(prog="wedgepath",
                      description="Lead-lag structure and loop areas of recorded signals.")
@@ -251,6 +208,7 @@ def build_parser():
     ll.add_argument("--columns", metavar="A,B,...", help="channels to use (default: all but --time)")
     ll.add_argument("--closure", default="chord", choices=["chord", "none", "detrend", "require"],
                     help="how each gap-free piece is closed (default: chord)")
+    _add_tol(ll)
     ll.add_argument("--normalize", default=None, choices=["hilbert", "zscore", "frobenius"],
                     help="report a normalised lead strength instead of raw areas")
     ll.add_argument("--window", type=_positive_int, metavar="N",
@@ -279,6 +237,7 @@ def build_parser():
     lp.add_argument("--y", required=True, metavar="COL", help="vertical channel (e.g. stress)")
     lp.add_argument("--closure", default="chord", choices=["chord", "detrend", "require", "none"],
                     help="how each gap-free piece is closed (default: chord)")
+    _add_tol(lp)
     lp.add_argument("--cycles-by", metavar="COL",
                     help="split into cycles at upward mean crossings of this column (default: --x)")
     lp.add_argument("--level", type=_finite_float, help="crossing level (default: the mean)")
@@ -289,6 +248,9 @@ def build_parser():
                     "default) or x_dy = ∮ x dy (H dB with H horizontal)")
     lp.add_argument("--weight", metavar="FORMULA",
                     help="also integrate this weight over the region, in x and y, e.g. 'x**2*y'")
+    lp.add_argument("--max-crossings", type=_positive_int, default=None, metavar="N",
+                    help="refuse a loop that crosses itself more than N times before splitting "
+                    "it into faces (default 500000: about 1.7 GB and half a minute)")
     _add_common(lp)
     lp.set_defaults(func=_cmd_loop)
 
@@ -326,13 +288,36 @@ def _want_figures(args):
     return True
 
 
-def _emit(args, payload, summary_lines, out: Output):
-    out.add("result.json", _dump_json(payload))
-    written = out.write()
+def _plan(args, names, command):
+    """The run's output files, checked against the folder before any work is done."""
+    plan = OutputSet(args.out, names, force=args.force, inputs=[args.table], command=command)
+    plan.check()
+    return plan
+
+
+def printable(text):
+    """``text`` safe for a terminal: control characters (escape sequences, carriage
+    returns, tabs) and bidirectional overrides shown as ``\\x1b``-style escapes, so a
+    column name cannot recolour, move the cursor or reorder what the summary shows."""
+    import unicodedata
+    out = []
+    for ch in str(text):
+        if ch != "\n" and (unicodedata.category(ch) == "Cc" or "\u202a" <= ch <= "\u202e"
+                           or "\u2066" <= ch <= "\u2069"):
+            out.append(ch.encode("unicode_escape").decode("ascii"))
+        else:
+            out.append(ch)
+    return "".join(out)
+
+
+def _emit(args, payload, summary_lines, plan: OutputSet, files):
+    files = dict(files)
+    files["result.json"] = _dump_json(payload)
+    written = plan.commit(files)
     if args.json:
         sys.stdout.write(_dump_json(payload))
     else:
-        print("\n".join(summary_lines))
+        print(printable("\n".join(summary_lines)))
         if written:
             print(f"\nwrote {len(written)} file(s) to {args.out}: "
                   + ", ".join(os.path.basename(w) for w in written))
@@ -354,12 +339,21 @@ def _matrix_lines(M, names, indent="  "):
 
 
 # --------------------------------------------------------------------------- leadlag
+ZERO_MATRIX_NOTE = ("the area matrix is zero: no channel leads another (constant or "
+                    "proportional channels, or no closed stretch); there is no cyclic order")
+
+
 def _order_section(A, names, top):
     """Cyclic order, net lead and leaders/laggers of a matrix, as report entries."""
     from .signals import cyclic_order
 
     n = len(names)
     Afin = np.nan_to_num(np.asarray(A, dtype=float), nan=0.0)
+    if not np.any(Afin):
+        # a valid answer (constant or proportional channels): reported, with a note
+        return {"cyclic_order": None, "net_lead": {nm: 0.0 for nm in names},
+                "leaders": [], "laggers": [],
+                "notes": [ZERO_MATRIX_NOTE]}
     order = cyclic_order(Afin)
     lead = Afin.sum(axis=1)
     rank = np.argsort(-lead, kind="stable")
@@ -379,8 +373,13 @@ def _order_section(A, names, top):
 
 def leadlag_report(values, times, names, *, closure="chord", normalize=None, window=None,
                    step=None, surrogates=None, surrogate_method="shift", seed=0, top=3,
-                   progress=None):
-    """Compute the lead-lag report as a JSON-ready dict (used by the CLI and the demo)."""
+                   progress=None, tol=None):
+    """Compute the lead-lag report as a JSON-ready dict (used by the CLI and the demo).
+
+    A zero area matrix (constant or proportional channels) is a result: its
+    ``cyclic_order`` is None and a note says why.  ``tol`` is the gap allowed
+    by ``closure="require"``.
+    """
     from .signals import area_matrix, rolling_area_matrix, surrogate_test
 
     n = values.shape[1]
@@ -388,9 +387,14 @@ def leadlag_report(values, times, names, *, closure="chord", normalize=None, win
         raise CLIError(f"lead-lag needs at least 2 channels, got {n}")
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        A = area_matrix(values, times=times, closure=closure, normalize=normalize)
-        raw = A if normalize is None else area_matrix(values, times=times, closure=closure)
+        A = area_matrix(values, times=times, closure=closure, normalize=normalize,
+                        names=list(names), tol=tol)
+        raw = A if normalize is None else area_matrix(values, times=times, closure=closure,
+                                                      names=list(names), tol=tol)
+    A, raw = np.asarray(A), np.asarray(raw)
     notes = [str(w.message) for w in caught]
+    order = _order_section(A, names, top)
+    notes += order.pop("notes", [])
     report = {
         "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
         "wedgepath_version": __version__,
@@ -400,7 +404,7 @@ def leadlag_report(values, times, names, *, closure="chord", normalize=None, win
         "normalize": normalize,
         "area_matrix": A,
         "raw_area_matrix": raw,
-        **_order_section(A, names, top),
+        **order,
         "notes": notes,
     }
     if window is not None:
@@ -457,7 +461,9 @@ def leadlag_summary(rep):
              f"\n{what}: A[i, j] > 0 means row i leads column j"]
     lines += _matrix_lines(np.asarray(rep["area_matrix"], dtype=float), names)
     co = rep["cyclic_order"]
-    if len(names) == 2:
+    if co is None:
+        lines.append("\nno channel leads another: the area matrix is zero")
+    elif len(names) == 2:
         A = np.asarray(rep["area_matrix"], dtype=float)
         a, b = (0, 1) if A[0, 1] >= 0 else (1, 0)
         lines.append(f"\n{names[a]} leads {names[b]} (A = {abs(A[0, 1]):.6g})")
@@ -493,33 +499,62 @@ def leadlag_summary(rep):
     return lines
 
 
+def _check_tol(args):
+    if args.tol is not None and args.closure != "require":
+        raise CLIError("--tol applies to --closure require only")
+
+
+def _check_complete_rows(table, values, names):
+    """Refuse a table without one complete row, naming the empty columns (if any)."""
+    if values.size and (~np.isnan(values).any(axis=1)).any():
+        return
+    empty = [nm for k, nm in enumerate(names) if np.isnan(values[:, k]).all()]
+    if empty:
+        raise CLIError(f"{table}: column{'s' if len(empty) > 1 else ''} "
+                       f"{', '.join(repr(e) for e in empty)} "
+                       f"{'have' if len(empty) > 1 else 'has'} no values (every cell is empty "
+                       "or not a number)")
+    raise CLIError(f"{table}: no row has a value in every column used "
+                   f"({', '.join(repr(n) for n in names)}): every row has a gap")
+
+
 def _cmd_leadlag(args):
-    out = Output(args.out, args.force, LEADLAG_FILES)
-    planned = ["result.json", "area_matrix.csv"]
-    if args.window:
-        planned.append("rolling.csv")
-    if args.surrogates:
-        planned += ["pvalues.csv", "qvalues.csv"]
-    out.check_free(planned)
+    _check_tol(args)
     if args.step is not None and args.window is None:
         raise CLIError("--step needs --window")
     if args.stream:
-        return _cmd_leadlag_stream(args, out)
+        clash = [flag for flag, val in (("--window", args.window),
+                                         ("--surrogates", args.surrogates),
+                                         ("--normalize", args.normalize)) if val]
+        if clash:
+            raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
+        if args.closure != "chord":
+            raise CLIError("--stream supports --closure chord only")
+    figures = _want_figures(args)
+    plan = _plan(args, leadlag_files(window=bool(args.window), surrogates=bool(args.surrogates),
+                                     figures=figures), "leadlag")
+    if args.stream:
+        return _cmd_leadlag_stream(args, plan, figures)
     tab = _load(args, args.columns)
     _check_units(args, tab.names + ([args.time] if args.time else []))
+    _check_complete_rows(args.table, tab.values, tab.names)
     rep = leadlag_report(tab.values, tab.times, tab.names, closure=args.closure,
                          normalize=args.normalize, window=args.window, step=args.step,
                          surrogates=args.surrogates, surrogate_method=args.surrogate_method,
-                         seed=args.seed, top=args.top, progress=_progress_flag(args))
-    rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
+                         seed=args.seed, top=args.top, progress=_progress_flag(args),
+                         tol=args.tol)
+    rep["input"] = {"table": _table_label(args.table), "time_column": args.time}
     rep["units"] = dict(args.units)
-    for name, text in leadlag_tables(rep).items():
-        out.add(name, text)
-    if _want_figures(args):
+    files = leadlag_tables(rep)
+    if figures:
         from . import plotting
-        for name, png in plotting.leadlag_figures(rep, units=args.units).items():
-            out.add(name, png)
-    return _emit(args, rep, leadlag_summary(rep), out)
+        files.update(plotting.leadlag_figures(rep, units=args.units))
+    return _emit(args, rep, leadlag_summary(rep), plan, files)
+
+
+def _table_label(path):
+    """The input as recorded in the JSON: an absolute path, or "-" for standard input."""
+    return "-" if path == "-" else os.path.abspath(path)
 
 
 def _estimated_rows(path):
@@ -541,16 +576,10 @@ def _estimated_rows(path):
     return max(1, int(size / (len(head) / lines)))
 
 
-def _cmd_leadlag_stream(args, out):
+def _cmd_leadlag_stream(args, plan, figures):
     from ._progress import Progress
     from .io import stream_area_matrix
 
-    clash = [flag for flag, val in (("--window", args.window), ("--surrogates", args.surrogates),
-                                     ("--normalize", args.normalize)) if val]
-    if clash:
-        raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
-    if args.closure != "chord":
-        raise CLIError("--stream supports --closure chord only")
     total = _estimated_rows(args.table)
     with Progress(total or 1, "rows read (estimate)",
                   enabled=False if args.quiet or total is None else None) as bar:
@@ -563,36 +592,34 @@ def _cmd_leadlag_stream(args, out):
                                delimiter=args.delimiter, chunk_rows=args.chunk_rows, progress=tick)
     names = list(A.names)
     M = A.values
+    order = _order_section(M, names, args.top)
+    order_notes = order.pop("notes", [])
     rep = {
         "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
         "wedgepath_version": __version__,
         "channels": names, "samples": int(last[0]), "closure": "chord", "normalize": None,
         "streamed": True, "chunk_rows": args.chunk_rows,
         "area_matrix": M, "raw_area_matrix": M,
-        **_order_section(M, names, args.top),
-        "notes": [],
-        "input": {"table": os.path.abspath(args.table), "time_column": args.time},
+        **order,
+        "notes": order_notes,
+        "input": {"table": _table_label(args.table), "time_column": args.time},
     }
     _check_units(args, names + ([args.time] if args.time else []))
     rep["units"] = dict(args.units)
-    for name, text in leadlag_tables(rep).items():
-        out.add(name, text)
-    if _want_figures(args):
+    files = leadlag_tables(rep)
+    if figures:
         from . import plotting
-        for name, png in plotting.leadlag_figures(rep, units=args.units).items():
-            out.add(name, png)
-    return _emit(args, rep, leadlag_summary(rep), out)
+        files.update(plotting.leadlag_figures(rep, units=args.units))
+    return _emit(args, rep, leadlag_summary(rep), plan, files)
 
 
 def _rolling_csv(r, names):
     pairs = [(i, j) for i in range(len(names)) for j in range(len(names)) if i < j]
-    head = "start_time,end_time," + ",".join(f"{names[i]}|{names[j]}" for i, j in pairs)
-    lines = [head]
+    rows = [["start_time", "end_time", *(f"{names[i]}|{names[j]}" for i, j in pairs)]]
     areas = np.asarray(r["areas"])
     for k in range(areas.shape[0]):
-        vals = ",".join(_num(areas[k, i, j]) for i, j in pairs)
-        lines.append(f"{_num(r['start_time'][k])},{_num(r['end_time'][k])},{vals}")
-    return "\n".join(lines) + "\n"
+        rows.append([r["start_time"][k], r["end_time"][k], *(areas[k, i, j] for i, j in pairs)])
+    return csv_text(rows)
 
 
 # --------------------------------------------------------------------------- loop
@@ -600,7 +627,8 @@ ENERGY_FORMS = ("y_dx", "x_dy")
 
 
 def loop_report(xy, times, names, *, closure="chord", reference=None, reference_name=None,
-                level=None, hysteresis=0.0, energy="y_dx", weight=None, stages=None):
+                level=None, hysteresis=0.0, energy="y_dx", weight=None, stages=None,
+                max_crossings=None, progress=False, return_decomposition=False, tol=None):
     """Compute the loop report of the planar curve ``xy`` (T, 2) as a JSON-ready dict.
 
     ``energy`` chooses the per-cycle quantity: ``"y_dx"`` is ∮ y dx (work of
@@ -608,7 +636,10 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
     with x = V, y = p), ``"x_dy"`` is ∮ x dy (e.g. H dB with x = H, y = B).
     They differ only in sign: ∮ x dy = -∮ y dx = the signed area.
     ``reference`` (T,) is the channel whose upward crossings cut cycles
-    (default: x).
+    (default: x).  ``max_crossings`` (default: the library's) and
+    ``progress`` go to :func:`~wedgepath.decompose`; a curve beyond the limit
+    is refused with a message naming ``--max-crossings``.  With
+    ``return_decomposition`` the result is ``(report, decomposition)``.
     """
     import sympy as sp
 
@@ -619,12 +650,19 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
     if energy not in ENERGY_FORMS:
         raise CLIError(f"unknown energy form {energy!r}; choose one of {', '.join(ENERGY_FORMS)}")
     stage = stages.start if stages is not None else (lambda name: None)
+    if weight is not None:
+        # parsed and its work bounded before anything is computed (a refusal comes at once)
+        x, y = sp.symbols("x y", real=True)
+        expr = parse_weight(weight, (x, y))
+        levels = weight_levels(expr, (x, y), _segments(xy))
     path = Path(xy, times=times, names=names)
+    if closure == "require" and tol is not None:
+        path = path.close("require", tol=tol)     # closed within tol: exactly closed after
     stage("areas and faces")
     sa = signed_area(path, closure=closure)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        dec = decompose(path, closure=closure)
+        dec = _decompose(path, closure, max_crossings, progress)
         stage("moments and cycles")
         mom = region_moments(path, closure=closure)
     centroid = getattr(mom, "centroid", None)
@@ -649,29 +687,152 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
     ref_col = 0 if reference is None else 2
     # A[i, j] = ∮ x_i dx_j on each closed cycle: y dx is A[1, 0], x dy is A[0, 1]
     i, j = (1, 0) if energy == "y_dx" else (0, 1)
-    cyc = cycle_areas(data, i, j, reference=ref_col, level=level, hysteresis=hysteresis,
-                      times=times)
+    ref_name = reference_name or names[0]
+    try:
+        cyc = cycle_areas(data, i, j, reference=ref_col, level=level, hysteresis=hysteresis,
+                          times=times)
+    except ValueError as exc:
+        if "is constant, so it has no crossings" in str(exc):
+            cyc = None          # a valid answer: no cycle at all, said in a note
+            rep["notes"].append(f"no cycles: the column {ref_name!r} is constant, so it never "
+                                "crosses a level (choose another --cycles-by)")
+        elif "has no samples" in str(exc):
+            raise CLIError(f"the column {ref_name!r} that cuts cycles has no values (every "
+                           "cell is empty); choose another --cycles-by") from None
+        else:
+            raise
+    empty = np.zeros(0)
     rep["cycles"] = {
-        "reference": reference_name or names[0],
+        "reference": ref_name,
         "quantity": "integral of y dx per cycle" if energy == "y_dx" else "integral of x dy per cycle",
-        "count": int(cyc.count),
-        "values": cyc.areas,
-        "start": cyc.start_times if cyc.start_times is not None else cyc.starts,
-        "stop": cyc.stop_times if cyc.stop_times is not None else cyc.stops,
-        "mean": float(cyc.mean), "std": float(cyc.std),
+        "count": 0 if cyc is None else int(cyc.count),
+        "values": empty if cyc is None else cyc.areas,
+        "start": empty if cyc is None else (cyc.start_times if cyc.start_times is not None
+                                            else cyc.starts),
+        "stop": empty if cyc is None else (cyc.stop_times if cyc.stop_times is not None
+                                           else cyc.stops),
+        "mean": math.nan if cyc is None else float(cyc.mean),
+        "std": math.nan if cyc is None else float(cyc.std),
     }
     if weight is not None:
-        from .formula import parse_formula
         stage("weight")
-        x, y = sp.symbols("x y", real=True)
-        expr = parse_formula(weight, {"x": x, "y": y})
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always")
-            r = region_integral(expr, path, closure=closure, symbols=(x, y))
-        rep["notes"] += [str(w.message) for w in caught]
+            try:
+                r = region_integral(expr, path, closure=closure, symbols=(x, y),
+                                    max_levels=levels)
+            except ValueError as exc:
+                raise CLIError(_weight_message(str(exc), weight)) from None
+        notes = [str(w.message) for w in caught]
+        if levels < _ADAPTIVE_LEVELS and any("not reached" in n for n in notes):
+            notes.append(f"the refinement of --weight was capped at {levels} levels by the "
+                         f"work limit ({WEIGHT_WORK_LIMIT:.0e} units, docs/cli.md)")
+        rep["notes"] += notes
         rep["weighted_integral"] = {"formula": weight, "value": float(r), "error": r.error,
                                     "exact": r.exact, "method": r.method}
-    return rep
+    return (rep, dec) if return_decomposition else rep
+
+
+def _decompose(path, closure, max_crossings, progress):
+    """decompose, with a refusal for size in the command line's words."""
+    from .planar import decompose
+    from .planar.arrangement import MAX_CROSSINGS, ArrangementTooLarge
+
+    limit = MAX_CROSSINGS if max_crossings is None else max_crossings
+    try:
+        return decompose(path, closure=closure, max_crossings=limit, progress=progress)
+    except ArrangementTooLarge as exc:
+        msg = str(exc).removeprefix("decompose: ")
+        if exc.cause == "memory":
+            raise CLIError("the loop's arrangement does not fit in memory: " + msg) from None
+        msg = msg.split(": pass max_crossings=")[0]
+        # the count is an estimate: suggest half as much again, rounded up to 2 digits
+        want = 1.5 * exc.crossings
+        step = 10 ** max(0, int(math.log10(want)) - 1)
+        need = int(math.ceil(want / step) * step)
+        raise CLIError(f"the loop is too tangled to split into faces: {msg}; to build it anyway "
+                       f"pass --max-crossings {need} or more") from None
+
+
+#: work units (about nanoseconds of numpy on one core) that integrating a --weight may take:
+#: evaluation points x (formula.POINT_OVERHEAD + formula.evaluation_cost(formula)); see
+#: docs/cli.md and benchmarks/bench_formulas.py
+WEIGHT_WORK_LIMIT = 1e9
+#: the library's default refinement depth of adaptive region integrals
+_ADAPTIVE_LEVELS = 30
+#: points of the first adaptive pass per segment (4x4 and 5x5 Gauss rules)
+_ADAPTIVE_POINTS = 41
+#: work units per point of adaptive integration on top of the formula (the bookkeeping of
+#: the cells; measured by benchmarks/bench_formulas.py)
+ADAPTIVE_OVERHEAD = 40
+
+
+def parse_weight(text, symbols):
+    """The --weight formula as sympy (the safe parser), messages in the CLI's words."""
+    from .formula import parse_formula
+    try:
+        return parse_formula(text, {s.name: s for s in symbols})
+    except ValueError as exc:
+        raise CLIError("--weight: " + str(exc).removeprefix("formula: ")) from None
+
+
+def _segments(xy):
+    """Segments of the closed loop (an upper bound): one per complete sample."""
+    return int((~np.isnan(xy).any(axis=1)).sum())
+
+
+def weight_levels(expr, symbols, segments, limit=None):
+    """Refinement levels that keep integrating ``expr`` over ``segments`` within the work limit.
+
+    A polynomial weight is integrated exactly with a fixed number of points per
+    segment: refused (CLIError) when they cost more than the limit.  Any other
+    weight is integrated adaptively; each level of refinement at most doubles
+    the cells, so ``L`` levels cost at most ``(2**(L+1) - 1)`` times the first
+    pass, and ``L`` is the largest that stays within the limit (at most the
+    library's 30).
+    """
+    from .calculus.forms import Coefficient
+    from .calculus.quadrature import points_needed
+    from .formula import POINT_OVERHEAD, evaluation_cost
+
+    limit = WEIGHT_WORK_LIMIT if limit is None else limit
+    try:
+        coef = Coefficient.from_sympy(expr, symbols)
+    except ValueError as exc:
+        raise CLIError("--weight: " + str(exc).replace("form coefficient", "the formula")) \
+            from None
+    if coef.kind == "constant" or segments == 0:
+        return _ADAPTIVE_LEVELS
+    per_point = POINT_OVERHEAD + evaluation_cost(expr)
+    if coef.poly_degree is not None:
+        d = coef.poly_degree
+        points = segments * points_needed(d + 1) * points_needed(d)
+        if points * per_point > limit:
+            raise CLIError(f"--weight: exact integration of this degree-{d} polynomial over "
+                           f"{segments} segments takes {points:.3g} evaluations of "
+                           f"{per_point} work units each, above the limit of {limit:.0e} "
+                           "units; use a formula of lower degree or fewer samples")
+        return _ADAPTIVE_LEVELS
+    per_point += ADAPTIVE_OVERHEAD
+    first = segments * _ADAPTIVE_POINTS * per_point
+    if first > limit:
+        raise CLIError(f"--weight: one pass of adaptive integration over {segments} segments "
+                       f"takes {segments * _ADAPTIVE_POINTS:.3g} evaluations of {per_point} "
+                       f"work units each, above the limit of {limit:.0e} units; use a simpler "
+                       "formula or fewer samples")
+    return int(min(_ADAPTIVE_LEVELS, math.floor(math.log2(limit / first + 1)) - 1))
+
+
+def _weight_message(msg, weight):
+    """A library error of the weight's integral, in the command line's words."""
+    import re
+    m = re.match(r"f is not finite at the point \[(.*?)\](.*)$", msg)
+    if m:
+        return f"--weight {weight!r} is not finite at (x, y) = ({m.group(1)}){m.group(2)}"
+    if "overflows float64" in msg:
+        return (f"the region integral of --weight {weight!r} overflows float64: the weight's "
+                "values or the coordinates are too large (rescale the data or the formula)")
+    return msg
 
 
 def loop_summary(rep):
@@ -713,22 +874,26 @@ def loop_summary(rep):
 def _cmd_loop(args):
     from ._progress import Stages
 
-    out = Output(args.out, args.force, LOOP_FILES)
-    out.check_free(["result.json", "cycles.csv"])
+    _check_tol(args)
     cols = [args.x, args.y]
     if args.x == args.y:
         raise CLIError("--x and --y name the same column")
+    if args.weight is not None:
+        import sympy as sp
+        parse_weight(args.weight, sp.symbols("x y", real=True))   # a bad formula fails first
+    figures = _want_figures(args)
+    plan = _plan(args, loop_files(figures=figures), "loop")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
     tab = _load(args, cols + ([extra] if extra else []))
     _check_units(args, tab.names + ([args.time] if args.time else []))
     xy = tab.values[:, :2]
+    _check_complete_rows(args.table, xy, cols)
     if args.cycles_by == args.y:
         reference = tab.values[:, 1]
     elif extra:
         reference = tab.values[:, 2]
     else:
         reference = None
-    figures = _want_figures(args)
     steps = ["areas and faces", "moments and cycles"] + (["weight"] if args.weight else []) \
         + (["figures"] if figures else [])
     # shown for long inputs only (decomposing a noisy loop of 10^4+ samples takes a while)
@@ -736,18 +901,19 @@ def _cmd_loop(args):
         rep = loop_report(xy, tab.times, cols, closure=args.closure, reference=reference,
                           reference_name=args.cycles_by, level=args.level,
                           hysteresis=args.hysteresis, energy=args.energy, weight=args.weight,
-                          stages=stages)
-        rep["input"] = {"table": os.path.abspath(args.table), "time_column": args.time}
+                          stages=stages, max_crossings=args.max_crossings,
+                          progress=False if (args.quiet or stages.enabled) else None,
+                          return_decomposition=True, tol=args.tol)
+        rep, dec = rep
+        rep["input"] = {"table": _table_label(args.table), "time_column": args.time}
         rep["units"] = dict(args.units)
-        for name, text in loop_tables(rep).items():
-            out.add(name, text)
+        files = loop_tables(rep)
         if figures:
             stages.start("figures")
             from . import plotting
-            for name, png in plotting.loop_figures(xy, cols, rep, closure=args.closure,
-                                                   units=args.units).items():
-                out.add(name, png)
-    return _emit(args, rep, loop_summary(rep), out)
+            files.update(plotting.loop_figures(xy, cols, rep, closure=args.closure,
+                                               units=args.units, decomposition=dec))
+    return _emit(args, rep, loop_summary(rep), plan, files)
 
 
 # --------------------------------------------------------------------------- demo
@@ -758,6 +924,42 @@ def _cmd_demo(args):
 
 
 # --------------------------------------------------------------------------- main
+#: library wording -> the command line's (argument names become flags)
+_WORDS = [
+    (r"^(?:signed_area|decompose|region_integral|region_moments|winding_number|cycle_areas|"
+     r"area_matrix|rolling_area_matrix|hilbert_energy|surrogate_test): ", ""),
+    (r"^(?:signed_area|decompose|region_integral|region_moments|winding_number) needs a "
+     r"closed curve", "--closure none needs a closed loop"),
+    (r" \(options: 'none', 'chord', 'detrend', 'require'\)", ""),
+    (r" and closure='none';", ";"),
+    (r"closure='(\w+)'", r"--closure \1"),
+    (r"(--closure \w+(?: \(the default\))?),? '(\w+)'(,)? or '(\w+)'", r"\1, \2\3 or \4"),
+    (r"(--closure \w+) or '(\w+)'", r"\1 or \2"),
+    (r"pass a larger tol\b", "pass a larger --tol (the distance allowed between the end and "
+     "the start)"),
+    (r"times must be strictly increasing; times\[(\d+)\]=(\S+) does not exceed "
+     r"times\[(\d+)\]=(\S+)", lambda m: (
+         f"the --time column must be strictly increasing; data row {int(m[1]) + 1} ({m[2]}) "
+         f"does not exceed data row {int(m[3]) + 1} ({m[4]})")),
+    (r"^(?:X|points|path) has no complete sample: every row contains NaN",
+     "no row has a value in every column used: every row has a gap"),
+    (r"^(?:X|points) contains", "the table contains"),
+    (r"\bn_surrogates\b", "--surrogates"),
+    (r"^window=(\d+)", r"--window \1"),
+    (r"^(window|step|hysteresis|level|tol) must", r"--\1 must"),
+    (r"rescale the path \(e\.g\. divide it by its largest value\)",
+     "rescale the data (e.g. divide each column by its largest value)"),
+]
+
+
+def cli_words(msg):
+    """A library error message in the command line's words (flags, not argument names)."""
+    import re
+    for pattern, repl in _WORDS:
+        msg = re.sub(pattern, repl, msg)
+    return msg
+
+
 def _one_line_warning(message, category, filename, lineno, file=None, line=None):
     text = str(message).strip().splitlines()
     print(f"wedgepath: warning: {text[0] if text else category.__name__}", file=sys.stderr)
@@ -774,13 +976,20 @@ def main(argv=None) -> int:
         with warnings.catch_warnings():
             warnings.showwarning = _one_line_warning
             return int(args.func(args) or 0)
-    except KeyboardInterrupt:
-        print("wedgepath: interrupted", file=sys.stderr)
-        return 130
+    except KeyboardInterrupt as exc:
+        signum = getattr(exc, "signum", signal.SIGINT)
+        where = getattr(exc, "folder", None)
+        name = signal.Signals(signum).name
+        print(f"wedgepath: interrupted ({name})" + (
+            f" while writing to {where}: it holds no manifest.json, so its files are not one "
+            "complete run; temporary files were removed" if where else ""), file=sys.stderr)
+        return 128 + int(signum)
     except (CLIError, TableError, ValueError, TypeError, KeyError) as exc:
         if args.debug:
             raise
         msg = str(exc).strip().splitlines()[0] if str(exc).strip() else type(exc).__name__
+        if not isinstance(exc, (CLIError, TableError)):
+            msg = cli_words(msg)
         print(f"wedgepath: error: {msg}", file=sys.stderr)
         return 2
     except OSError as exc:

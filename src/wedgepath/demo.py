@@ -15,6 +15,7 @@ ground truth is stated there and in ``docs/demo.md``.
 from __future__ import annotations
 
 import math
+import os
 import sys
 from importlib import resources
 
@@ -35,6 +36,22 @@ def bundled(name: str):
         return read_table(f, time_column="time_s")
 
 
+def _bundled_path(name: str):
+    """The bundled table's path on disk, or None (e.g. inside a zip)."""
+    res = resources.files("wedgepath") / "data" / name
+    return str(res) if isinstance(res, os.PathLike) or hasattr(res, "__fspath__") else None
+
+
+def planned_files(figures: bool) -> list:
+    """The files ``wedgepath demo --out DIR`` writes (``manifest.json`` comes on top)."""
+    from .cli import leadlag_files, loop_files
+    names = ["leadlag.json", "loop.json"]
+    names += [f for f in leadlag_files(window=True, surrogates=True, figures=figures)
+              if f != "result.json"]
+    names += [f for f in loop_files(figures=figures) if f != "result.json"]
+    return names
+
+
 def _same_cycle(found, truth):
     """True when ``found`` is a rotation of ``truth``."""
     if sorted(found) != sorted(truth):
@@ -45,13 +62,22 @@ def _same_cycle(found, truth):
 
 def run(out=None, force=False, figures=True, quiet=False) -> int:
     """Run the demo; print summaries and checks; return 0 when every check passes."""
-    from .cli import LEADLAG_FILES, LOOP_FILES, Output, _dump_json, leadlag_report, \
-        leadlag_summary, leadlag_tables, loop_report, loop_summary, loop_tables
+    from ._outputs import OutputSet
+    from .cli import _dump_json, leadlag_report, leadlag_summary, leadlag_tables, \
+        loop_report, loop_summary, loop_tables
 
-    family = ("leadlag.json", "loop.json") + tuple(
-        f for f in LEADLAG_FILES + LOOP_FILES if f != "result.json")
-    output = Output(out, force, family)
-    output.check_free(["leadlag.json", "loop.json", "area_matrix.csv"])
+    figures = bool(figures) and out is not None
+    if figures:
+        try:
+            import matplotlib  # noqa: F401
+        except ImportError:
+            print("note: matplotlib is not installed; no figures drawn", file=sys.stderr)
+            figures = False
+    # every file is known and checked before the work: a taken name fails at once
+    output = OutputSet(out, planned_files(figures), force=force, command="demo",
+                       inputs=[_bundled_path(n) for n in ("ring_sensors.csv", "load_test.csv")])
+    output.check()
+    files = {}
     ok = True
 
     ring = bundled("ring_sensors.csv")
@@ -69,16 +95,16 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
           f"(true order: {' -> '.join(RING_ORDER)})")
     rep["input"] = {"table": "wedgepath/data/ring_sensors.csv", "time_column": "time_s"}
     rep["units"] = {"time_s": "s"}
-    output.add("leadlag.json", _dump_json(rep))
-    for name, text in leadlag_tables(rep).items():
-        output.add(name, text)
+    files["leadlag.json"] = _dump_json(rep)
+    files.update(leadlag_tables(rep))
 
     load = bundled("load_test.csv")
     print()
     print("=" * 72)
     print("2. Loop: cyclic load test of an elastomer pad (invented data)")
     print("=" * 72)
-    lrep = loop_report(load.values, load.times, load.names, energy="y_dx")
+    lrep, dec = loop_report(load.values, load.times, load.names, energy="y_dx",
+                            progress=False if quiet else None, return_decomposition=True)
     print("\n".join(loop_summary(lrep)))
     omega = 2 * math.pi * LOAD["f"]
     truth = math.pi * LOAD["eta"] * omega * LOAD["e0"] ** 2
@@ -91,25 +117,18 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
           f"{'recovered' if good else 'NOT recovered'} within {100 * rel:.2f}%")
     lrep["input"] = {"table": "wedgepath/data/load_test.csv", "time_column": "time_s"}
     lrep["units"] = {"strain": "mm/mm", "stress_MPa": "MPa", "time_s": "s"}
-    output.add("loop.json", _dump_json(lrep))
-    for name, text in loop_tables(lrep).items():
-        output.add(name, text)
+    files["loop.json"] = _dump_json(lrep)
+    files.update(loop_tables(lrep))
 
-    if figures and out is not None:
-        try:
-            from . import plotting
-        except ImportError:
-            print("note: matplotlib is not installed; no figures drawn", file=sys.stderr)
-        else:
-            for name, png in plotting.leadlag_figures(rep, units=rep["units"]).items():
-                output.add(name, png)
-            xy = np.asarray(load.values)
-            # the known energy per cycle, in the data's units (MPa x mm/mm = MJ/m^3)
-            for name, png in plotting.loop_figures(xy, load.names, lrep, units=lrep["units"],
-                                                   reference=truth,
-                                                   reference_label="known value").items():
-                output.add(name, png)
-    written = output.write()
+    if figures:
+        from . import plotting
+        files.update(plotting.leadlag_figures(rep, units=rep["units"]))
+        xy = np.asarray(load.values)
+        # the known energy per cycle, in the data's units (MPa x mm/mm = MJ/m^3)
+        files.update(plotting.loop_figures(xy, load.names, lrep, units=lrep["units"],
+                                           reference=truth, reference_label="known value",
+                                           decomposition=dec))
+    written = output.commit(files)
     if written:
         print(f"\nwrote {len(written)} file(s) to {out}")
     print("\nall checks passed" if ok else "\nSOME CHECKS FAILED")

@@ -43,14 +43,24 @@ def _diverging():
 DIVERGING = "wedgepath_div"
 
 
+def _literal(text) -> str:
+    """``text`` drawn as it is: a ``$`` is escaped so that matplotlib never reads math text.
+
+    Channel names and units come from data files; ``cost_$_total`` beside
+    ``price_$`` would otherwise open a math span (garbled labels, or a parse
+    error that stops the figure).
+    """
+    return str(text).replace("$", "\\$")
+
+
 def _labels(names, n, what="names"):
-    """``names`` as a list of n strings (checked before any figure is made)."""
+    """``names`` as a list of n strings, escaped to be drawn literally (checked first)."""
     if isinstance(names, str) or not hasattr(names, "__len__"):
         raise TypeError(f"{what} must be a sequence of {n} channel names")
     names = list(names)
     if len(names) != n:
         raise ValueError(f"{what} has {len(names)} entries for {n} channels")
-    return [str(nm) for nm in names]
+    return [_literal(nm) for nm in names]
 
 
 def _order(order, n):
@@ -331,32 +341,57 @@ def _png(fig):
 
 
 def _with_unit(name, units):
+    """``name [unit]`` (text from the data: escaped by :func:`_labels` where it is drawn)."""
     unit = (units or {}).get(name)
     return f"{name} [{unit}]" if unit else str(name)
+
+
+def _literal_text():
+    """rc settings under which labels are plain text (a user's usetex would read LaTeX)."""
+    matplotlib, _, _ = _mpl()
+    return matplotlib.rc_context({"text.usetex": False})
 
 
 def leadlag_figures(report, units=None) -> dict:
     """PNG files (name -> bytes) for a lead-lag report made by the command line.
 
     ``units`` maps column names (channels or the time column) to units for the axis labels.
+    A report without a cyclic order (a zero area matrix) gets a ``phases.png`` that says so.
+    Names and units are drawn literally (a ``$`` is not math).
     """
+    with _literal_text():
+        return _leadlag_figures(report, units)
+
+
+def _leadlag_figures(report, units):
     names = report["channels"]
     A = np.asarray(report["area_matrix"], dtype=float)
     idx = {nm: k for k, nm in enumerate(names)}
-    order = [idx[nm] for nm in report["cyclic_order"]["order"]]
+    co = report["cyclic_order"]
+    order = None if co is None else [idx[nm] for nm in co["order"]]
     label = "lead strength" if report.get("normalize") else "oriented area A[i, j]"
     out = {}
-    ax = lead_heatmap(A, names, order, title="Lead matrix, channels in cyclic order", label=label)
+    ax = lead_heatmap(A, names, order, label=label,
+                      title="Lead matrix" + ("" if co is None else ", channels in cyclic order"))
     out["lead_matrix.png"] = _png(ax.figure)
-    ph = np.array([report["cyclic_order"]["positions_rad"][nm] for nm in names])
-    mod = np.array([report["cyclic_order"]["moduli"][nm] for nm in names])
-    ax = phase_circle(ph, names, mod, order,
-                      title=f"Phase of each channel (fit {report['cyclic_order']['fit']:.2f})")
-    out["phases.png"] = _png(ax.figure)
+    if co is None:
+        # always drawn (the set of files is known before the run): says why it is empty
+        _, plt, _ = _mpl()
+        fig, ax = plt.subplots(figsize=(5.5, 5.5), dpi=110)
+        ax.axis("off")
+        ax.text(0.5, 0.5, "No cyclic order:\nthe area matrix is zero\n(no channel leads "
+                "another)", ha="center", va="center", color=_INK, transform=ax.transAxes)
+        out["phases.png"] = _png(fig)
+    else:
+        ph = np.array([co["positions_rad"][nm] for nm in names])
+        mod = np.array([co["moduli"][nm] for nm in names])
+        ax = phase_circle(ph, names, mod, order,
+                          title=f"Phase of each channel (fit {co['fit']:.2f})")
+        out["phases.png"] = _png(ax.figure)
     if "rolling" in report:
         r = report["rolling"]
         tcol = (report.get("input") or {}).get("time_column")
-        xlabel = ("window centre, " + _with_unit(tcol, units)) if tcol else \
+        xlabel = ("window centre, " + _literal(_with_unit(tcol, units))) if tcol else \
             "window centre (sample number)"
         ax = rolling_lead(r["start_time"], r["end_time"], r["areas"], names,
                           title=f"Rolling lead, windows of {r['window']} samples "
@@ -368,31 +403,44 @@ def leadlag_figures(report, units=None) -> dict:
 
 
 def loop_figures(xy, names, report, closure="chord", units=None, reference=None,
-                 reference_label="expected") -> dict:
+                 reference_label="expected", decomposition=None) -> dict:
     """PNG files (name -> bytes) for a loop report made by the command line.
 
     ``loop.png``: the faces by winding number beside the curve itself with its
     direction; ``cycles.png``: the per-cycle values (``reference``: a known
-    value to draw beside them).  ``units`` maps the two names to units.
+    value to draw beside them; an empty chart when there is no complete
+    cycle).  ``units`` maps the two names to units.  ``decomposition``: the
+    curve's :func:`~wedgepath.decompose` when already computed.  Names and
+    units are drawn literally (a ``$`` is not math).
     """
+    with _literal_text():
+        return _loop_figures(xy, names, report, closure, units, reference, reference_label,
+                             decomposition)
+
+
+def _loop_figures(xy, names, report, closure, units, reference, reference_label,
+                  decomposition):
     from .planar import decompose
     _, plt, _ = _mpl()
     out = {}
     labels = [_with_unit(n, units) for n in names]
-    dec = decompose(np.asarray(xy, dtype=float), closure=closure)
+    dec = decomposition if decomposition is not None else \
+        decompose(np.asarray(xy, dtype=float), closure=closure)
     fig, (a1, a2) = plt.subplots(1, 2, figsize=(11, 4.8), dpi=110)
     loop_faces(dec, xy, labels, ax=a1, title="Faces by winding number")
     loop_path(xy, labels, ax=a2, title="The curve and its direction")
-    fig.suptitle(f"{names[1]} against {names[0]}", color=_INK)
+    fig.suptitle(f"{_literal(names[1])} against {_literal(names[0])}", color=_INK)
     out["loop.png"] = _png(fig)
     c = report["cycles"]
-    if len(c["values"]):
-        unit = " x ".join(f"[{(units or {}).get(n)}]" for n in names[::-1]
-                          if (units or {}).get(n))
-        ax = cycle_bars(c["values"], title=f"{c['quantity']} ({len(c['values'])} cycles)",
-                        ylabel="per cycle" + (f", {unit}" if unit else ""),
-                        reference=reference, reference_label=reference_label)
-        out["cycles.png"] = _png(ax.figure)
+    # always drawn, so that the set of files is known before the run (an empty chart says so)
+    unit = " x ".join(f"[{(units or {}).get(n)}]" for n in names[::-1] if (units or {}).get(n))
+    ax = cycle_bars(c["values"], title=f"{c['quantity']} ({len(c['values'])} cycles)",
+                    ylabel="per cycle" + (f", {_literal(unit)}" if unit else ""),
+                    reference=reference, reference_label=reference_label)
+    if not len(c["values"]):
+        ax.text(0.5, 0.5, "no complete cycle", transform=ax.transAxes, ha="center",
+                va="center", color=_INK)
+    out["cycles.png"] = _png(ax.figure)
     return out
 
 

@@ -264,7 +264,7 @@ def _rational_poly(expr, gens):
 def _tidy(expr):
     """Canonical exact form: expanded polynomial if rational-coefficient
     polynomial, otherwise sympy.simplify."""
-    expr = sympy.sympify(expr)
+    expr = sympy.sympify(expr, strict=True)   # strict: never parses text
     ex = sympy.expand(expr)
     if ex.is_Rational:
         return ex

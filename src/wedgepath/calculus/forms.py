@@ -87,7 +87,15 @@ class Coefficient:
 
     @classmethod
     def from_sympy(cls, expr, symbols):
-        expr = sympy.sympify(expr)
+        """A coefficient from a sympy expression, a number or a formula string.
+
+        A string is parsed by :func:`wedgepath.formula.parse_formula` with the
+        names of ``symbols`` as its only variables; it is never evaluated.
+        The polynomial degree is bounded without expanding
+        (:func:`wedgepath.formula.degree_bound`): an upper bound, exact unless
+        terms cancel, which is all that exact quadrature needs.
+        """
+        expr = _as_expression(expr, symbols)
         if expr.has(sympy.I) or expr.has(sympy.zoo) or expr.has(sympy.nan) or expr.has(sympy.oo):
             raise ValueError(f"form coefficient {expr} is not a finite real expression")
         free = expr.free_symbols - set(symbols)
@@ -96,14 +104,20 @@ class Coefficient:
             raise ValueError(f"form coefficient {expr} uses symbols {names} that are not "
                              f"coordinates {tuple(str(s) for s in symbols)}; substitute "
                              "numbers for parameters first")
+        from ..formula import degree_bound, float_value, numpy_function
         if not expr.free_symbols:
-            if not expr.is_real:
+            # float64 in bounded time: sympy's own float() of exp(exp(10**60)) never returns
+            v = float_value(expr)
+            if isinstance(v, complex):
                 raise ValueError(f"form coefficient {expr} is not a real number")
-            return cls.constant(float(expr))
+            if not np.isfinite(v):
+                raise ValueError(f"form coefficient {expr} is not a finite float64 number (it "
+                                 f"evaluates to {v})")
+            return cls.constant(v)
         deg = None
         if expr.is_polynomial(*symbols):
-            deg = int(sympy.Poly(expr, *symbols).total_degree())
-        func = sympy.lambdify(symbols, expr, modules="numpy")
+            deg = degree_bound(expr, symbols)
+        func = numpy_function(expr, symbols)
         return cls("sympy", expr=expr, symbols=tuple(symbols), func=func, poly_degree=deg)
 
     @classmethod
@@ -218,6 +232,25 @@ class Coefficient:
         return f"<callable {name}>"
 
 
+def _as_expression(value, symbols, what="form coefficient"):
+    """A sympy expression from a sympy object, a real number or a formula string.
+
+    Text is never handed to ``sympy.sympify`` (which evaluates it as Python):
+    a string is parsed by :func:`wedgepath.formula.parse_formula`, whose only
+    names are those of ``symbols``.  Anything else is refused.
+    """
+    if is_sympy(value):
+        return value
+    if isinstance(value, str):
+        from ..formula import parse_formula
+
+        return parse_formula(value, {s.name: s for s in symbols})
+    if isinstance(value, numbers.Real) and not isinstance(value, (bool, np.bool_)):
+        return sympy.sympify(value, strict=True)   # a number: strict never parses text
+    raise TypeError(f"{what} must be a sympy expression, a real number or a formula string, "
+                    f"got {type(value).__name__}; pass sympy expressions")
+
+
 def _mul(a, b):
     return a * b
 
@@ -296,7 +329,21 @@ class Form:
 
         ``components`` is a scalar expression (0-form), a sequence of n
         expressions (1-form ``sum f_i dx_i``) or a dict ``{index tuple: expr}``
-        (any degree).
+        (any degree).  An expression may be a sympy expression, a real number
+        or a formula string such as ``"x*y + sin(x)"``: strings are parsed by
+        :func:`wedgepath.formula.parse_formula` with the names of ``symbols``
+        as the only variables, never evaluated as Python.
+
+        Examples
+        --------
+        >>> import sympy as sp, wedgepath as wp
+        >>> x, y = sp.symbols("x y")
+        >>> wp.Form.from_sympy(["-y", "x"], [x, y]).terms_as_dict()
+        {(0,): -y, (1,): x}
+        >>> wp.Form.from_sympy("__import__('os')", [x, y])
+        Traceback (most recent call last):
+        ...
+        ValueError: formula: unknown function '__import__'; allowed: Abs, abs, acos, asin, atan, cos, cosh, exp, log, sin, sinh, sqrt, tan, tanh
         """
         symbols = _check_symbols(symbols)
         n = len(symbols)
@@ -306,13 +353,19 @@ class Form:
             degrees = {len(k) for k in components}
             if len(degrees) != 1:
                 raise ValueError(f"terms of mixed degree {sorted(degrees)}")
-            return cls(components, degrees.pop(), n, symbols)
-        if is_sympy(components) or isinstance(components, numbers.Real):
-            return cls({(): sympy.sympify(components)}, 0, n, symbols)
+            return cls({k: _as_expression(v, symbols) for k, v in components.items()},
+                       degrees.pop(), n, symbols)
+        if is_sympy(components) or isinstance(components, (numbers.Real, str)):
+            return cls({(): _as_expression(components, symbols)}, 0, n, symbols)
+        if isinstance(components, (bytes, bytearray)) or not hasattr(components, "__iter__"):
+            raise TypeError(f"components must be an expression, a sequence of {n} expressions "
+                            f"or a dict {{index tuple: expression}}, got "
+                            f"{type(components).__name__}")
         comps = list(components)
         if len(comps) != n:
             raise ValueError(f"{len(comps)} components for {n} symbols")
-        return cls({(i,): sympy.sympify(c) for i, c in enumerate(comps)}, 1, n, symbols)
+        return cls({(i,): _as_expression(c, symbols) for i, c in enumerate(comps)}, 1, n,
+                   symbols)
 
     # ------------------------------------------------------------------ views
     @property
@@ -655,7 +708,7 @@ def _two_form_from_sympy(components, symbols) -> Form:
     if not isinstance(components, dict):
         raise TypeError("TwoForm.from_sympy needs a dict {(i, j): expression}")
     syms = _check_symbols(symbols)
-    return TwoForm({k: sympy.sympify(v) for k, v in components.items()}, dim=len(syms),
+    return TwoForm({k: _as_expression(v, syms) for k, v in components.items()}, dim=len(syms),
                    symbols=syms)
 
 

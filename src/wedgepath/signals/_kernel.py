@@ -169,7 +169,10 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
             raise ValueError(f"names {list(names)} do not match the DataFrame columns {df_names}")
         names = df_names
     else:
-        if isinstance(X, np.ndarray) and X.dtype.kind in "iuf":
+        if isinstance(X, np.ma.MaskedArray):
+            # masked entries are gaps: a NaN copy (np.asarray would drop the mask)
+            values = as_float_array(X, what, allow_nan=True)
+        elif isinstance(X, np.ndarray) and X.dtype.kind in "iuf":
             values = X
         else:
             try:
