@@ -136,16 +136,29 @@ _NETWORKS = {1: [], 2: [(0, 1)], 3: [(0, 1), (1, 2), (0, 1)],
              4: [(0, 1), (2, 3), (0, 2), (1, 3), (1, 2)]}
 
 
+def _network(width):
+    """Compare-exchange pairs that sort ``width`` entries.
+
+    Optimal networks for up to 4 entries; beyond, odd-even transposition
+    sort: ``width`` rounds of exchanges between neighbours, alternately at
+    even and odd positions, sort any input (D. E. Knuth, The Art of Computer
+    Programming, vol. 3, 2nd ed., section 5.3.4, from memory).
+    """
+    if width in _NETWORKS:
+        return _NETWORKS[width]
+    return [(i, i + 1) for r in range(width) for i in range(r % 2, width - 1, 2)]
+
+
 def _sort_columns(cols, *others):
     """Compare-exchange sort across a list of equal-length 1-D arrays (one per position).
 
-    ``others`` are lists of arrays permuted alongside.  Lists of up to 4
-    arrays use a sorting network; the arrays are modified only through
-    rebinding (the inputs are not written to).
+    ``others`` are lists of arrays permuted alongside.  The arrays go through
+    a sorting network (any length); they are modified only through rebinding
+    (the inputs are not written to).
     """
     cols = list(cols)
     others = [list(o) for o in others]
-    for a, b in _NETWORKS[len(cols)]:
+    for a, b in _network(len(cols)):
         swap = cols[a] > cols[b]
         if not swap.any():
             continue
