@@ -536,7 +536,7 @@ def test_sorting_network_sorts_every_width(width):
     # 0-1 principle (Knuth, TAOCP vol. 3, 5.3.4, from memory): a network that sorts every
     # 0/1 input sorts every input; checked exhaustively, plus random permutations
     from itertools import product
-    from wedgepath.calculus.simplicial import _sort_columns
+    from wedgepath.calculus._indexing import sort_columns as _sort_columns
     rows = np.array(list(product([0, 1], repeat=width)), dtype=np.int64)
     rng = np.random.default_rng(width)
     rows = np.vstack([rows, np.argsort(rng.random((50, width)), axis=1)])
@@ -547,3 +547,22 @@ def test_sorting_network_sorts_every_width(width):
     np.testing.assert_array_equal(out, np.sort(rows, axis=1))
     # the companions moved with their entries: position tags pick the sorted values back
     np.testing.assert_array_equal(np.take_along_axis(rows, tag_out - tags[:, :1], axis=1), out)
+
+
+def test_de_rham_warning_points_at_the_callers_line():
+    # before: reported at sys:1 (a hard-coded stack level)
+    import sys
+    import warnings
+    cx = wp.SimplicialComplex([[0, 0], [1, 0], [0, 1], [1, 1]], [[0, 1, 2], [1, 3, 2]])
+    w = wp.TwoForm({(0, 1): lambda c: np.sign(c[:, 0] - 1 / 3)})
+    with warnings.catch_warnings(record=True) as seen:
+        warnings.simplefilter("always")
+        line = sys._getframe().f_lineno + 1
+        vals, errs = cx.de_rham(w, max_levels=1, return_error=True)
+    hits = [x for x in seen if issubclass(x.category, wp.IntegrationWarning)]
+    assert len(hits) == 1
+    assert (hits[0].filename, hits[0].lineno) == (__file__, line)
+    assert "de Rham map tolerance" in str(hits[0].message)
+    # the per-simplex values still add up to the exact area-weighted sign integral:
+    # sign(x - 1/3) over the two triangles of the unit square, by hand: 1/3
+    assert abs(vals.sum() - 1 / 3) <= errs.sum() + 1e-12

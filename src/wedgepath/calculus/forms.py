@@ -40,7 +40,7 @@ import numpy as np
 from .._lazy import is_sympy, sympy
 from .._validation import as_int, check_values
 
-__all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient"]
+__all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient", "checked_values"]
 
 
 def _sort_with_sign(idx):
@@ -157,12 +157,15 @@ class Coefficient:
             return self.expr
         return None
 
-    def evaluate(self, coords: np.ndarray, label: str = "coefficient") -> np.ndarray:
-        """Values at ``coords`` (m, n), shape (m,), checked finite.
+    def evaluate(self, coords: np.ndarray, label: str = "coefficient", *,
+                 strict: bool = True) -> np.ndarray:
+        """Values at ``coords`` (m, n), shape (m,).
 
-        Floating-point warnings inside the coefficient are silenced: a
-        non-finite result is reported as a ValueError naming the first bad
-        point instead.
+        Floating-point warnings inside the coefficient are silenced.  With
+        ``strict`` (the default) a non-finite result is reported as a
+        ValueError naming the first bad point; otherwise non-finite values
+        come back as NaN (adaptive refinement uses this to stop at a
+        singularity instead of failing).
         """
         m = coords.shape[0]
         if self.kind == "constant":
@@ -172,7 +175,8 @@ class Coefficient:
                 vals = self.func(*coords.T)
             else:
                 vals = self.func(coords)
-        return check_values(vals, m, label, lambda k: f"the point {coords[k].tolist()}")
+        return checked_values(vals, m, label, lambda k: f"the point {coords[k].tolist()}",
+                              strict)
 
     # -- algebra
     def _combine(self, other, op):
@@ -192,7 +196,9 @@ class Coefficient:
             deg = None if (a.poly_degree is None or b.poly_degree is None) else max(a.poly_degree, b.poly_degree)
 
         def f(coords):
-            return op(fa.evaluate(coords), fb.evaluate(coords))
+            # non-finite parts come back as NaN; the caller's evaluate() reports them
+            with np.errstate(all="ignore"):
+                return op(fa.evaluate(coords, strict=False), fb.evaluate(coords, strict=False))
         return Coefficient("callable", func=f, poly_degree=deg)
 
     def __mul__(self, other):
@@ -216,6 +222,25 @@ class Coefficient:
             return str(self.expr)
         name = getattr(self.func, "__name__", "f")
         return f"<callable {name}>"
+
+
+def checked_values(vals, m, label, where, strict=True):
+    """What a user's function returned for ``m`` points, checked (see ``check_values``).
+
+    With ``strict`` non-finite values raise a ValueError naming the point
+    ``where(k)``; otherwise they come back as NaN (shape and type are
+    checked either way).
+    """
+    if strict:
+        return check_values(vals, m, label, where)
+    arr = np.asarray(vals)
+    if arr.dtype.kind == "f":
+        bad = ~np.isfinite(arr)
+        if bad.any():
+            out = check_values(np.where(bad, 0.0, arr), m, label, where).copy()
+            out[np.broadcast_to(bad, out.shape)] = np.nan
+            return out
+    return check_values(arr, m, label, where)
 
 
 def _mul(a, b):
