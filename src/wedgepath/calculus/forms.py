@@ -37,26 +37,11 @@ from itertools import combinations
 
 import numpy as np
 
+from .._exterior import sort_with_sign, wedge_terms
 from .._lazy import is_sympy, sympy
 from .._validation import as_int, check_values
 
 __all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient", "checked_values"]
-
-
-def _sort_with_sign(idx):
-    """Sort an index tuple; return (sorted, sign) or (None, 0) if an index repeats."""
-    idx = list(idx)
-    if len(set(idx)) != len(idx):
-        return None, 0
-    sign = 1
-    # insertion sort counting transpositions (k is tiny)
-    for a in range(1, len(idx)):
-        b = a
-        while b > 0 and idx[b - 1] > idx[b]:
-            idx[b - 1], idx[b] = idx[b], idx[b - 1]
-            sign = -sign
-            b -= 1
-    return tuple(idx), sign
 
 
 # --------------------------------------------------------------------------- coefficients
@@ -243,6 +228,19 @@ def checked_values(vals, m, label, where, strict=True):
     return check_values(arr, m, label, where)
 
 
+def _signed_product(a, b, sign):
+    c = a * b
+    return c if sign > 0 else c.scaled(-1.0)
+
+
+def _add_coefficients(a, b):
+    return a + b
+
+
+def _sympy_product(a, b, sign):
+    return sign * a * b
+
+
 def _mul(a, b):
     return a * b
 
@@ -300,7 +298,7 @@ class Form:
                 raise ValueError(f"form indices must be >= 0, got {idx}")
             if dim is not None and any(i >= dim for i in idx):
                 raise ValueError(f"form index {max(idx)} out of range for R^{dim}")
-            sidx, sign = _sort_with_sign(idx)
+            sidx, sign = sort_with_sign(idx)
             if sign == 0:
                 continue
             coef = Coefficient.make(coef, symbols)
@@ -454,16 +452,7 @@ class Form:
         if not isinstance(other, Form):
             return NotImplemented
         dim, syms = self._meet(other, "wedge")
-        terms = {}
-        for i, a in self._terms.items():
-            for j, b in other._terms.items():
-                idx, sign = _sort_with_sign(i + j)
-                if sign == 0:
-                    continue
-                c = a * b
-                if sign < 0:
-                    c = c.scaled(-1.0)
-                terms[idx] = terms[idx] + c if idx in terms else c
+        terms = wedge_terms(self._terms, other._terms, _signed_product, _add_coefficients)
         return Form(terms, self.degree + other.degree, dim, syms)
 
     def __eq__(self, other):
@@ -481,6 +470,11 @@ class Form:
     def d(self) -> "Form":
         """Exterior derivative, exact for constant and sympy coefficients.
 
+        ``d(f dx_I) = sum_j (∂f/∂x_j) dx_j ^ dx_I``: the partial derivatives come from
+        sympy (deliberately: a sympy coefficient is differentiated by sympy), the
+        signs from the same wedge as ``^``.  :func:`wedgepath.symbolic.exterior_derivative`
+        is an independent implementation that the tests compare against.
+
         Raises
         ------
         TypeError
@@ -492,9 +486,17 @@ class Form:
                             "coefficients (build it with Form.from_sympy to differentiate)")
         if self.symbols is None:  # constant form: d = 0
             return Form({}, self.degree + 1, self.dim)
-        from .. import symbolic
-
-        out = symbolic.exterior_derivative(self.to_sympy(), self.symbols)
+        out = {}
+        for idx, coef in self._terms.items():
+            expr = coef.as_sympy()
+            grad = {}
+            for j, xj in enumerate(self.symbols):
+                dj = sympy.diff(expr, xj)
+                if dj != 0:
+                    grad[(j,)] = dj
+            part = wedge_terms(grad, {idx: sympy.Integer(1)}, _sympy_product, _add)
+            for k, v in part.items():
+                out[k] = out[k] + v if k in out else v
         return Form(out, self.degree + 1, self.dim, self.symbols)
 
     def component_values(self, coords: np.ndarray):
