@@ -10,7 +10,7 @@ drawn from one of the families below, a tolerance, and a reference value compute
 independently of wedgepath's quadrature:
 
 * line integrals of 1-forms ``f dx + g dy``: the pulled-back integrand on every segment
-  integrated by ``mpmath.quad`` (tanh-sinh) at 24 significant digits, with break points at
+  integrated by ``mpmath.quad`` (tanh-sinh) at 24 or more significant digits, with break points at
   the integrand's features (closest approach to a bump, the zero of a front, ...);
 * region integrals ``∬ w f dx dy`` of closed loops (self-crossing ones included): Green's
   theorem ``∮ F dy`` with ``F`` a closed-form x-primitive of ``f`` (each family below
@@ -21,8 +21,12 @@ independently of wedgepath's quadrature:
   the same loop integral gives the winding-weighted region integral for self-crossing
   curves.)
 
-Each reference is computed twice (tanh-sinh and Gauss-Legendre in mpmath); a case is kept
-only when the two agree to 1e-20 of the integral of ``|integrand|``.  The families:
+Segments are taken exactly as the floats of the samples define them (their increments
+computed in mpmath, not rounded).  Each reference is computed twice (tanh-sinh and
+Gauss-Legendre in mpmath) at 24 significant digits, or with as many more digits as the
+value cancels below the scale of its boundary integral (``digits`` in the data); a case is
+kept only when the two agree, and the data give the reference's ``uncertainty`` (their
+difference plus the last digits of the scale).  The families:
 
 ========  ====================================================  ==================================
 family    f(x, y)                                               x-primitive F (∂F/∂x = f)
@@ -253,11 +257,17 @@ def segment_integral(g, p0, d, fams):
     return a, b
 
 
+def _segment(p0, p1):
+    """Start and increment of a segment in mpmath, exactly (the floats' own values)."""
+    X0, Y0 = mp.mpf(float(p0[0])), mp.mpf(float(p0[1]))
+    return X0, Y0, mp.mpf(float(p1[0])) - X0, mp.mpf(float(p1[1])) - Y0
+
+
 def line_reference(pts, f1, f2):
     tot_a = tot_b = scale = mp.mpf(0)
+    fams = [f for f in (f1, f2) if f is not None]
     for p0, p1 in zip(pts[:-1], pts[1:]):
-        d = p1 - p0
-        X0, Y0, DX, DY = (mp.mpf(float(v)) for v in (p0[0], p0[1], d[0], d[1]))
+        X0, Y0, DX, DY = _segment(p0, p1)
 
         def g(t):
             x, y = X0 + t * DX, Y0 + t * DY
@@ -267,8 +277,7 @@ def line_reference(pts, f1, f2):
             if f2 is not None:
                 out += f_mp(*f2, x, y) * DY
             return out
-        fams = [f for f in (f1, f2) if f is not None]
-        a, b = segment_integral(g, p0, d, fams)
+        a, b = segment_integral(g, p0, p1 - p0, fams)
         tot_a += a
         tot_b += b
         scale += _abs_scale(g)
@@ -279,18 +288,42 @@ def region_reference(loop, fam, p):
     P = np.vstack([loop, loop[:1]])
     tot_a = tot_b = scale = mp.mpf(0)
     for p0, p1 in zip(P[:-1], P[1:]):
-        d = p1 - p0
-        if d[1] == 0:
+        X0, Y0, DX, DY = _segment(p0, p1)
+        if DY == 0:
             continue
-        X0, Y0, DX, DY = (mp.mpf(float(v)) for v in (p0[0], p0[1], d[0], d[1]))
 
         def g(t):
             return F_mp(fam, p, X0 + t * DX, Y0 + t * DY) * DY
-        a, b = segment_integral(g, p0, d, [(fam, p)])
+        a, b = segment_integral(g, p0, p1 - p0, [(fam, p)])
         tot_a += a
         tot_b += b
         scale += _abs_scale(g)
     return tot_a, tot_b, scale
+
+
+def reference(compute):
+    """``compute()`` at DPS digits, and again with more when the value cancels far below
+    its scale (so that the reference is accurate relative to the value itself).
+
+    Returns (value, uncertainty, scale, digits) as floats and an int, or None when the two
+    mpmath methods disagree.
+    """
+    digits = DPS
+    while True:
+        mp.mp.dps = digits
+        a, b, scale = compute()
+        need = DPS
+        if a != 0 and scale > 0:
+            # digits lost to cancellation beyond the four that DPS leaves to spare
+            need = DPS + max(0, int(mp.ceil(mp.log10(scale / abs(a)))) - 4)
+        if need <= digits or digits >= 360:
+            break
+        digits = min(360, need + 2)
+    unc = abs(a - b) + mp.mpf(10) ** (2 - digits) * scale
+    mp.mp.dps = DPS
+    if abs(a - b) > mp.mpf(10) ** (4 - digits) * (scale + abs(a)):
+        return None
+    return float(a), float(unc), float(scale), digits
 
 
 def check_family(fam, p, rng):
@@ -323,13 +356,14 @@ def main():
             f2 = (fam2, p2)
         # which of dx, dy carries the family under test
         first, second = ((fam1, p1), f2) if rng.uniform() < 0.5 else (f2, (fam1, p1))
-        a, b, scale = line_reference(pts, first, second)
-        if abs(a - b) > mp.mpf(10) ** -20 * (scale + 1e-30):
+        ref = reference(lambda: line_reference(pts, first, second))
+        if ref is None:
             rejected += 1
             continue
+        value, unc, scale, digits = ref
         cases.append({"kind": "line", "points": pts.tolist(), "dx": first, "dy": second,
-                      "rtol": float(rng.choice(RTOLS)), "reference": float(a),
-                      "scale": float(scale), "family": fam1})
+                      "rtol": float(rng.choice(RTOLS)), "reference": value,
+                      "uncertainty": unc, "digits": digits, "scale": scale, "family": fam1})
         if len(cases) % 40 == 0:
             print(f"{len(cases)} cases", file=sys.stderr)
     n_region = 0
@@ -339,13 +373,14 @@ def main():
         lo, hi = loop.min(axis=0), loop.max(axis=0)
         p = draw_params(fam, rng, rng.uniform(lo, hi))
         check_family(fam, p, rng)
-        a, b, scale = region_reference(loop, fam, p)
-        if abs(a - b) > mp.mpf(10) ** -20 * (scale + 1e-30):
+        ref = reference(lambda: region_reference(loop, fam, p))
+        if ref is None:
             rejected += 1
             continue
+        value, unc, scale, digits = ref
         cases.append({"kind": "region", "points": loop.tolist(), "f": (fam, p),
-                      "rtol": float(rng.choice(RTOLS)), "reference": float(a),
-                      "scale": float(scale), "family": fam})
+                      "rtol": float(rng.choice(RTOLS)), "reference": value,
+                      "uncertainty": unc, "digits": digits, "scale": scale, "family": fam})
         n_region += 1
         if n_region % 40 == 0:
             print(f"{n_region} region cases", file=sys.stderr)

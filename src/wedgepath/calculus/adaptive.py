@@ -40,8 +40,8 @@ import numpy as np
 
 from .integral import EPS
 
-__all__ = ["Options", "options", "Estimate", "Outcome", "CellType", "adapt", "kronrod_estimate",
-           "NOISE_FLOOR"]
+__all__ = ["Options", "options", "Estimate", "Outcome", "CellType", "adapt", "adapt_batched",
+           "kronrod_estimate", "NOISE_FLOOR"]
 
 #: relative rounding floor of a cell's estimate, times the integral of |integrand| over the
 #: cell (QUADPACK's 50 * epsilon: Piessens et al., QUADPACK, Springer 1983, routine QK15)
@@ -112,7 +112,9 @@ class Estimate:
     at least the rounding floor); ``magnitude``: the rule applied to
     ``|integrand|`` (the scale of the tolerance); ``noise``: the rule with
     absolute weights applied to ``|integrand|`` (the scale of rounding);
-    ``bad``: cells where the integrand was not finite (only in non-strict mode).
+    ``bad``: cells where the integrand was not finite (only in non-strict mode);
+    ``rounding``: an absolute rounding term of its own, when the cell type has one
+    beyond ``4 eps noise`` (for example the rounding of a polygon's vertices).
     """
 
     value: np.ndarray
@@ -120,6 +122,7 @@ class Estimate:
     magnitude: np.ndarray
     noise: np.ndarray
     bad: np.ndarray | None = None
+    rounding: np.ndarray | None = None
 
 
 class CellType:
@@ -160,6 +163,16 @@ class Outcome:
     owner_errors: np.ndarray | None = None
 
 
+def _dot(a, b) -> float:
+    """Sum of products, without BLAS (whose threads cost more than they save here)."""
+    return float(np.einsum("i,i->", a, b))
+
+
+def _rows(F, w):
+    """``F @ w`` for a tall matrix and a short vector, without BLAS."""
+    return np.einsum("ij,j->i", F, w)
+
+
 def _take(cells, mask):
     return {k: v[mask] for k, v in cells.items()}
 
@@ -168,7 +181,7 @@ def _concat(a, b):
     return {k: np.concatenate([a[k], b[k]]) for k in a}
 
 
-def adapt(kind, cells: dict, opts: Options, *, coef=None, n_owners=None) -> Outcome:
+def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None) -> Outcome:
     """Integrate adaptively over ``cells`` (already subdivided to the minimum).
 
     Parameters
@@ -181,8 +194,8 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, n_owners=None) -> Outc
     coef : ndarray, optional
         A signed weight per owner (chain coefficients); the value is
         ``sum coef[owner] * value`` and the error ``sum |coef[owner]| * error``.
-    n_owners : int, optional
-        Also return per-owner (unweighted) values and errors.
+    owner_range : (int, int), optional
+        Also return the (unweighted) values and errors of owners ``lo..hi-1``.
     """
     n0 = len(next(iter(cells.values())))
     epc = kind.evaluations_per_cell
@@ -210,12 +223,13 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, n_owners=None) -> Outc
     reasons = set()
     nonfinite_at = None
     vals, errs, mags, noise = est.value, est.error, est.magnitude, est.noise
+    rnds = est.rounding if est.rounding is not None else np.zeros(n0)
     passes = 0
     while True:
         w = np.abs(cells["_cw"])
-        scale = float(w @ mags)
+        scale = _dot(w, mags)
         tol = max(opts.atol, opts.rtol * scale)
-        total = float(w @ errs)
+        total = _dot(w, errs)
         if not total > tol or passes > 4 * opts.max_levels + 8:
             break
         passes += 1
@@ -242,7 +256,7 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, n_owners=None) -> Outc
         P = idx.size
         for k in ("_cw", "_depth", "_frozen"):
             children[k] = np.tile(parents[k], 2)
-        if "owner" in parents:
+        if "owner" in parents and "owner" not in children:
             children["owner"] = np.tile(parents["owner"], 2)
         children["_depth"] = children["_depth"] + 1
         cest = kind.evaluate(children, strict=False)
@@ -259,17 +273,20 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, n_owners=None) -> Outc
             keep_child = np.tile(ok, 2)
             children = _take(children, keep_child)
             cest = Estimate(*(getattr(cest, a)[keep_child]
-                              for a in ("value", "error", "magnitude", "noise")))
+                              for a in ("value", "error", "magnitude", "noise")),
+                            rounding=None if cest.rounding is None else cest.rounding[keep_child])
         keep = ~sel
         cells = _concat(_take(cells, keep), children)
         vals = np.concatenate([vals[keep], cest.value])
         errs = np.concatenate([errs[keep], cest.error])
         mags = np.concatenate([mags[keep], cest.magnitude])
         noise = np.concatenate([noise[keep], cest.noise])
+        rnds = np.concatenate([rnds[keep], cest.rounding if cest.rounding is not None
+                               else np.zeros(cest.value.size)])
     w = np.abs(cells["_cw"])
-    value = float(cells["_cw"] @ vals)
-    error = float(w @ errs)
-    scale = float(w @ mags)
+    value = _dot(cells["_cw"], vals)
+    error = _dot(w, errs)
+    scale = _dot(w, mags)
     tol = max(opts.atol, opts.rtol * scale)
     trouble = []
     if error > tol:
@@ -292,12 +309,55 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, n_owners=None) -> Outc
             trouble.append("rounding noise in the integrand's values limits the accuracy")
         if not trouble:
             trouble.append("refinement ended early")
-    out = Outcome(value, error, tol, scale, 4 * EPS * float(w @ noise), evaluations, trouble)
-    if n_owners is not None:
-        own = cells["owner"]
-        out.owner_values = np.bincount(own, vals, minlength=n_owners)
-        out.owner_errors = np.bincount(own, errs, minlength=n_owners)
+    out = Outcome(value, error, tol, scale, 4 * EPS * _dot(w, noise) + _dot(w, rnds),
+                  evaluations, trouble)
+    if owner_range is not None:
+        lo, hi = owner_range
+        own = cells["owner"] - lo
+        out.owner_values = np.bincount(own, vals, minlength=hi - lo)
+        out.owner_errors = np.bincount(own, errs, minlength=hi - lo)
     return out
+
+
+def adapt_batched(kind, n_owners: int, initial, opts: Options, *, sizes=None, coef=None,
+                  per_owner=False, batch=1 << 14) -> Outcome:
+    """:func:`adapt` over the owners (segments, simplices) in batches, for bounded memory.
+
+    ``initial(lo, hi)`` returns the minimum-subdivision cells of owners ``lo..hi-1`` (their
+    ``"owner"`` field holds global owner indices).  Each batch meets ``rtol`` relative to
+    its own integral of ``|integrand|`` and its share of ``atol`` by ``sizes`` (one per
+    owner), so the sums meet ``max(atol, rtol * S)`` for the whole domain just the same.
+    """
+    sizes = np.ones(n_owners) if sizes is None else np.asarray(sizes, dtype=np.float64)
+    w = np.ones(n_owners) if coef is None else np.abs(np.asarray(coef, dtype=np.float64))
+    weighted = w * sizes
+    total_size = float(weighted.sum())
+    acc = Outcome(0.0, 0.0, 0.0, 0.0, 0.0, 0)
+    if per_owner:
+        acc.owner_values = np.zeros(n_owners)
+        acc.owner_errors = np.zeros(n_owners)
+    for lo in range(0, n_owners, batch):
+        hi = min(n_owners, lo + batch)
+        part = (float(weighted[lo:hi].sum()) / total_size if total_size > 0
+                else (hi - lo) / n_owners)
+        sub = Options(opts.rtol, opts.atol * part, opts.order, opts.max_levels,
+                      opts.resolution)
+        if sub.rtol == 0 and sub.atol == 0:       # an owner range of zero size and rtol = 0
+            sub = Options(opts.rtol, opts.atol / max(1, n_owners), opts.order,
+                          opts.max_levels, opts.resolution)
+        out = adapt(kind, initial(lo, hi), sub, coef=coef,
+                    owner_range=(lo, hi) if per_owner else None)
+        acc.value += out.value
+        acc.error += out.error
+        acc.tolerance += out.tolerance
+        acc.scale += out.scale
+        acc.rounding += out.rounding
+        acc.evaluations += out.evaluations
+        acc.trouble += [t for t in out.trouble if t not in acc.trouble]
+        if per_owner:
+            acc.owner_values[lo:hi] = out.owner_values
+            acc.owner_errors[lo:hi] = out.owner_errors
+    return acc
 
 
 def kronrod_estimate(f, h, wk, wg):
@@ -310,11 +370,11 @@ def kronrod_estimate(f, h, wk, wg):
     Kronrod rule of ``|f - mean|``, and at least ``NOISE_FLOOR`` times the
     rule of ``|f|`` (Piessens et al., QUADPACK, Springer 1983, routine QK15).
     """
-    k = f @ wk
-    g = f @ wg
+    k = _rows(f, wk)
+    g = _rows(f, wg)
     af = np.abs(f)
-    resabs = (af @ wk) * np.abs(h)
-    resasc = (np.abs(f - k[:, None]) @ wk) * np.abs(h)
+    resabs = _rows(af, wk) * np.abs(h)
+    resasc = _rows(np.abs(f - k[:, None]), wk) * np.abs(h)
     raw = np.abs(k - g) * np.abs(h)
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         ratio = np.where(resasc > 0, 200.0 * raw / resasc, 0.0)

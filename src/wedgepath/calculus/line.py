@@ -26,7 +26,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .adaptive import Estimate, adapt, kronrod_estimate
+from .adaptive import Estimate, adapt_batched, kronrod_estimate
 from .forms import Coefficient, Form
 from .integral import EPS, Accumulator
 from .paths import Path
@@ -110,6 +110,24 @@ def _integrand(geom, varying, seg, s, strict=True):
     return out if strict else (out, bad)
 
 
+def _integrand_cells(geom, varying, seg, s, strict=True):
+    """Pulled-back integrand (B, m) at parameters ``s`` (B, m) of segments ``seg`` (B,).
+
+    Also returns the cells where a coefficient was not finite (None when ``strict``).
+    """
+    x, v = geom.evaluate_cells(seg, s)
+    B, m, n = x.shape
+    pts = x.reshape(B * m, n)
+    out = np.zeros((B, m))
+    bad = None if strict else np.zeros(B, dtype=bool)
+    for i, coef in varying:
+        f = coef.evaluate(pts, f"coefficient of dx{i}", strict=strict).reshape(B, m)
+        if not strict:
+            bad |= np.isnan(f).any(axis=1)
+        out += f * v[:, :, i]
+    return out, bad
+
+
 def _fixed_rule(geom, varying, m):
     """m-point Gauss-Legendre on whole segments: (sum, sum of |segment values|, evaluations)."""
     xq, wq = gauss_legendre(m)
@@ -136,40 +154,46 @@ class Intervals:
         self.evaluations_per_cell = self.x.size * len(varying)
         self.lengths = [g.lengths() for g in geoms]
 
-    def initial(self, resolution):
-        """Cells of the minimum subdivision: no interval longer than diameter / resolution."""
+    def prepare(self, resolution):
+        """Number of intervals of the minimum subdivision of every segment (owner)."""
         lo_corner, hi_corner = None, None
         for g in self.geoms:
             a, b = g.bounds()
             lo_corner = a if lo_corner is None else np.minimum(lo_corner, a)
             hi_corner = b if hi_corner is None else np.maximum(hi_corner, b)
-        diameter = float(np.linalg.norm(hi_corner - lo_corner)) if lo_corner is not None else 0.0
-        parts = []
-        for gi, (g, L) in enumerate(zip(self.geoms, self.lengths)):
-            if diameter > 0:
-                with np.errstate(over="ignore", invalid="ignore"):
-                    n = np.ceil(L * (resolution / diameter))
-                n = np.clip(np.nan_to_num(n, nan=1.0), 1, 1 << 20).astype(np.int64)
-            else:
-                n = np.ones(g.n_segments, dtype=np.int64)
-            seg = np.repeat(np.arange(g.n_segments), n)
-            first = np.repeat(np.cumsum(n) - n, n)
-            j = np.arange(seg.size) - first
-            nn = n[seg].astype(np.float64)
-            parts.append({"geom": np.full(seg.size, gi, dtype=np.int64), "seg": seg,
-                          "lo": j / nn, "hi": (j + 1) / nn})
-        return {k: np.concatenate([p[k] for p in parts]) for k in parts[0]}
+        diameter = float(np.linalg.norm(hi_corner - lo_corner))
+        L = np.concatenate(self.lengths)
+        if diameter > 0:
+            with np.errstate(over="ignore", invalid="ignore"):
+                n = np.ceil(L * (resolution / diameter))
+            n = np.clip(np.nan_to_num(n, nan=1.0), 1, 1 << 20).astype(np.int64)
+        else:
+            n = np.ones(L.size, dtype=np.int64)
+        self.counts = n
+        self.sizes = L
+        # owner (global segment number) -> geometry and segment within it
+        self.geom_of = np.repeat(np.arange(len(self.geoms)),
+                                 [g.n_segments for g in self.geoms])
+        self.seg_of = np.concatenate([np.arange(g.n_segments) for g in self.geoms])
+        return L.size
+
+    def initial(self, lo, hi):
+        """Cells of the minimum subdivision of segments (owners) lo..hi-1."""
+        n = self.counts[lo:hi]
+        owner = np.repeat(np.arange(lo, hi), n)
+        first = np.repeat(np.cumsum(n) - n, n)
+        j = np.arange(owner.size) - first
+        nn = n[owner - lo].astype(np.float64)
+        return {"owner": owner, "geom": self.geom_of[owner], "seg": self.seg_of[owner],
+                "lo": j / nn, "hi": (j + 1) / nn}
 
     def measure(self, cells):
-        out = np.empty(cells["seg"].size)
-        for gi, L in enumerate(self.lengths):
-            m = cells["geom"] == gi
-            out[m] = L[cells["seg"][m]]
-        return out * (cells["hi"] - cells["lo"])
+        return self.sizes[cells["owner"]] * (cells["hi"] - cells["lo"])
 
     def split(self, cells):
         mid = 0.5 * (cells["lo"] + cells["hi"])
         return {"geom": np.tile(cells["geom"], 2), "seg": np.tile(cells["seg"], 2),
+                "owner": np.tile(cells["owner"], 2),
                 "lo": np.concatenate([cells["lo"], mid]),
                 "hi": np.concatenate([mid, cells["hi"]])}
 
@@ -192,12 +216,10 @@ class Intervals:
                 r = rows[a:a + step]
                 lo, hi, seg = cells["lo"][r], cells["hi"][r], cells["seg"][r]
                 h = hi - lo
-                s = (lo[:, None] + h[:, None] * self.x[None, :]).ravel()
-                f = _integrand(g, self.varying, np.repeat(seg, m), s, strict)
+                s = lo[:, None] + h[:, None] * self.x[None, :]
+                f, nonfinite = _integrand_cells(g, self.varying, seg, s, strict)
                 if not strict:
-                    f, nonfinite = f
-                    bad[r] = nonfinite.reshape(r.size, m).any(axis=1)
-                f = f.reshape(r.size, m)
+                    bad[r] = nonfinite
                 res = kronrod_estimate(f, h, self.wk, self.wg)
                 for o, v in zip(out, res):
                     o[r] = v
@@ -241,7 +263,8 @@ def integrate_1form(form: Form, path: Path, closure: str, curve: str, opts) -> A
         return acc
     order = opts.order or DEFAULT_ORDER
     cells = Intervals(geoms, varying, order)
-    outcome = adapt(cells, cells.initial(opts.resolution), opts)
+    n = cells.prepare(opts.resolution)
+    outcome = adapt_batched(cells, n, cells.initial, opts, sizes=cells.sizes, batch=1 << 16)
     acc.add_outcome(outcome, f"adaptive Gauss-Kronrod {order}/{2 * order + 1} points")
     return acc
 

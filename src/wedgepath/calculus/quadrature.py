@@ -185,6 +185,11 @@ class LinearGeometry:
         d = self.delta[seg]
         return self.start[seg] + s[:, None] * d, d
 
+    def evaluate_cells(self, seg: np.ndarray, s: np.ndarray):
+        """Points (B, m, n) and velocities (B, 1, n) at parameters ``s`` (B, m) of segments ``seg`` (B,)."""
+        d = self.delta[seg][:, None, :]
+        return self.start[seg][:, None, :] + s[:, :, None] * d, d
+
 
 class SplineGeometry:
     """Cubic spline through the samples, parametrised by ``times``.
@@ -228,6 +233,15 @@ class SplineGeometry:
         h = self.h[seg][:, None]
         u = s[:, None] * h
         c0, c1, c2, c3 = (self.c[k][seg] for k in range(4))
+        x = ((c0 * u + c1) * u + c2) * u + c3
+        v = ((3.0 * c0 * u + 2.0 * c1) * u + c2) * h
+        return x, v
+
+    def evaluate_cells(self, seg: np.ndarray, s: np.ndarray):
+        """Points and velocities (B, m, n) at parameters ``s`` (B, m) of segments ``seg`` (B,)."""
+        h = self.h[seg][:, None, None]
+        u = s[:, :, None] * h
+        c0, c1, c2, c3 = (self.c[k][seg][:, None, :] for k in range(4))
         x = ((c0 * u + c1) * u + c2) * u + c3
         v = ((3.0 * c0 * u + 2.0 * c1) * u + c2) * h
         return x, v

@@ -40,7 +40,7 @@ from math import factorial
 
 import numpy as np
 
-from .adaptive import NOISE_FLOOR, Estimate, adapt, kronrod_estimate
+from .adaptive import NOISE_FLOOR, Estimate, adapt_batched, kronrod_estimate
 from .forms import Form
 from .integral import EPS, Accumulator
 from .quadrature import gauss_kronrod
@@ -198,22 +198,25 @@ class SimplexCells:
         self.evaluations_per_cell = q * len(vary)
         self.q = q
 
-    def initial(self, V, resolution):
-        """Bisect every simplex until its longest edge is at most diameter / r (module notes)."""
-        S = V.shape[0]
-        owner = np.arange(S)
-        if S == 0:
-            return {"V": V, "owner": owner}
-        pts = V.reshape(-1, V.shape[2])
-        diameter = float(np.linalg.norm(pts.max(axis=0) - pts.min(axis=0)))
+    def prepare(self, vertices, simplices, resolution):
+        """Remember the simplices and the edge bound ``diameter / r`` of the minimum subdivision."""
+        self.vertices, self.simplices = vertices, simplices
+        used = vertices[np.unique(simplices)] if simplices.size else vertices[:0]
+        diameter = float(np.linalg.norm(used.max(axis=0) - used.min(axis=0))) if used.size else 0.0
         r = resolution if self.k <= 2 else max(2, round(resolution ** (2.0 / self.k)))
-        h = diameter / r
+        self.h = diameter / r
+        return simplices.shape[0]
+
+    def initial(self, lo, hi):
+        """Bisect simplices lo..hi-1 until every longest edge is at most ``h`` (module notes)."""
+        V = self.vertices[self.simplices[lo:hi]]
+        owner = np.arange(lo, hi)
         done_V, done_own = [], []
         while V.shape[0]:
-            long_ = _longest_edge(V) > h * (1 + 1e-12)
+            long_ = _longest_edge(V) > self.h * (1 + 1e-12)
             done_V.append(V[~long_])
             done_own.append(owner[~long_])
-            if not long_.any() or h <= 0:
+            if not long_.any() or self.h <= 0:
                 break
             V = _bisect(V[long_])
             owner = np.tile(owner[long_], 2)
@@ -224,7 +227,7 @@ class SimplexCells:
         return volumes(np.transpose(V[:, 1:] - V[:, :1], (1, 0, 2)))
 
     def split(self, cells):
-        return {"V": _bisect(cells["V"])}
+        return {"V": _bisect(cells["V"]), "owner": np.tile(cells["owner"], 2)}
 
     def where(self, cells, i):
         return f"about the point {cells['V'][i].mean(axis=0).tolist()}"
@@ -247,11 +250,13 @@ class SimplexCells:
                 for bary, w in self.rules:
                     g = _integrand_values(V, self.vary, bary, strict)
                     finite &= ~np.isnan(g).any(axis=0)
-                    Q.append(w @ g)
+                    Q.append(np.einsum("q,qs->s", w, g))
                 ag = np.abs(g)                 # the highest rule's values
-                m, nz = np.abs(w @ ag), np.abs(w) @ ag
+                m = np.abs(np.einsum("q,qs->s", w, ag))
+                nz = np.einsum("q,qs->s", np.abs(w), ag)
                 v = Q[2]
-                e = _three_rule_estimate(Q, np.abs(w) @ np.abs(g - v / w.sum()))
+                e = _three_rule_estimate(Q, np.einsum("q,qs->s", np.abs(w),
+                                                      np.abs(g - v / w.sum())))
                 e = np.maximum(e, NOISE_FLOOR * nz)
                 if not strict:
                     bad[a:b] = ~finite
@@ -327,8 +332,11 @@ def integrate_simplices(form, vertices, simplices, coefs, opts):
                     EPS * mag * 8 * factorial(k), S * q * len(terms.vary))
         return acc, values, errors
     cells = SimplexCells(terms.vary, k, opts.order)
-    start = cells.initial(vertices[simplices], opts.resolution)
-    outcome = adapt(cells, start, opts, coef=cw, n_owners=S)
+    n = cells.prepare(vertices, simplices, opts.resolution)
+    sizes = volumes(np.transpose(vertices[simplices[:, 1:]] - vertices[simplices[:, :1]],
+                                 (1, 0, 2)))
+    outcome = adapt_batched(cells, n, cells.initial, opts, sizes=sizes, coef=cw,
+                            per_owner=True, batch=1 << 12)
     values += outcome.owner_values
     errors += outcome.owner_errors
     acc.add_outcome(outcome, cells.method)
