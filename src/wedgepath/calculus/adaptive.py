@@ -114,7 +114,9 @@ class Estimate:
     absolute weights applied to ``|integrand|`` (the scale of rounding);
     ``bad``: cells where the integrand was not finite (only in non-strict mode);
     ``rounding``: an absolute rounding term of its own, when the cell type has one
-    beyond ``4 eps noise`` (for example the rounding of a polygon's vertices).
+    beyond ``4 eps noise`` (for example the rounding of a polygon's vertices);
+    ``evaluations``: the integrand evaluations made, when not ``evaluations_per_cell``
+    for every cell.
     """
 
     value: np.ndarray
@@ -123,6 +125,7 @@ class Estimate:
     noise: np.ndarray
     bad: np.ndarray | None = None
     rounding: np.ndarray | None = None
+    evaluations: int | None = None
 
 
 class CellType:
@@ -217,7 +220,7 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None) -> O
             raise ValueError(f"{exc}; where the integrand is singular the integral may not "
                              "converge") from None
         raise ValueError(f"the integrand is not finite {kind.where(cells, int(np.flatnonzero(est.bad)[0]))}")
-    evaluations = n0 * epc
+    evaluations = est.evaluations if est.evaluations is not None else n0 * epc
     budget = max(MAX_EVALUATIONS, 16 * evaluations)
     max_cells = max(MAX_CELLS, 4 * n0)
     reasons = set()
@@ -260,7 +263,7 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None) -> O
             children["owner"] = np.tile(parents["owner"], 2)
         children["_depth"] = children["_depth"] + 1
         cest = kind.evaluate(children, strict=False)
-        evaluations += 2 * P * epc
+        evaluations += cest.evaluations if cest.evaluations is not None else 2 * P * epc
         ok = np.ones(P, dtype=bool)
         if cest.bad is not None and cest.bad.any():
             bad_parent = cest.bad.reshape(2, P).any(axis=0)
