@@ -9,12 +9,21 @@ polynomial coefficients     Grundmann-Möller rule of degree >= the           ex
                             high degrees (Gauss-Legendre for k = 1)
 other coefficients          adaptive (:mod:`~wedgepath.calculus.adaptive`):  estimate
                             k = 1: Gauss-Kronrod with the QUADPACK estimate;
-                            k >= 2: three Grundmann-Möller rules with a
-                            consistency test; longest-edge bisection
+                            k = 2: tensor Gauss-Kronrod on the collapsed
+                            square (:class:`TriangleCells`); k >= 3: three
+                            Grundmann-Möller rules with a consistency test,
+                            longest-edge bisection
 0-form on a 0-chain         point evaluation                                 exact
 ==========================  ===============================================  =========
 
-The three-rule estimate on a k-simplex (k >= 2) uses the Grundmann-Möller
+Triangles are integrated in collapsed (Duffy) coordinates, ``(t, s) -> A + t (p - A +
+s (q - p))`` with ``A`` opposite the shortest edge: a long thin triangle -- the cone of a
+curve has nothing else -- is then cut along its length only, where longest-edge bisection
+would multiply cells near the apex.  The cells get the estimate of the planar Green cells.
+Before the first evaluation, cells are made no longer than ``diameter / resolution`` in
+both directions (``diameter``: the bounding-box diagonal of the chain's vertices).
+
+The three-rule estimate on a k-simplex (k >= 3) uses the Grundmann-Möller
 rules of indices ``s - 1, s, s + 1`` (degrees ``2s - 1, 2s + 1, 2s + 3``; ``s``
 is ``order``, default 3): with ``d1 = |Q_{s+1} - Q_s|`` and
 ``d2 = |Q_s - Q_{s-1}|``, the rules are taken to converge when
@@ -24,13 +33,11 @@ otherwise it is ``max(d1, d2)``.  A cell the rules do not resolve (``max(d1,
 d2)`` not small against ``resasc``, the rule applied to ``|integrand -
 mean|``) gets at least ``resasc * min(1, (50 max(d1, d2) / resasc)**2)``: about
 ``resasc`` itself for a discontinuous integrand, as in QUADPACK's estimate on
-intervals.  Never less than ``50 eps`` times the rule
-applied to ``|integrand|`` with absolute weights (rounding).  Before the first
-evaluation every simplex is bisected until its longest edge is at most
-``diameter / r`` (``diameter``: the bounding-box diagonal of the chain's
-vertices; ``r`` = ``resolution`` for k <= 2 and ``max(2, round(resolution **
-(2 / k)))`` beyond, so that the first pass costs about as many cells as for
-triangles).
+intervals.  Never less than ``50 eps`` times the rule applied to ``|integrand|``
+with absolute weights (rounding).  Before the first evaluation every simplex is
+bisected until its longest edge is at most ``diameter / r`` with
+``r = max(2, round(resolution ** (2 / k)))``, so that the first pass costs about as
+many cells as for triangles.
 """
 
 from __future__ import annotations
@@ -264,6 +271,155 @@ class SimplexCells:
         return Estimate(val, err, mag, noise, bad)
 
 
+class TriangleCells:
+    """Cell type for triangles: rectangles ``[t0, t1] x [s0, s1]`` of the collapsed square.
+
+    A triangle ``(A, p, q)`` is the image of the unit square under
+    ``(t, s) -> A + t (p - A + s (q - p))`` (collapsed, or Duffy, coordinates; the
+    Jacobian is ``t`` times that of the triangle).  ``A`` is the vertex opposite the
+    shortest edge (a cyclic relabelling: the orientation is kept), so a long thin triangle
+    -- a cone's triangle from its apex to a short segment of the curve -- is cut along its
+    length only.  Each cell gets the tensor Gauss-Kronrod rule and the estimate of the
+    Green cells (:mod:`~wedgepath.calculus.green`): QUADPACK's transform of the
+    differences in both directions, the pair G2/K5 across a short opposite edge.
+    """
+
+    def __init__(self, vary, order):
+        self.vary = vary
+        order = order or DEFAULT_ORDER_1D
+        self.rule_t = gauss_kronrod(order)
+        self.rule_long = self.rule_t
+        self.rule_short = gauss_kronrod(min(order, 2))
+        self.evaluations_per_cell = self.rule_t[0].size ** 2 * len(vary)
+        self.method = (f"adaptive Gauss-Kronrod {order}/{2 * order + 1} points per direction "
+                       "on collapsed triangles")
+
+    def prepare(self, vertices, simplices, resolution):
+        V = vertices[simplices]                                   # (S, 3, n)
+        if V.shape[0]:
+            pts = vertices[np.unique(simplices)]
+            diameter = float(np.linalg.norm(pts.max(axis=0) - pts.min(axis=0)))
+        else:
+            diameter = 0.0
+        # the edge opposite vertex j joins the other two; A = the vertex opposite the shortest
+        opp = np.stack([np.linalg.norm(V[:, (j + 2) % 3] - V[:, (j + 1) % 3], axis=1)
+                        for j in range(3)], axis=1)
+        a = np.argmin(opp, axis=1)
+        rows = np.arange(V.shape[0])
+        self.A, self.p, self.q = (V[rows, (a + j) % 3] for j in range(3))   # cyclic: same orientation
+        E = np.stack([self.p - self.A, self.q - self.A])               # (2, S, n)
+        self.minors = np.stack(minors(E, [I for I, _ in self.vary]), axis=1) if len(self.vary) \
+            else np.zeros((V.shape[0], 0))                             # (S, terms)
+        h = diameter / resolution if diameter > 0 else np.inf
+        reach = np.maximum(np.linalg.norm(self.p - self.A, axis=1),
+                           np.linalg.norm(self.q - self.A, axis=1))
+        across = np.linalg.norm(self.q - self.p, axis=1)
+        with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+            nt, ns = np.ceil(reach / h), np.ceil(across / h)
+        self.nt = np.clip(np.nan_to_num(nt, nan=1.0), 1, 1 << 16).astype(np.int64)
+        self.ns = np.clip(np.nan_to_num(ns, nan=1.0), 1, 1 << 16).astype(np.int64)
+        self.short = across <= 0.25 * h
+        self.diameter = diameter
+        return V.shape[0]
+
+    def initial(self, lo, hi):
+        nt, ns = self.nt[lo:hi], self.ns[lo:hi]
+        per = nt * ns
+        own = np.repeat(np.arange(lo, hi), per)
+        first = np.repeat(np.cumsum(per) - per, per)
+        j = np.arange(own.size) - first
+        nt_, ns_ = nt[own - lo].astype(np.float64), ns[own - lo]
+        i_t, i_s = np.divmod(j, ns_)
+        ns_ = ns_.astype(np.float64)
+        return {"owner": own, "short": self.short[own], "t0": i_t / nt_, "t1": (i_t + 1) / nt_,
+                "s0": i_s / ns_, "s1": (i_s + 1) / ns_}
+
+    def measure(self, cells):
+        o = cells["owner"]
+        area = 0.5 * np.linalg.norm(self.p[o] - self.A[o], axis=1) * \
+            np.linalg.norm(self.q[o] - self.p[o], axis=1)
+        return area * (cells["t1"] ** 2 - cells["t0"] ** 2) * (cells["s1"] - cells["s0"])
+
+    def split(self, cells):
+        cut_t = cells["cut_t"]
+        t0, t1, s0, s1 = cells["t0"], cells["t1"], cells["s0"], cells["s1"]
+        tm, sm = 0.5 * (t0 + t1), 0.5 * (s0 + s1)
+        return {"owner": np.tile(cells["owner"], 2), "short": np.tile(cells["short"], 2),
+                "t0": np.concatenate([t0, np.where(cut_t, tm, t0)]),
+                "t1": np.concatenate([np.where(cut_t, tm, t1), t1]),
+                "s0": np.concatenate([s0, np.where(cut_t, s0, sm)]),
+                "s1": np.concatenate([np.where(cut_t, s1, sm), s1])}
+
+    def _points(self, o, T, S):
+        """Points (B, mt, ms, n) at parameters T (B, mt), S (B, ms) of triangles ``o``."""
+        A, p, q = self.A[o], self.p[o], self.q[o]
+        P = p[:, None, :] + S[:, :, None] * (q - p)[:, None, :]            # (B, ms, n)
+        return A[:, None, None, :] + T[:, :, None, None] * (P - A[:, None, :])[:, None, :, :]
+
+    def where(self, cells, i):
+        o = cells["owner"][i:i + 1]
+        t = np.array([[0.5 * (cells["t0"][i] + cells["t1"][i])]])
+        s = np.array([[0.5 * (cells["s0"][i] + cells["s1"][i])]])
+        return f"about the point {self._points(o, t, s)[0, 0, 0].tolist()}"
+
+    def evaluate(self, cells, strict):
+        B = cells["owner"].size
+        out = {k: np.empty(B) for k in ("val", "err", "mag")}
+        out["cut"] = np.empty(B, dtype=bool)
+        bad = None if strict else np.zeros(B, dtype=bool)
+        evaluations = 0
+        for is_short, rule_s in ((False, self.rule_long), (True, self.rule_short)):
+            rows = np.flatnonzero(cells["short"] == is_short)
+            if rows.size:
+                evaluations += self._evaluate(cells, rows, rule_s, is_short, strict, out, bad)
+        cells["cut_t"] = out["cut"]
+        return Estimate(out["val"], out["err"], out["mag"], out["mag"], bad,
+                        evaluations=evaluations)
+
+    def _evaluate(self, cells, rows, rule_s, short, strict, out, bad):
+        xt, wkt, wgt = self.rule_t
+        xs, wks, wgs = rule_s
+        kk = wkt[:, None] * wks[None, :]
+        gk = wgt[:, None] * wks[None, :]        # Gauss along t, Kronrod across
+        kg = wkt[:, None] * wgs[None, :]        # Kronrod along t, Gauss across
+        m = xt.size * xs.size
+        step = max(1, _CHUNK_POINTS // m)
+        for a in range(0, rows.size, step):
+            r = rows[a:a + step]
+            o = cells["owner"][r]
+            t0, s0 = cells["t0"][r], cells["s0"][r]
+            ht, hs = cells["t1"][r] - t0, cells["s1"][r] - s0
+            T = t0[:, None] + ht[:, None] * xt[None, :]
+            S = s0[:, None] + hs[:, None] * xs[None, :]
+            X = self._points(o, T, S)
+            nb, mt, ms, n = X.shape
+            flat = X.reshape(nb * mt * ms, n)
+            g = np.zeros((nb, mt, ms))
+            for c, (I, coef) in enumerate(self.vary):
+                f = coef.evaluate(flat, _coef_label(I), strict=strict).reshape(nb, mt, ms)
+                g += f * self.minors[o, c][:, None, None]
+            if not strict:
+                bad[r] = np.isnan(g).any(axis=(1, 2))
+            q = g * (T * (ht * hs)[:, None])[:, :, None]                   # Jacobian t dt ds
+            v_kk = np.einsum("kij,ij->k", q, kk)
+            e_t = np.abs(v_kk - np.einsum("kij,ij->k", q, gk))
+            e_s = np.abs(v_kk - np.einsum("kij,ij->k", q, kg))
+            resabs = np.einsum("kij,ij->k", np.abs(q), kk)
+            resasc = np.einsum("kij,ij->k", np.abs(q - v_kk[:, None, None]), kk)
+            raw = e_t if short else e_t + e_s
+            with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+                ratio = np.where(resasc > 0, 200.0 * raw / resasc, 0.0)
+                e = np.where((resasc > 0) & (raw > 0),
+                             resasc * np.minimum(1.0, ratio ** 1.5), raw)
+            if short:
+                e = e + e_s
+            out["val"][r] = v_kk
+            out["err"][r] = np.maximum(e, NOISE_FLOOR * resabs)
+            out["mag"][r] = resabs
+            out["cut"][r] = e_t >= e_s
+        return rows.size * m * len(self.vary)
+
+
 def _three_rule_estimate(Q, resasc):
     """Error estimate of ``Q[2]`` from three rules of increasing degree (module notes).
 
@@ -331,7 +487,8 @@ def integrate_simplices(form, vertices, simplices, coefs, opts):
                     f"{name}, {q} points per simplex (exact for degree {terms.poly})",
                     EPS * mag * 8 * factorial(k), S * q * len(terms.vary))
         return acc, values, errors
-    cells = SimplexCells(terms.vary, k, opts.order)
+    cells = (TriangleCells(terms.vary, opts.order) if k == 2
+             else SimplexCells(terms.vary, k, opts.order))
     n = cells.prepare(vertices, simplices, opts.resolution)
     sizes = volumes(np.transpose(vertices[simplices[:, 1:]] - vertices[simplices[:, :1]],
                                  (1, 0, 2)))

@@ -237,16 +237,3 @@ def simplex_rule(k, degree):
     if k == 1:
         return _gl_bary(points_needed(degree))
     return _rule_for_index(k, gm_index_for_degree(degree))
-
-
-def rule_pair(k: int, order: int):
-    """Two rules of consecutive precision for error estimation (internal).
-
-    k = 1: Gauss-Legendre with ``order`` and ``order + 1`` points; k >= 2:
-    rules of degrees ``2 order - 1`` and ``2 order + 1`` chosen as in
-    :func:`simplex_rule` (Grundmann-Möller indices ``order - 1`` and ``order``
-    while their weights are tame, conical product rules beyond).
-    """
-    if k == 1:
-        return _gl_bary(order), _gl_bary(order + 1)
-    return _rule_for_index(k, order - 1), _rule_for_index(k, order)
