@@ -308,6 +308,7 @@ class TriangleCells:
         rows = np.arange(V.shape[0])
         self.A, self.p, self.q = (V[rows, (a + j) % 3] for j in range(3))   # cyclic: same orientation
         E = np.stack([self.p - self.A, self.q - self.A])               # (2, S, n)
+        self.area = volumes(E)
         self.minors = np.stack(minors(E, [I for I, _ in self.vary]), axis=1) if len(self.vary) \
             else np.zeros((V.shape[0], 0))                             # (S, terms)
         h = diameter / resolution if diameter > 0 else np.inf
@@ -335,10 +336,9 @@ class TriangleCells:
                 "s0": i_s / ns_, "s1": (i_s + 1) / ns_}
 
     def measure(self, cells):
-        o = cells["owner"]
-        area = 0.5 * np.linalg.norm(self.p[o] - self.A[o], axis=1) * \
-            np.linalg.norm(self.q[o] - self.p[o], axis=1)
-        return area * (cells["t1"] ** 2 - cells["t0"] ** 2) * (cells["s1"] - cells["s0"])
+        """Area of every cell: the triangle's times ∫∫ 2t dt ds over the rectangle."""
+        return (self.area[cells["owner"]] * (cells["t1"] ** 2 - cells["t0"] ** 2)
+                * (cells["s1"] - cells["s0"]))
 
     def split(self, cells):
         cut_t = cells["cut_t"]
