@@ -219,7 +219,8 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None) -> O
         except ValueError as exc:
             raise ValueError(f"{exc}; where the integrand is singular the integral may not "
                              "converge") from None
-        raise ValueError(f"the integrand is not finite {kind.where(cells, int(np.flatnonzero(est.bad)[0]))}")
+        first = int(np.flatnonzero(est.bad)[0])
+        raise ValueError(f"the integrand is not finite {kind.where(cells, first)}")
     evaluations = est.evaluations if est.evaluations is not None else n0 * epc
     budget = max(MAX_EVALUATIONS, 16 * evaluations)
     max_cells = max(MAX_CELLS, 4 * n0)
