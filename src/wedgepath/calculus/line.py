@@ -94,22 +94,6 @@ def _path_geometries(path, closure, curve):
 
 
 # --------------------------------------------------------------------------- integrands
-def _integrand(geom, varying, seg, s, strict=True):
-    """Pulled-back integrand sum_i f_i(gamma) * gamma_i' at (seg, s) pairs.
-
-    Not ``strict``: also returns where a coefficient was not finite.
-    """
-    x, v = geom.evaluate(seg, s)
-    out = np.zeros(seg.shape[0])
-    bad = None if strict else np.zeros(seg.shape[0], dtype=bool)
-    for i, coef in varying:
-        f = coef.evaluate(x, f"coefficient of dx{i}", strict=strict)
-        if not strict:
-            bad |= np.isnan(f)
-        out += f * v[:, i]
-    return out if strict else (out, bad)
-
-
 def _integrand_cells(geom, varying, seg, s, strict=True):
     """Pulled-back integrand (B, m) at parameters ``s`` (B, m) of segments ``seg`` (B,).
 
@@ -136,9 +120,9 @@ def _fixed_rule(geom, varying, m):
     step = max(1, _CHUNK_POINTS // m)
     for a in range(0, K, step):
         b = min(K, a + step)
-        s = np.tile(xq, b - a)
-        segs = np.repeat(np.arange(a, b), m)
-        vals = _integrand(geom, varying, segs, s).reshape(b - a, m) @ wq
+        s = np.broadcast_to(xq, (b - a, m))
+        f, _ = _integrand_cells(geom, varying, np.arange(a, b), s)
+        vals = np.einsum("ij,j->i", f, wq)
         total += float(vals.sum())
         scale += float(np.abs(vals).sum())
     return total, scale, K * m * len(varying)
