@@ -219,6 +219,11 @@ def checked_values(vals, m, label, where, strict=True):
     if strict:
         return check_values(vals, m, label, where)
     arr = np.asarray(vals)
+    if arr.dtype == np.float64 and arr.shape == (m,):     # the usual case: one pass
+        finite = np.isfinite(arr)
+        if finite.all():
+            return arr
+        return np.where(finite, arr, np.nan)
     if arr.dtype.kind == "f":
         bad = ~np.isfinite(arr)
         if bad.any():

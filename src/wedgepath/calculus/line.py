@@ -107,7 +107,9 @@ def _integrand_cells(geom, varying, seg, s, strict=True):
     for i, coef in varying:
         f = coef.evaluate(pts, f"coefficient of dx{i}", strict=strict).reshape(B, m)
         if not strict:
-            bad |= np.isnan(f).any(axis=1)
+            nan = np.isnan(f)
+            if nan.any():
+                bad |= nan.any(axis=1)
         out += f * v[:, :, i]
     return out, bad
 
