@@ -209,6 +209,14 @@ class Coefficient:
         return f"<callable {name}>"
 
 
+def _mul(a, b):
+    return a * b
+
+
+def _add(a, b):
+    return a + b
+
+
 def checked_values(vals, m, label, where, strict=True):
     """What a user's function returned for ``m`` points, checked (see ``check_values``).
 
@@ -244,14 +252,6 @@ def _add_coefficients(a, b):
 
 def _sympy_product(a, b, sign):
     return sign * a * b
-
-
-def _mul(a, b):
-    return a * b
-
-
-def _add(a, b):
-    return a + b
 
 
 # --------------------------------------------------------------------------- forms
