@@ -516,3 +516,44 @@ class TestErrorEstimatesHold:
             s = 6e-4 * D
             r = wp.integrate(self.gaussian_form(c, s), [[0, 0], [4, 0], [4, 1]], rtol=1e-8)
             assert abs(float(r) - self.gaussian_reference(c, s)) <= r.error + r.rounding
+
+
+class TestWorkBound:
+    """max_evaluations bounds the work: refused before evaluating, or refinement capped."""
+
+    def test_first_pass_above_the_bound_is_refused_before_evaluating(self):
+        calls = []
+
+        def f(c):
+            calls.append(len(c))
+            return np.sin(c[:, 0])
+        with pytest.raises(ValueError, match="minimum subdivision alone needs"):
+            wp.integrate(wp.OneForm([f, 0.0]), [[0, 0], [4, 0], [4, 1]], max_evaluations=100)
+        assert calls == []
+
+    @pytest.mark.parametrize("bound", [2_000, 5_000, 15_000])
+    def test_refinement_stays_within_the_bound(self, bound):
+        # sin(20 / (x + 0.01)) oscillates ever faster towards x = 0: at rtol 1e-12 it takes
+        # about 19,000 evaluations, more than these bounds allow, so refinement stops at the
+        # bound and says so
+        w = wp.OneForm([lambda c: np.sin(20.0 / (c[:, 0] + 0.01)), 0.0])
+        with warnings.catch_warnings(record=True) as seen:
+            warnings.simplefilter("always")
+            r = wp.integrate(w, [[0, 0], [4, 0], [4, 1]], rtol=1e-12, max_evaluations=bound)
+        assert r.evaluations <= bound
+        msgs = [str(x.message) for x in seen if issubclass(x.category, wp.IntegrationWarning)]
+        assert len(msgs) == 1 and "limit of" in msgs[0], msgs
+
+    def test_region_integral_within_the_bound(self):
+        t = np.linspace(0, 2 * np.pi, 300, endpoint=False)
+        loop = np.column_stack([np.cos(t), np.sin(t)])
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", wp.IntegrationWarning)
+            for bound in (2 * 10**5, 10**6):
+                r = wp.region_integral(lambda x, y: np.sqrt(np.abs(x * y)), loop,
+                                       max_evaluations=bound)
+                assert r.evaluations <= bound
+        with pytest.raises(ValueError, match="lower resolution"):
+            wp.region_integral(lambda x, y: x * np.exp(y), loop, max_evaluations=1000)
+        with pytest.raises(ValueError, match="max_evaluations must be >= 1"):
+            wp.region_integral(lambda x, y: x, loop, max_evaluations=0)

@@ -62,6 +62,7 @@ class Options:
     order: int | None = None
     max_levels: int = 30
     resolution: int = 32
+    max_evaluations: int | None = None
 
 
 def _number(name, v):
@@ -84,8 +85,13 @@ def _integer(name, v, lo, allow_none=False):
     return int(v)
 
 
-def options(rtol=1e-10, atol=0.0, order=None, max_levels=30, resolution=32) -> Options:
+def options(rtol=1e-10, atol=0.0, order=None, max_levels=30, resolution=32,
+            max_evaluations=None) -> Options:
     """Check the tolerance arguments shared by ``integrate``, ``region_integral`` and ``de_rham``.
+
+    ``max_evaluations`` (optional) bounds the evaluations of the integrand: a minimum
+    subdivision that alone needs more is refused before anything is evaluated, and
+    refinement stops (with a warning when the tolerance is unmet) at the bound.
 
     Examples
     --------
@@ -101,7 +107,8 @@ def options(rtol=1e-10, atol=0.0, order=None, max_levels=30, resolution=32) -> O
     if rtol == 0 and atol == 0:
         raise ValueError("rtol and atol cannot both be 0")
     return Options(rtol, atol, _integer("order", order, 1, allow_none=True),
-                   _integer("max_levels", max_levels, 0), _integer("resolution", resolution, 1))
+                   _integer("max_levels", max_levels, 0), _integer("resolution", resolution, 1),
+                   _integer("max_evaluations", max_evaluations, 1, allow_none=True))
 
 
 @dataclass
@@ -184,7 +191,8 @@ def _concat(a, b):
     return {k: np.concatenate([a[k], b[k]]) for k in a}
 
 
-def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None) -> Outcome:
+def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None,
+          budget=None) -> Outcome:
     """Integrate adaptively over ``cells`` (already subdivided to the minimum).
 
     Parameters
@@ -199,6 +207,9 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None) -> O
         ``sum coef[owner] * value`` and the error ``sum |coef[owner]| * error``.
     owner_range : (int, int), optional
         Also return the (unweighted) values and errors of owners ``lo..hi-1``.
+    budget : int, optional
+        Evaluations this call may make in all (first pass included); default
+        ``max(MAX_EVALUATIONS, 16 x first pass)``.
     """
     n0 = len(next(iter(cells.values())))
     epc = kind.evaluations_per_cell
@@ -222,7 +233,8 @@ def adapt(kind, cells: dict, opts: Options, *, coef=None, owner_range=None) -> O
         first = int(np.flatnonzero(est.bad)[0])
         raise ValueError(f"the integrand is not finite {kind.where(cells, first)}")
     evaluations = est.evaluations if est.evaluations is not None else n0 * epc
-    budget = max(MAX_EVALUATIONS, 16 * evaluations)
+    if budget is None:
+        budget = max(MAX_EVALUATIONS, 16 * evaluations)
     max_cells = max(MAX_CELLS, 4 * n0)
     reasons = set()
     nonfinite_at = None
@@ -336,6 +348,16 @@ def adapt_batched(kind, n_owners: int, initial, opts: Options, *, sizes=None, co
     w = np.ones(n_owners) if coef is None else np.abs(np.asarray(coef, dtype=np.float64))
     weighted = w * sizes
     total_size = float(weighted.sum())
+    # the first pass of every batch, when the cell type can tell it before evaluating
+    first = kind.first_pass(n_owners) if hasattr(kind, "first_pass") else None
+    if opts.max_evaluations is not None and first is not None:
+        need = int(first.sum())
+        if need > opts.max_evaluations:
+            raise ValueError(
+                f"the minimum subdivision alone needs {need:,} evaluations of the integrand, "
+                f"more than max_evaluations={opts.max_evaluations:,}; lower resolution= "
+                f"(now {opts.resolution}) or raise max_evaluations")
+    used = 0
     acc = Outcome(0.0, 0.0, 0.0, 0.0, 0.0, 0)
     if per_owner:
         acc.owner_values = np.zeros(n_owners)
@@ -349,8 +371,14 @@ def adapt_batched(kind, n_owners: int, initial, opts: Options, *, sizes=None, co
         if sub.rtol == 0 and sub.atol == 0:       # an owner range of zero size and rtol = 0
             sub = Options(opts.rtol, opts.atol / max(1, n_owners), opts.order,
                           opts.max_levels, opts.resolution)
+        budget = None
+        if opts.max_evaluations is not None:
+            # what is left, keeping the first passes of the batches still to come
+            later = int(first[hi:].sum()) if first is not None else 0
+            budget = max(0, opts.max_evaluations - used - later)
         out = adapt(kind, initial(lo, hi), sub, coef=coef,
-                    owner_range=(lo, hi) if per_owner else None)
+                    owner_range=(lo, hi) if per_owner else None, budget=budget)
+        used += out.evaluations
         acc.value += out.value
         acc.error += out.error
         acc.tolerance += out.tolerance

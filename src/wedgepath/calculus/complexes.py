@@ -482,7 +482,7 @@ class SimplicialComplex:
 
     # ------------------------------------------------------------- de Rham
     def de_rham(self, form, k=None, *, rtol=1e-10, atol=0.0, order=None, max_levels=30,
-                resolution=32, return_error=False):
+                resolution=32, max_evaluations=None, return_error=False):
         """The de Rham map: the k-cochain of the form's integrals over the k-simplices.
 
         Parameters
@@ -494,8 +494,8 @@ class SimplicialComplex:
             :class:`WhitneyForm` of this complex is integrated exactly.
         k : int, optional
             The degree (default ``form.degree``; must match it).
-        rtol, atol, order, max_levels, resolution
-            Tolerance, rules and minimum subdivision of the adaptive method, as
+        rtol, atol, order, max_levels, resolution, max_evaluations
+            Tolerance, rules, minimum subdivision and work bound of the adaptive method, as
             in :func:`wedgepath.integrate` (the tolerance applies to the whole
             cochain: ``rtol`` times the sum over the simplices).
         return_error : bool
@@ -530,7 +530,7 @@ class SimplicialComplex:
         kk = form.degree if k is None else self._check_k(k)
         self._check_k(kk)
         check_form_on(form, kk, self.dim, what="simplex")
-        opts = options(rtol, atol, order, max_levels, resolution)
+        opts = options(rtol, atol, order, max_levels, resolution, max_evaluations)
         S = self._simplices[kk]
         with np.errstate(over="ignore", invalid="ignore"):
             acc, values, errors = integrate_simplices(form, self._vertices, S,

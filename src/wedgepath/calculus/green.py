@@ -290,6 +290,12 @@ class GreenCells:
         self.sizes = 0.5 * (np.abs(geo.x0) + np.abs(geo.x0 + geo.dx)) * np.abs(geo.dy)
         return geo.n
 
+    def first_pass(self, n_owners):
+        """Evaluations of the first pass, per segment (owner)."""
+        m_u = self.x.size
+        m_s = np.where(self.short, self.rule_short[0].size, self.rule_long[0].size)
+        return self.ns * self.nu * m_s * m_u
+
     def initial(self, lo, hi):
         ns, nu = self.ns[lo:hi], self.nu[lo:hi]
         per = ns * nu

@@ -54,7 +54,7 @@ CURVES = ("linear", "spline")
 
 # --------------------------------------------------------------------------- entry point
 def integrate(form, chain, closure=None, curve="linear", *, rtol=1e-10, atol=0.0,
-              order=None, max_levels=30, resolution=32):
+              order=None, max_levels=30, resolution=32, max_evaluations=None):
     """Integrate a differential form over a chain.
 
     Parameters
@@ -96,6 +96,12 @@ def integrate(form, chain, closure=None, curve="linear", *, rtol=1e-10, atol=0.0
         bounding box of the path or chain).  Features of the integrand much
         narrower than about a tenth of that size can still go unseen: raise
         ``resolution`` (or insert samples) to look closer.
+    max_evaluations : int, optional
+        A bound on the evaluations of the integrand (the work).  A minimum
+        subdivision that alone needs more is refused (ValueError) before
+        anything is evaluated (for simplices of dimension 3 and more the first
+        pass is not counted ahead); refinement stops at the bound, with an
+        :class:`IntegrationWarning` if the tolerance is not met.
 
     Returns
     -------
@@ -133,7 +139,7 @@ def integrate(form, chain, closure=None, curve="linear", *, rtol=1e-10, atol=0.0
     >>> round(float(r), 12), r.exact, r.error < 1e-10
     (0.841470984808, False, True)
     """
-    opts = options(rtol, atol, order, max_levels, resolution)
+    opts = options(rtol, atol, order, max_levels, resolution, max_evaluations)
     if isinstance(form, WhitneyForm):
         return form.integrate_over(chain, closure=closure, curve=curve)
     if not isinstance(form, Form):

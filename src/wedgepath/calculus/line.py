@@ -163,6 +163,10 @@ class Intervals:
         self.seg_of = np.concatenate([np.arange(g.n_segments) for g in self.geoms])
         return L.size
 
+    def first_pass(self, n_owners):
+        """Evaluations of the first pass, per segment (owner)."""
+        return self.counts * self.evaluations_per_cell
+
     def initial(self, lo, hi):
         """Cells of the minimum subdivision of segments (owners) lo..hi-1."""
         n = self.counts[lo:hi]

@@ -323,6 +323,11 @@ class TriangleCells:
         self.diameter = diameter
         return V.shape[0]
 
+    def first_pass(self, n_owners):
+        """Evaluations of the first pass, per triangle (owner)."""
+        m_s = np.where(self.short, self.rule_short[0].size, self.rule_long[0].size)
+        return self.nt * self.ns * self.rule_t[0].size * m_s * len(self.vary)
+
     def initial(self, lo, hi):
         nt, ns = self.nt[lo:hi], self.ns[lo:hi]
         per = nt * ns

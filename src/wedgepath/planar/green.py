@@ -39,7 +39,8 @@ def _from_text(text, symbols):
 
 
 def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rtol=1e-10,
-                    atol=0.0, order=None, max_levels=30, resolution=32) -> Integral:
+                    atol=0.0, order=None, max_levels=30, resolution=32,
+                    max_evaluations=None) -> Integral:
     """Integral of ``f`` over the winding-weighted region of a closed planar curve.
 
     Computes ``∬ w(x, y) f(x, y) dx∧dy`` where ``w`` is the winding number
@@ -85,6 +86,11 @@ def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rt
         ``diameter / resolution`` in each direction (``diameter``: the
         diagonal of the curve's bounding box).  Raise it to look for
         features of ``f`` narrower than about a tenth of that.
+    max_evaluations : int, optional
+        A bound on the evaluations of ``f``: a minimum subdivision that alone
+        needs more is refused (ValueError) before ``f`` is evaluated;
+        refinement stops at the bound (with a warning if the tolerance is not
+        met).  Exact (polynomial) integration is not bounded by it.
 
     Returns
     -------
@@ -134,7 +140,7 @@ def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rt
     fn = integrand(f, symbols, degree)
     path = planar_path(path2d, "region_integral")
     pieces = closed_pieces(path, closure, "region_integral")
-    opts = options(rtol, atol, order, max_levels, resolution)
+    opts = options(rtol, atol, order, max_levels, resolution, max_evaluations)
 
     if fn.kind == "constant":
         with np.errstate(over="ignore", invalid="ignore"):
