@@ -14,7 +14,11 @@ Rows:
 * information only: the same doubling for a loop of white noise around ten
   turns, whose segments nearly cross each other everywhere (the number of
   query/segment near-pairs then grows faster than vertices + queries), and
-  the peak traced memory of the 10^6-query call.
+  the peak traced memory of the 10^6-query call;
+* ``region_integral`` of a callable over a 10^4-vertex loop (adaptive Green
+  cells) against evaluating the same callable on as many points as the
+  integral used (target: within 5x, as for line integrals in
+  bench_calculus.py), with the evaluations per vertex for information.
 
 * the size estimate of issue 13: ``count_crossings`` on the same noisy loop
   against the two geometry steps (target at most 0.1x: counting first costs
@@ -138,6 +142,31 @@ def main(quick=False):
                               repeat=1 if quick else 2)
     table.info("  same, white-noise loop (info)",
                f"ratio {s2 / s1:.2f} ({s2:.2f} s vs {s1:.2f} s)")
+
+    # ---------------------------------------------------------------- region_integral
+    nv = 2_000 if quick else 10_000
+    t = np.linspace(0, 2 * np.pi, nv, endpoint=False)
+    rad = 1 + 0.3 * np.sin(3 * t) + 0.02 * np.sin(37.3 * t)
+    loop = np.column_stack([rad * np.cos(t), rad * np.sin(t)])
+
+    def field(x, y):  # invented demo field
+        return np.exp(-(x * x + y * y)) * np.cos(3 * x)
+    res = wp.region_integral(field, loop)
+    n_pts = res.evaluations
+    chunk = 1 << 18
+    pts = rng.normal(size=(chunk, 2))
+
+    def field_alone():
+        done = 0
+        while done < n_pts:
+            m = min(chunk, n_pts - done)
+            field(pts[:m, 0], pts[:m, 1])
+            done += m
+    t_int, t_alone = interleaved_best([lambda: wp.region_integral(field, loop), field_alone],
+                                      repeat=2 if quick else 3)
+    table.ratio(f"region_integral of a callable ({nv} vertices) / the callable on same points",
+                t_int, t_alone, 5.0,
+                note=f"{n_pts / nv:.0f} evaluations per vertex, error {res.error:.1e}")
 
     ok = table.print()
     return 0 if ok else 1

@@ -170,9 +170,9 @@ class Counter:
         self.points = 0
         real = Coefficient.evaluate
 
-        def counting(coef, coords, label="coefficient"):
+        def counting(coef, coords, label="coefficient", **kw):
             self.points += coords.shape[0]
-            return real(coef, coords, label)
+            return real(coef, coords, label, **kw)
         monkeypatch.setattr(Coefficient, "evaluate", counting)
 
 
@@ -280,9 +280,9 @@ def test_nasty_formulas_are_bounded(text):
     points = [0]
     real = Coefficient.evaluate
 
-    def counting(coef, coords, label="coefficient"):
+    def counting(coef, coords, label="coefficient", **kw):
         points[0] += coords.shape[0]
-        return real(coef, coords, label)
+        return real(coef, coords, label, **kw)
     Coefficient.evaluate = counting
     try:
         with hang_alarm(30):

@@ -577,8 +577,16 @@ returns("wp.winding_number(path2d, points)", "empty", "no query point (shape (0,
         lambda r: r.shape == (0,) and r.dtype == np.int64)
 row("wp.winding_number(path2d, points)", "overflow", "coordinates above 1e150",
     lambda: wp.winding_number(loop(2) * 1e200, [[0, 0]]), ValueError, "up to 1e+150")
-row("wp.region_integral(f, path2d)", "text", "f = 'x*y' (a string)",
-    lambda: wp.region_integral("x*y", SQUARE), TypeError, "the integrand must be")
+returns("wp.region_integral(f, path2d)", "text", "f = 'x*y' (a formula as text)",
+        lambda: float(wp.region_integral("x*y", SQUARE)), "0.25, exact (parsed, never evaluated)",
+        lambda r: r == 0.25)
+row("wp.region_integral(f, path2d)", "text", "f = \"__import__('os').remove('x')\"",
+    lambda: wp.region_integral("__import__('os').remove('x')", SQUARE), ValueError,
+    "formula: only plain function names")
+row("wp.region_integral(f, path2d)", "text", "f = b'x*y' (bytes)",
+    lambda: wp.region_integral(b"x*y", SQUARE), TypeError, "must be text")
+row("wp.region_integral(f, path2d)", "text", "f = object()",
+    lambda: wp.region_integral(object(), SQUARE), TypeError, "the integrand must be")
 row("wp.region_integral(f, path2d)", "dim", "f a 1-form", lambda: wp.region_integral(wp.dx(0),
                                                                                   SQUARE),
     ValueError, "integrates 2-forms")

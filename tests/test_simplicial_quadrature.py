@@ -150,3 +150,19 @@ def test_simplex_rule_keeps_rounding_amplification_bounded():
     assert grundmann_moller(2, 6)[1].min() < 0          # the factor the switch avoids
     assert np.abs(grundmann_moller(2, 6)[1]).sum() / 0.5 > 64
     assert rule_name(2, 5) == "Grundmann-Möller" and rule_name(2, 13) == "conical product"
+
+
+@pytest.mark.parametrize("k", [2, 3, 4])
+def test_rule_choice_from_closed_form_weights_matches_the_built_rules(k):
+    # the choice between Grundmann-Moller and the conical rule is made from the closed form
+    # of the weights (no rule built); it must agree with the rules themselves
+    from math import factorial
+    from wedgepath.calculus import simplex_quadrature as sq
+    for s in range(0, 7):
+        bary, w = grundmann_moller(k, s)
+        amplification = float(np.abs(w).sum() * factorial(k))
+        n_conical = 1
+        for i in range(1, k + 1):
+            n_conical *= sq.points_needed(2 * s + 1 + k - i)
+        expect = s == 0 or (amplification <= 64 and bary.shape[0] < n_conical)
+        assert sq._prefer_gm(k, s) == expect, (k, s)

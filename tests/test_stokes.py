@@ -206,6 +206,18 @@ class TestMethods:
         assert float(r) == pytest.approx(math.pi * s ** 2 / 4, rel=1e-8)
         assert r.error < 1e-9
 
+    @pytest.mark.parametrize("k", [3, 4])
+    def test_callable_over_a_standard_simplex_against_its_closed_form(self, k):
+        # ∫ over the standard k-simplex of exp(x_1 + ... + x_k) = ∫_0^1 e^s s^(k-1)/(k-1)! ds
+        # (the slices sum x = s have volume s^(k-1)/(k-1)!); ∫_0^1 s^2 e^s = e - 2 and
+        # ∫_0^1 s^3 e^s = 6 - 2e by parts (by hand)
+        S = wp.SimplicialChain(np.vstack([np.zeros(k), np.eye(k)]), [list(range(k + 1))])
+        w = wp.Form({tuple(range(k)): lambda c: np.exp(c.sum(axis=1))}, k, k)
+        r = wp.integrate(w, S)
+        exact = (math.e - 2) / 2 if k == 3 else (6 - 2 * math.e) / 6
+        assert abs(float(r) - exact) <= r.error + r.rounding
+        assert r.error <= 1e-10 * exact
+
     def test_tolerance_not_reached_warns(self):
         f = wp.TwoForm({(0, 1): lambda c: np.abs(c[:, 0] - 0.3) ** 0.5})
         S = wp.SimplicialChain([[0, 0], [1, 0], [0, 1]], [[0, 1, 2]])

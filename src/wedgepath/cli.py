@@ -654,7 +654,7 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
         # parsed and its work bounded before anything is computed (a refusal comes at once)
         x, y = sp.symbols("x y", real=True)
         expr = parse_weight(weight, (x, y))
-        levels = weight_levels(expr, (x, y), _segments(xy))
+        weight_levels(expr, (x, y), _segments(xy))
     path = Path(xy, times=times, names=names)
     if closure == "require" and tol is not None:
         path = path.close("require", tol=tol)     # closed within tol: exactly closed after
@@ -720,13 +720,13 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
             warnings.simplefilter("always")
             try:
                 r = region_integral(expr, path, closure=closure, symbols=(x, y),
-                                    max_levels=levels)
+                                    max_evaluations=_weight_evaluations(expr, (x, y)))
             except ValueError as exc:
                 raise CLIError(_weight_message(str(exc), weight)) from None
         notes = [str(w.message) for w in caught]
-        if levels < _ADAPTIVE_LEVELS and any("not reached" in n for n in notes):
-            notes.append(f"the refinement of --weight was capped at {levels} levels by the "
-                         f"work limit ({WEIGHT_WORK_LIMIT:.0e} units, docs/cli.md)")
+        if any("limit of" in n for n in notes):
+            notes.append(f"the refinement of --weight was capped by the work limit "
+                         f"({WEIGHT_WORK_LIMIT:.0e} units, docs/cli.md)")
         rep["notes"] += notes
         rep["weighted_integral"] = {"formula": weight, "value": float(r), "error": r.error,
                                     "exact": r.exact, "method": r.method}
@@ -821,6 +821,13 @@ def weight_levels(expr, symbols, segments, limit=None):
                        f"work units each, above the limit of {limit:.0e} units; use a simpler "
                        "formula or fewer samples")
     return int(min(_ADAPTIVE_LEVELS, math.floor(math.log2(limit / first + 1)) - 1))
+
+
+def _weight_evaluations(expr, symbols):
+    """Evaluations of the --weight formula that fit within the work limit."""
+    from .formula import POINT_OVERHEAD, evaluation_cost
+    return max(1, int(WEIGHT_WORK_LIMIT // (POINT_OVERHEAD + evaluation_cost(expr)
+                                            + ADAPTIVE_OVERHEAD)))
 
 
 def _weight_message(msg, weight):

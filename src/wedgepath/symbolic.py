@@ -1,9 +1,11 @@
 """Exact (sympy) oracles for forms, line integrals and region integrals.
 
 This module is the exact layer of wedgepath.  It is a *leaf*: it depends only
-on sympy, numpy and the standard library, never on other wedgepath modules, so
-the rest of the package (and its tests) can use it as an independent referee,
-and users can use it to check their floating-point numbers.
+on sympy, numpy, the standard library and wedgepath's index algebra
+(:mod:`wedgepath._exterior`: the sign of a permutation and the wedge of term
+tables, which imports nothing), never on the numeric layers, so the rest of
+the package (and its tests) can use it as an independent referee, and users
+can use it to check their floating-point numbers.
 
 Conventions
 -----------
@@ -35,11 +37,12 @@ import decimal
 import math
 import numbers
 from fractions import Fraction
-from itertools import product as _product
 
 import numpy as np
 import sympy
 from sympy.polys.rings import ring as _ring
+
+from ._exterior import sort_with_sign, wedge_terms
 
 __all__ = [
     "to_rational",
@@ -279,15 +282,6 @@ def _tidy(expr):
 # ---------------------------------------------------------------------------
 
 
-def _sort_sign(idx):
-    """(sorted tuple, sign) of an index tuple; sign 0 if an index repeats."""
-    idx = tuple(idx)
-    if len(set(idx)) != len(idx):
-        return None, 0
-    inversions = sum(1 for a in range(len(idx)) for b in range(a + 1, len(idx)) if idx[a] > idx[b])
-    return tuple(sorted(idx)), (-1 if inversions % 2 else 1)
-
-
 def _canonical_form(components, n=None, what="components"):
     """Validate a form dict; sort keys with sign, merge, drop zeros.
 
@@ -318,7 +312,7 @@ def _canonical_form(components, n=None, what="components"):
                 f"{what}: mixed degrees {degree} and {len(key)}; a form must be homogeneous"
             )
         expr = _as_expr(value, f"{what}[{key}]")
-        skey, sign = _sort_sign(key)
+        skey, sign = sort_with_sign(key)
         if sign == 0:
             continue
         out[skey] = out.get(skey, sympy.Integer(0)) + sign * expr
@@ -381,9 +375,8 @@ def exterior_derivative(components, symbols):
             df = sympy.diff(f, xj)
             if df == 0:
                 continue
-            # moving dx_j past the indices of key smaller than j
-            sign = -1 if sum(1 for i in key if i < j) % 2 else 1
-            new = tuple(sorted(key + (j,)))
+            # dx_j ^ dx_key: the sign of the permutation that sorts (j,) + key
+            new, sign = sort_with_sign((j,) + key)
             out[new] = out.get(new, sympy.Integer(0)) + sign * df
     return _drop_zeros(out)
 
@@ -418,12 +411,7 @@ def wedge(a, b):
     """
     fa, _ = _canonical_form(a, None, "a")
     fb, _ = _canonical_form(b, None, "b")
-    out = {}
-    for (ka, va), (kb, vb) in _product(fa.items(), fb.items()):
-        key, sign = _sort_sign(ka + kb)
-        if sign == 0:
-            continue
-        out[key] = out.get(key, sympy.Integer(0)) + sign * va * vb
+    out = wedge_terms(fa, fb, lambda x, y, sign: sign * x * y, lambda x, y: x + y)
     return _drop_zeros(out)
 
 

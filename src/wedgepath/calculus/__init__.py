@@ -3,7 +3,8 @@
 from .chains import Chain, ZeroChain
 from .complexes import SimplicialComplex, WhitneyForm
 from .forms import Form, OneForm, TwoForm, ZeroForm, dx
-from .integrate import Integral, IntegrationWarning, integrate
+from .integral import Integral, IntegrationWarning
+from .integrate import integrate
 from .paths import CLOSURES, Path, as_path
 from .simplex_quadrature import grundmann_moller
 from .simplicial import SimplicialChain, cone

@@ -35,13 +35,14 @@ import numpy as np
 import scipy.sparse as sps
 
 from .._validation import COEF_LIMIT, as_float_array, as_int, check_choice
+from ._indexing import (as_chain_coefficients, as_index_array, group_keys, readonly, row_keys,
+                        row_signs, sort_columns, sort_rows)
+from .adaptive import options
 from .forms import Form
-from .integrate import _options
+from .integral import EPS, Integral
 from .paths import CLOSURES, as_path
-from .simplicial import (SimplicialChain, _as_index_array, _check_form_on, _sort_columns,
-                         _sort_rows,
-                         _integrate_simplices, _minors, _permutation_parity, _readonly,
-                         _group_keys, _row_keys)
+from .simplex_integration import check_form_on, integrate_simplices, minors
+from .simplicial import SimplicialChain
 
 __all__ = ["SimplicialComplex", "WhitneyForm"]
 
@@ -50,11 +51,11 @@ METRICS = ("time", "arclength")
 
 def _lookup(table_keys, rows, n_vertices, table_rows=None):
     """Positions of sorted ``rows`` in a lexicographically sorted table (keys or rows)."""
-    keys = _row_keys(rows, n_vertices)
+    keys = row_keys(rows, n_vertices)
     if keys is not None and table_keys is not None:
         return np.searchsorted(table_keys, keys)
     # wide rows: order-preserving keys computed jointly for the table and the queries
-    joint = _group_keys(np.concatenate([table_rows, rows]), n_vertices)
+    joint = group_keys(np.concatenate([table_rows, rows]), n_vertices)
     m = table_rows.shape[0]
     return np.searchsorted(joint[:m], joint[m:])
 
@@ -106,8 +107,8 @@ class SimplicialComplex:
         verts = as_float_array(vertices, "vertices", ndim=2)
         if verts.shape[1] == 0:
             raise ValueError("vertices has no coordinates (shape has 0 columns)")
-        top = _as_index_array(simplices, verts.shape[0])
-        self._build(_readonly(verts), top)
+        top = as_index_array(simplices, verts.shape[0])
+        self._build(readonly(verts), top)
 
     # ------------------------------------------------------------ building
     def _build(self, verts, top, edge_times=None, vertex_rows=None):
@@ -116,7 +117,7 @@ class SimplicialComplex:
         if K > verts.shape[1]:
             raise ValueError(f"a {K}-simplex ({K + 1} vertices per row) does not fit in "
                              f"R^{verts.shape[1]}")
-        srt = _sort_rows(top)[0]
+        srt = sort_rows(top)[0]
         if K >= 1 and top.shape[0]:
             rep = (srt[:, 1:] == srt[:, :-1]).any(axis=1)
             if rep.any():
@@ -125,12 +126,12 @@ class SimplicialComplex:
                                  "needs distinct vertices in each simplex")
         perm = top_keys = None
         if K >= 1:
-            gk = _group_keys(srt, V)
+            gk = group_keys(srt, V)
             perm = np.argsort(gk, kind="stable")
             sk = gk[perm]
             dup = np.flatnonzero(sk[1:] == sk[:-1])
             # keys comparable across calls exist only when the packed key fits
-            top_keys = sk if _row_keys(srt[:1], V) is not None else None
+            top_keys = sk if row_keys(srt[:1], V) is not None else None
             if dup.size:
                 a, b = sorted((int(perm[dup[0]]), int(perm[dup[0] + 1])))
                 raise ValueError(f"simplices {a} and {b} have the same vertices "
@@ -146,15 +147,15 @@ class SimplicialComplex:
         for k in range(1, K):
             if k == K - 1:
                 # faces of the top simplices, "drop vertex i" for i = 0..K, as given
-                faces = np.concatenate([_sort_rows(top[:, [j for j in range(K + 1) if j != i]])[0]
+                faces = np.concatenate([sort_rows(top[:, [j for j in range(K + 1) if j != i]])[0]
                                         for i in range(K + 1)])
             else:
                 cols = list(combinations(range(K + 1), k + 1))
                 faces = np.concatenate([srt[:, list(c)] for c in cols])
-            fk = _group_keys(faces, V)
+            fk = group_keys(faces, V)
             uk, first, inv = np.unique(fk, return_index=True, return_inverse=True)
             simp[k] = np.ascontiguousarray(faces[first])  # lexicographic order
-            keys[k] = uk if _row_keys(faces[:1], V) is not None else None
+            keys[k] = uk if row_keys(faces[:1], V) is not None else None
             if k == K - 1:
                 self._top_face_ids = inv.reshape(K + 1, top.shape[0])
         self._top_perm = None
@@ -162,7 +163,7 @@ class SimplicialComplex:
             simp[K] = np.ascontiguousarray(top)
             keys[K] = top_keys
             self._top_perm = perm
-        self._simplices = [_readonly(s) for s in simp]
+        self._simplices = [readonly(s) for s in simp]
         self._keys = keys
         self._boundary = {}
         self._edge_times = edge_times
@@ -249,11 +250,11 @@ class SimplicialComplex:
             times.append(et)
             offset += rows.size
         vrows = np.concatenate(verts_rows)
-        verts = _readonly(np.array(pts[vrows]))
+        verts = readonly(np.array(pts[vrows]))
         self = object.__new__(cls)
         self._build(verts, np.concatenate(edges).astype(np.int64),
-                    edge_times=_readonly(np.concatenate(times).astype(np.float64)),
-                    vertex_rows=_readonly(vrows.astype(np.int64)))
+                    edge_times=readonly(np.concatenate(times).astype(np.float64)),
+                    vertex_rows=readonly(vrows.astype(np.int64)))
         return self
 
     # ---------------------------------------------------------------- views
@@ -319,11 +320,11 @@ class SimplicialComplex:
                 ids.append(self._top_face_ids[i])
             else:
                 f = S[:, cols]
-                ids.append(_lookup(self._keys[k - 1], f if k < self._K else _sort_rows(f)[0],
+                ids.append(_lookup(self._keys[k - 1], f if k < self._K else sort_rows(f)[0],
                                    self._vertices.shape[0], self._simplices[k - 1]))
             if k == self._K and k > 1:
                 # the top keeps its given vertex order
-                signs.append(sgn * _permutation_parity(S[:, cols]).astype(np.int8))
+                signs.append(sgn * row_signs(S[:, cols]).astype(np.int8))
             else:
                 signs.append(np.full(S.shape[0], sgn, dtype=np.int8))
         return ids, signs
@@ -345,7 +346,7 @@ class SimplicialComplex:
         k = self._check_k(k, 1, self._K)
         if k not in self._boundary:
             ids, signs = self._face_ids(k)  # k+1 entries in every column
-            ids, signs = _sort_columns(ids, signs)  # sorted row indices within each column
+            ids, signs = sort_columns(ids, signs)  # sorted row indices within each column
             n_k = self._simplices[k].shape[0]
             n_rows = self._simplices[k - 1].shape[0]
             nnz = (k + 1) * n_k
@@ -418,7 +419,7 @@ class SimplicialComplex:
         idx, srt, coef = idx[nondeg], srt[nondeg], chain.coefficients[nondeg]
         if kk == self._K and kk >= 1:
             top_sorted = None if self._keys[kk] is not None else \
-                _sort_rows(self._simplices[kk])[0][self._top_perm]
+                sort_rows(self._simplices[kk])[0][self._top_perm]
             pos = _lookup(self._keys[kk], srt, self._vertices.shape[0], top_sorted)
             pos = self._top_perm[np.minimum(pos, out.size - 1)]
             stored_sorted = np.sort(self._simplices[kk][pos], axis=1)
@@ -431,9 +432,9 @@ class SimplicialComplex:
             j = int(np.flatnonzero(nondeg)[np.flatnonzero(~found)[0]])
             raise ValueError(f"simplex {j} of the chain is not a {kk}-simplex of the complex")
         if kk >= 1:
-            sign = _permutation_parity(idx)
+            sign = row_signs(idx)
             if kk == self._K:
-                sign = sign * _permutation_parity(self._simplices[kk][pos])
+                sign = sign * row_signs(self._simplices[kk][pos])
         else:
             sign = np.ones(idx.shape[0], dtype=np.int64)
         terms = sign * coef
@@ -480,8 +481,8 @@ class SimplicialComplex:
         return res
 
     # ------------------------------------------------------------- de Rham
-    def de_rham(self, form, k=None, *, rtol=1e-10, atol=0.0, order=4, max_levels=30,
-                return_error=False):
+    def de_rham(self, form, k=None, *, rtol=1e-10, atol=0.0, order=None, max_levels=30,
+                resolution=32, max_evaluations=None, return_error=False):
         """The de Rham map: the k-cochain of the form's integrals over the k-simplices.
 
         Parameters
@@ -493,10 +494,17 @@ class SimplicialComplex:
             :class:`WhitneyForm` of this complex is integrated exactly.
         k : int, optional
             The degree (default ``form.degree``; must match it).
-        rtol, atol, order, max_levels
-            Tolerance of the adaptive rule, as in :func:`wedgepath.integrate`.
+        rtol, atol, order, max_levels, resolution, max_evaluations
+            Tolerance, rules, minimum subdivision and work bound of the adaptive method, as
+            in :func:`wedgepath.integrate` (the tolerance applies to the whole
+            cochain: ``rtol`` times the sum over the simplices).
         return_error : bool
             Also return the per-simplex error estimates.
+
+        Warns
+        -----
+        IntegrationWarning
+            When the adaptive estimate did not reach the tolerance.
 
         Returns
         -------
@@ -521,11 +529,13 @@ class SimplicialComplex:
             raise TypeError(f"de_rham needs a Form or WhitneyForm, got {type(form).__name__}")
         kk = form.degree if k is None else self._check_k(k)
         self._check_k(kk)
-        _check_form_on(form, kk, self.dim, what="simplex")
-        opts = _options(rtol, atol, order, max_levels)
+        check_form_on(form, kk, self.dim, what="simplex")
+        opts = options(rtol, atol, order, max_levels, resolution, max_evaluations)
         S = self._simplices[kk]
-        _, values, errors = _integrate_simplices(form, self._vertices, S,
-                                                 np.ones(S.shape[0], dtype=np.int64), opts)
+        with np.errstate(over="ignore", invalid="ignore"):
+            acc, values, errors = integrate_simplices(form, self._vertices, S,
+                                                      np.ones(S.shape[0], dtype=np.int64), opts)
+        acc.warn("de Rham map")
         return (values, errors) if return_error else values
 
     # ------------------------------------------------------------- Whitney
@@ -576,7 +586,7 @@ class SimplicialComplex:
         if c.shape[0] != self._simplices[k].shape[0]:
             raise ValueError(f"a {k}-cochain needs {self._simplices[k].shape[0]} values, "
                              f"got {c.shape[0]}")
-        return WhitneyForm(self, _readonly(c), k)
+        return WhitneyForm(self, readonly(c), k)
 
     def _top_face_table(self, k):
         """For each top simplex and each local k-face: global id and orientation sign."""
@@ -593,7 +603,7 @@ class SimplicialComplex:
                 ids[f] = np.arange(top.shape[0])
                 signs[f] = 1
                 continue
-            signs[f] = _permutation_parity(g) if k >= 1 else 1
+            signs[f] = row_signs(g) if k >= 1 else 1
             ids[f] = _lookup(self._keys[k], np.sort(g, axis=1), self._vertices.shape[0],
                              self._simplices[k])
         self._top_faces[k] = (local, ids, signs)
@@ -757,8 +767,7 @@ class SimplicialComplex:
 
 
 def _coef_array(coefficients, n):
-    from .simplicial import _as_coefficients
-    return _as_coefficients(coefficients, n)
+    return as_chain_coefficients(coefficients, n)
 
 
 class WhitneyForm:
@@ -841,11 +850,11 @@ class WhitneyForm:
             for i, j in enumerate(cols):
                 rest = [cols[a] for a in range(len(cols)) if a != i]
                 if k == 0:
-                    minors = np.ones((S, 1))
+                    mnr = np.ones((S, 1))
                 else:
                     Gr = np.transpose(grads[:, rest, :], (1, 0, 2))  # (k, S, n)
-                    minors = np.column_stack(_minors(Gr, self.indices))
-                gamma[:, j, :] += (kf * (-1) ** i) * c[:, None] * minors
+                    mnr = np.column_stack(minors(Gr, self.indices))
+                gamma[:, j, :] += (kf * (-1) ** i) * c[:, None] * mnr
         self._gamma = gamma
         return gamma
 
@@ -921,9 +930,8 @@ class WhitneyForm:
             return Form({}, self.degree, cx.dim, xs)
         return Form(comps, self.degree, cx.dim, xs)
 
-    def _integrate(self, chain, closure=None, curve="linear"):
+    def integrate_over(self, chain, closure=None, curve="linear"):
         """``integrate(W, chain)``: the chain's coefficients on the complex against ``_de_rham``."""
-        from .integrate import Integral
         if closure is not None or curve != "linear":
             raise ValueError("closure= and curve= apply to paths; a Whitney form is integrated "
                              "over a chain of its complex's simplices as it is")
@@ -944,7 +952,7 @@ class WhitneyForm:
         return Integral(value, error=0.0, exact=True,
                         method="Whitney form over the complex's simplices (exact)",
                         # pairwise summation: about log2(n) roundings of the term sizes
-                        rounding=float(np.finfo(np.float64).eps * np.abs(terms).sum()
+                        rounding=float(EPS * np.abs(terms).sum()
                                        * max(1, int(np.log2(terms.size + 1)))),
                         evaluations=0)
 
@@ -973,6 +981,6 @@ class WhitneyForm:
             return out
         V = cx.vertices[S.T]
         E = V[1:] - V[0]
-        minors = np.column_stack(_minors(E, self.indices))
-        out[has] = (coef * minors).sum(axis=1) / factorial(k)
+        mnr = np.column_stack(minors(E, self.indices))
+        out[has] = (coef * mnr).sum(axis=1) / factorial(k)
         return out

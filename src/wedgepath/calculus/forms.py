@@ -37,26 +37,11 @@ from itertools import combinations
 
 import numpy as np
 
+from .._exterior import sort_with_sign, wedge_terms
 from .._lazy import is_sympy, sympy
 from .._validation import as_int, check_values
 
-__all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient"]
-
-
-def _sort_with_sign(idx):
-    """Sort an index tuple; return (sorted, sign) or (None, 0) if an index repeats."""
-    idx = list(idx)
-    if len(set(idx)) != len(idx):
-        return None, 0
-    sign = 1
-    # insertion sort counting transpositions (k is tiny)
-    for a in range(1, len(idx)):
-        b = a
-        while b > 0 and idx[b - 1] > idx[b]:
-            idx[b - 1], idx[b] = idx[b], idx[b - 1]
-            sign = -sign
-            b -= 1
-    return tuple(idx), sign
+__all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient", "checked_values"]
 
 
 # --------------------------------------------------------------------------- coefficients
@@ -171,12 +156,15 @@ class Coefficient:
             return self.expr
         return None
 
-    def evaluate(self, coords: np.ndarray, label: str = "coefficient") -> np.ndarray:
-        """Values at ``coords`` (m, n), shape (m,), checked finite.
+    def evaluate(self, coords: np.ndarray, label: str = "coefficient", *,
+                 strict: bool = True) -> np.ndarray:
+        """Values at ``coords`` (m, n), shape (m,).
 
-        Floating-point warnings inside the coefficient are silenced: a
-        non-finite result is reported as a ValueError naming the first bad
-        point instead.
+        Floating-point warnings inside the coefficient are silenced.  With
+        ``strict`` (the default) a non-finite result is reported as a
+        ValueError naming the first bad point; otherwise non-finite values
+        come back as NaN (adaptive refinement uses this to stop at a
+        singularity instead of failing).
         """
         m = coords.shape[0]
         if self.kind == "constant":
@@ -186,7 +174,8 @@ class Coefficient:
                 vals = self.func(*coords.T)
             else:
                 vals = self.func(coords)
-        return check_values(vals, m, label, lambda k: f"the point {coords[k].tolist()}")
+        return checked_values(vals, m, label, lambda k: f"the point {coords[k].tolist()}",
+                              strict)
 
     # -- algebra
     def _combine(self, other, op):
@@ -206,7 +195,9 @@ class Coefficient:
             deg = None if (a.poly_degree is None or b.poly_degree is None) else max(a.poly_degree, b.poly_degree)
 
         def f(coords):
-            return op(fa.evaluate(coords), fb.evaluate(coords))
+            # non-finite parts come back as NaN; the caller's evaluate() reports them
+            with np.errstate(all="ignore"):
+                return op(fa.evaluate(coords, strict=False), fb.evaluate(coords, strict=False))
         return Coefficient("callable", func=f, poly_degree=deg)
 
     def __mul__(self, other):
@@ -259,6 +250,43 @@ def _add(a, b):
     return a + b
 
 
+def checked_values(vals, m, label, where, strict=True):
+    """What a user's function returned for ``m`` points, checked (see ``check_values``).
+
+    With ``strict`` non-finite values raise a ValueError naming the point
+    ``where(k)``; otherwise they come back as NaN (shape and type are
+    checked either way).
+    """
+    if strict:
+        return check_values(vals, m, label, where)
+    arr = np.asarray(vals)
+    if arr.dtype == np.float64 and arr.shape == (m,):     # the usual case: one pass
+        finite = np.isfinite(arr)
+        if finite.all():
+            return arr
+        return np.where(finite, arr, np.nan)
+    if arr.dtype.kind == "f":
+        bad = ~np.isfinite(arr)
+        if bad.any():
+            out = check_values(np.where(bad, 0.0, arr), m, label, where).copy()
+            out[np.broadcast_to(bad, out.shape)] = np.nan
+            return out
+    return check_values(arr, m, label, where)
+
+
+def _signed_product(a, b, sign):
+    c = a * b
+    return c if sign > 0 else c.scaled(-1.0)
+
+
+def _add_coefficients(a, b):
+    return a + b
+
+
+def _sympy_product(a, b, sign):
+    return sign * a * b
+
+
 # --------------------------------------------------------------------------- forms
 class Form:
     """A differential k-form on R^n (see the module docstring).
@@ -308,7 +336,7 @@ class Form:
                 raise ValueError(f"form indices must be >= 0, got {idx}")
             if dim is not None and any(i >= dim for i in idx):
                 raise ValueError(f"form index {max(idx)} out of range for R^{dim}")
-            sidx, sign = _sort_with_sign(idx)
+            sidx, sign = sort_with_sign(idx)
             if sign == 0:
                 continue
             coef = Coefficient.make(coef, symbols)
@@ -482,16 +510,7 @@ class Form:
         if not isinstance(other, Form):
             return NotImplemented
         dim, syms = self._meet(other, "wedge")
-        terms = {}
-        for i, a in self._terms.items():
-            for j, b in other._terms.items():
-                idx, sign = _sort_with_sign(i + j)
-                if sign == 0:
-                    continue
-                c = a * b
-                if sign < 0:
-                    c = c.scaled(-1.0)
-                terms[idx] = terms[idx] + c if idx in terms else c
+        terms = wedge_terms(self._terms, other._terms, _signed_product, _add_coefficients)
         return Form(terms, self.degree + other.degree, dim, syms)
 
     def __eq__(self, other):
@@ -509,6 +528,11 @@ class Form:
     def d(self) -> "Form":
         """Exterior derivative, exact for constant and sympy coefficients.
 
+        ``d(f dx_I) = sum_j (∂f/∂x_j) dx_j ^ dx_I``: the partial derivatives come from
+        sympy (deliberately: a sympy coefficient is differentiated by sympy), the
+        signs from the same wedge as ``^``.  :func:`wedgepath.symbolic.exterior_derivative`
+        is an independent implementation that the tests compare against.
+
         Raises
         ------
         TypeError
@@ -520,9 +544,17 @@ class Form:
                             "coefficients (build it with Form.from_sympy to differentiate)")
         if self.symbols is None:  # constant form: d = 0
             return Form({}, self.degree + 1, self.dim)
-        from .. import symbolic
-
-        out = symbolic.exterior_derivative(self.to_sympy(), self.symbols)
+        out = {}
+        for idx, coef in self._terms.items():
+            expr = coef.as_sympy()
+            grad = {}
+            for j, xj in enumerate(self.symbols):
+                dj = sympy.diff(expr, xj)
+                if dj != 0:
+                    grad[(j,)] = dj
+            part = wedge_terms(grad, {idx: sympy.Integer(1)}, _sympy_product, _add)
+            for k, v in part.items():
+                out[k] = out[k] + v if k in out else v
         return Form(out, self.degree + 1, self.dim, self.symbols)
 
     def component_values(self, coords: np.ndarray):

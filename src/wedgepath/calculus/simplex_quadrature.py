@@ -35,7 +35,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 from functools import lru_cache
-from math import ceil, factorial
+from math import ceil, comb, factorial
 
 import numpy as np
 
@@ -125,15 +125,26 @@ _GM_MAX_AMPLIFICATION = 64.0
 
 @lru_cache(maxsize=128)
 def _prefer_gm(k: int, s: int) -> bool:
-    """Whether the Grundmann-Moller rule of index ``s`` is the better rule on a k-simplex."""
+    """Whether the Grundmann-Moller rule of index ``s`` is the better rule on a k-simplex.
+
+    Decided from the closed form of the weights, without building the rule: the weight of
+    the nodes of level i is ``(-1)^i (d + k - 2i)^d / (2^(2s) i! (d + k - i)!)`` (d = 2s + 1),
+    shared by the ``C(s - i + k, k)`` nodes of that level (Grundmann and Möller 1978).
+    """
     if s == 0:
         return True                                   # the centroid rule: one positive weight
-    bary, w = _gm(k, s)
-    amplification = float(np.abs(w).sum() * factorial(k))
+    d = 2 * s + 1
+    total_abs, nodes = Fraction(0), 0
+    for i in range(s + 1):
+        count = comb(s - i + k, k)
+        nodes += count
+        total_abs += count * Fraction((d + k - 2 * i) ** d,
+                                      2 ** (2 * s) * factorial(i) * factorial(d + k - i))
+    amplification = float(total_abs * factorial(k))   # the weights sum to 1 / k!
     n_conical = 1
     for i in range(1, k + 1):
         n_conical *= points_needed(2 * s + 1 + k - i)
-    return amplification <= _GM_MAX_AMPLIFICATION and bary.shape[0] < n_conical
+    return amplification <= _GM_MAX_AMPLIFICATION and nodes < n_conical
 
 
 def _rule_for_index(k: int, s: int):
@@ -237,16 +248,3 @@ def simplex_rule(k, degree):
     if k == 1:
         return _gl_bary(points_needed(degree))
     return _rule_for_index(k, gm_index_for_degree(degree))
-
-
-def rule_pair(k: int, order: int):
-    """Two rules of consecutive precision for error estimation (internal).
-
-    k = 1: Gauss-Legendre with ``order`` and ``order + 1`` points; k >= 2:
-    rules of degrees ``2 order - 1`` and ``2 order + 1`` chosen as in
-    :func:`simplex_rule` (Grundmann-Möller indices ``order - 1`` and ``order``
-    while their weights are tame, conical product rules beyond).
-    """
-    if k == 1:
-        return _gl_bary(order), _gl_bary(order + 1)
-    return _rule_for_index(k, order - 1), _rule_for_index(k, order)

@@ -11,8 +11,10 @@ or a ``(T, 2)`` array (for an n-channel path, select a coordinate plane with
 * Gaps: NaN rows split a path into pieces, each closed on its own; results
   add up.
 
-Importing this package also teaches :func:`wedgepath.integrate` to integrate
-a non-constant 2-form ``f dx0^dx1`` over the region of a planar loop.
+Region integrals share their engine with :func:`wedgepath.integrate` (a 2-form
+``f dx0^dx1`` over a planar path): Green's theorem lives in the calculus layer
+(:mod:`wedgepath.calculus.green`), and :func:`region_integral` is its public
+planar wrapper.
 """
 
 from .area import RegionMoments, region_moments, signed_area

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..calculus.green import bounds_nothing as _too_few_points
 from ._input import closed_pieces, finite_result, planar_path
 
 __all__ = ["signed_area", "region_moments", "RegionMoments"]
@@ -77,17 +78,6 @@ def signed_area(path2d, closure="chord") -> float:
         for pts in closed_pieces(path, closure, "signed_area"):
             total += _piece_area(pts)
     return float(finite_result(total, "signed_area"))
-
-
-def _too_few_points(pts: np.ndarray) -> bool:
-    """True when a closed piece has fewer than 3 distinct vertices (it bounds nothing)."""
-    if pts.shape[0] < 4:  # closed: 3 distinct vertices need 4 rows
-        return True
-    other = np.flatnonzero(np.any(pts != pts[0], axis=1))
-    if other.size == 0:
-        return True
-    second = pts[other[0]]
-    return bool(np.all(np.all(pts == pts[0], axis=1) | np.all(pts == second, axis=1)))
 
 
 def _piece_area(pts: np.ndarray) -> float:
