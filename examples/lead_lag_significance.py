@@ -54,9 +54,10 @@ def main():
     if have_matplotlib():
         import matplotlib.pyplot as plt
         from wedgepath import plotting
-        fig, ax = plt.subplots(figsize=(7, 6), dpi=100)
-        full = wp.cyclic_order(A.values)
-        plotting.lead_heatmap(A.values, names, full.order, ax=ax, title="Canal stations: lead matrix")
+        fig, ax = plt.subplots(figsize=(7.5, 6), dpi=100)
+        # every pair named leader -> lagger, bar length the area, fill the significance
+        plotting.pair_chart(A, significance=sig, top=15, ax=ax,
+                            title="Canal stations: who leads whom")
         fig.tight_layout()
         fig.savefig(figure_path("lead_lag_significance.png"))
         print(f"figure: {figure_path('lead_lag_significance.png')}")

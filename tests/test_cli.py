@@ -47,7 +47,7 @@ class TestLeadlag:
                                  "--no-figures"], capsys)
         assert code == 0, err
         rep = json.loads((out / "result.json").read_text())
-        assert rep["schema"] == "wedgepath.leadlag/2"
+        assert rep["schema"] == "wedgepath.leadlag/3"
         A = wp.area_matrix(X, times=t)
         np.testing.assert_allclose(rep["area_matrix"], A, rtol=1e-12, atol=1e-12)
         co = wp.cyclic_order(A)
@@ -96,7 +96,7 @@ class TestLeadlag:
         out = tmp_path / "figs"
         code, _, err = run(["leadlag", f, "--time", "t", "--window", 100, "--out", out], capsys)
         assert code == 0, err
-        for name in ("lead_matrix.png", "phases.png", "rolling_lead.png"):
+        for name in ("positions.png", "pairs.png", "rolling.png"):
             assert (out / name).read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
 
 
@@ -202,7 +202,7 @@ def test_python_dash_m_and_demo(tmp_path):
     assert "cyclic order recovered" in proc.stdout
     assert "all checks passed" in proc.stdout
     rep = json.loads((out / "loop.json").read_text())
-    assert rep["schema"] == "wedgepath.loop/2"
+    assert rep["schema"] == "wedgepath.loop/3"
 
 
 def test_bundled_demo_data_regenerates_identically(tmp_path):
@@ -229,10 +229,10 @@ class TestOutputFolder:
         # nothing is removed: the earlier run's tables stay, and the manifest says which
         # files belong to this run (issue 13: --force once deleted files it did not write)
         assert sorted(p.name for p in out.iterdir()) == [
-            "area_matrix.csv", "manifest.json", "notes.txt", "pvalues.csv", "qvalues.csv",
-            "result.json", "rolling.csv"]
+            "area_matrix.csv", "manifest.json", "notes.txt", "pairs.csv", "pvalues.csv",
+            "qvalues.csv", "result.json", "rolling.csv"]
         listed = [e["name"] for e in json.loads((out / "manifest.json").read_text())["files"]]
-        assert listed == ["result.json", "area_matrix.csv"]
+        assert listed == ["result.json", "area_matrix.csv", "pairs.csv"]
 
     def test_files_get_the_mode_of_an_ordinary_new_file(self, three_signals, tmp_path, capsys):
         import os
@@ -315,10 +315,10 @@ class TestMessagesSpeakTheCommandLine:
         assert rep["cyclic_order"] is None and rep["leaders"] == []
         assert any("the area matrix is zero" in n for n in rep["notes"])
         assert "no channel leads another" in stdout
-        expect = {"result.json", "area_matrix.csv", "manifest.json"}
+        expect = {"result.json", "area_matrix.csv", "pairs.csv", "manifest.json"}
         try:
             import matplotlib  # noqa: F401
-            expect |= {"lead_matrix.png", "phases.png"}
+            expect |= {"positions.png", "pairs.png"}
         except ImportError:
             pass
         assert {p.name for p in out.iterdir()} == expect
