@@ -20,6 +20,7 @@ SECTIONS = [
     ("Exact oracles", "wedgepath.symbolic", None),
     ("Files", "wedgepath.io", None),
     ("Formulas", "wedgepath.formula", None),
+    ("Reports", "wedgepath.report", None),
     ("Figures", "wedgepath.plotting", None),
     ("Scale-out", "wedgepath.dask", None),
 ]

@@ -1,7 +1,11 @@
-"""Draw the convention figures of the user guide into docs/figures/.
+"""Draw the figures of the user guide and of docs/cli.md into docs/figures/.
 
-Run: ``python docs/make_figures.py`` (needs matplotlib).  The figures are
-committed; tests/test_docs.py checks that this script still runs.
+Run: ``python docs/make_figures.py`` (needs matplotlib).  The convention figures
+are drawn here; the report figures (``leadlag_*.png``, ``loop_*.png``) are the
+ones ``wedgepath demo --out DIR`` writes, made by the same calls
+(:mod:`wedgepath.report` on the bundled demo data), plus the loop report of a
+figure-eight, where the faces tell something.  The figures are committed;
+tests/test_docs.py checks that this script still runs and draws them.
 """
 
 import sys
@@ -120,12 +124,46 @@ def gaps(path):
     plt.close(fig)
 
 
+def report_figures(out):
+    """The demo's report figures, and the loop report of a drifting figure-eight."""
+    import math
+
+    from wedgepath import demo, plotting, report
+
+    ring = demo.bundled("ring_sensors.csv")
+    rep = report.leadlag(ring, **demo.LEADLAG_OPTIONS, progress=False, time_name="time_s",
+                         units={"time_s": "s"})
+    names = {"positions.png": "leadlag_positions.png", "pairs.png": "leadlag_pairs.png",
+             "rolling.png": "leadlag_rolling.png"}
+    for name, fig in rep.figures().items():
+        (out / names[name]).write_bytes(plotting.png_bytes(fig))
+    load = demo.bundled("load_test.csv")
+    lrep = report.loop(load, progress=False, units={"strain": "mm/mm", "stress_MPa": "MPa"})
+    truth = math.pi * demo.LOAD["eta"] * 2 * math.pi * demo.LOAD["f"] * demo.LOAD["e0"] ** 2
+    figs = lrep.figures(reference=truth, reference_label="known value")
+    (out / "loop_load_test.png").write_bytes(plotting.png_bytes(figs["loop.png"]))
+    (out / "loop_cycles.png").write_bytes(plotting.png_bytes(figs["cycles.png"]))
+    # a figure-eight with a drift, closed by detrend: the faces are shown, on their own axes
+    t = np.linspace(0, 2 * np.pi, 801)
+    xy = np.c_[np.sin(t), 0.8 * np.sin(2 * t) + np.linspace(0, 0.6, 801)]
+    erep = report.loop(xy, names=["u", "v"], closure="detrend", progress=False)
+    (out / "loop_figure_eight.png").write_bytes(plotting.png_bytes(erep.figures()["loop.png"]))
+    return REPORT_FIGURES
+
+
+#: the report figures this script draws (besides the four convention figures)
+REPORT_FIGURES = ["leadlag_positions.png", "leadlag_pairs.png", "leadlag_rolling.png",
+                  "loop_load_test.png", "loop_cycles.png", "loop_figure_eight.png"]
+
+
 def main(out=OUT):
     out = Path(out)
     out.mkdir(parents=True, exist_ok=True)
     for fn in (orientation, closure, curve_model, gaps):
         fn(out / f"{fn.__name__}.png")
         print("wrote", out / f"{fn.__name__}.png")
+    for name in report_figures(out):
+        print("wrote", out / name)
 
 
 if __name__ == "__main__":

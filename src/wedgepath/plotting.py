@@ -666,7 +666,11 @@ def loop_overview(report, *, reference=None, reference_label="expected"):
     fig, (a1, a2) = plt.subplots(1, 2, figsize=(12, 4.8), dpi=110,
                                  gridspec_kw={"width_ratios": [1.1, 1]})
     sa = report.signed_area
-    turn = "counter-clockwise" if sa > 0 else "clockwise" if sa < 0 else "no net turn"
+    dec = report.decomposition
+    if dec.mixed_signs and dec.cancellation >= 0.01:
+        turn = "lobes turning both ways"
+    else:
+        turn = "counter-clockwise" if sa > 0 else "clockwise" if sa < 0 else "no net turn"
     loop_path(report.path, names=labels, cycles=report.cycles, ax=a1,
               title=f"The recorded curve: {turn}, signed area {sa:.4g}")
     if report.faces_informative():

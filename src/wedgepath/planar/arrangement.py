@@ -483,9 +483,12 @@ class Decomposition:
             share = a / self.absolute_area if self.absolute_area else 0.0
             lines.append(f"... and {_plural(len(rest), 'smaller lobe')} "
                          f"({share:.2%} of the absolute area)")
-        if self.mixed_signs:
-            lines.append(f"NOTE: lobes of opposite sign cancel: the net signed area is "
-                         f"{1 - self.cancellation:.1%} of the absolute area")
+        if self.mixed_signs and self.cancellation >= 0.0005:
+            lines.append(f"NOTE: lobes of opposite sign cancel {self.cancellation:.1%} of the "
+                         "absolute area")
+        elif self.mixed_signs:
+            lines.append(f"note: small lobes of opposite sign cancel only "
+                         f"{100 * self.cancellation:.2g}% of the absolute area")
         bad = self.diagnostics.get("inconsistent_adjacencies", 0)
         if bad:
             lines.append(f"WARNING: {bad} face adjacencies disagree with the windings")
@@ -556,7 +559,7 @@ def decompose(path2d, closure="chord", *, max_crossings=MAX_CROSSINGS,
     >>> d.mixed_signs, [lobe.sign for lobe in d.lobes]
     (True, [1, -1])
     >>> print(d.summary().splitlines()[-1])
-    NOTE: lobes of opposite sign cancel: the net signed area is 0.0% of the absolute area
+    NOTE: lobes of opposite sign cancel 100.0% of the absolute area
 
     A square traced twice, counter-clockwise:
 
