@@ -124,14 +124,21 @@ def gaps(path):
     plt.close(fig)
 
 
-def report_figures(out):
-    """The demo's report figures, and the loop report of a drifting figure-eight."""
+def report_figures(out, quick=False):
+    """The demo's report figures, and the loop report of a drifting figure-eight.
+
+    ``quick``: 19 surrogates and bootstrap replicates instead of the demo's 199 (the same
+    figures with rougher intervals; for the test that this script runs).
+    """
     import math
 
     from wedgepath import demo, plotting, report
 
     ring = demo.bundled("ring_sensors.csv")
-    rep = report.leadlag(ring, **demo.LEADLAG_OPTIONS, progress=False, time_name="time_s",
+    options = dict(demo.LEADLAG_OPTIONS)
+    if quick:
+        options.update(n_surrogates=19, n_boot=19)
+    rep = report.leadlag(ring, **options, progress=False, time_name="time_s",
                          units={"time_s": "s"})
     names = {"positions.png": "leadlag_positions.png", "pairs.png": "leadlag_pairs.png",
              "rolling.png": "leadlag_rolling.png"}
@@ -156,15 +163,16 @@ REPORT_FIGURES = ["leadlag_positions.png", "leadlag_pairs.png", "leadlag_rolling
                   "loop_load_test.png", "loop_cycles.png", "loop_figure_eight.png"]
 
 
-def main(out=OUT):
+def main(out=OUT, quick=False):
     out = Path(out)
     out.mkdir(parents=True, exist_ok=True)
     for fn in (orientation, closure, curve_model, gaps):
         fn(out / f"{fn.__name__}.png")
         print("wrote", out / f"{fn.__name__}.png")
-    for name in report_figures(out):
+    for name in report_figures(out, quick=quick):
         print("wrote", out / name)
 
 
 if __name__ == "__main__":
-    main(sys.argv[1] if len(sys.argv) > 1 else OUT)
+    args = [a for a in sys.argv[1:] if a != "--quick"]
+    main(args[0] if args else OUT, quick="--quick" in sys.argv[1:])

@@ -25,11 +25,12 @@ REPORT_FIGURES = ["leadlag_positions.png", "leadlag_pairs.png", "leadlag_rolling
                   "loop_load_test.png", "loop_cycles.png", "loop_figure_eight.png"]
 
 
+@pytest.mark.slow   # about 15 s: the script draws every figure of the docs, as a user would
 def test_figures_draw(tmp_path):
     pytest.importorskip("matplotlib")
     from matplotlib.image import imread
-    proc = subprocess.run([sys.executable, str(DOCS / "make_figures.py"), str(tmp_path)],
-                          capture_output=True, text=True, timeout=300)
+    proc = subprocess.run([sys.executable, str(DOCS / "make_figures.py"), str(tmp_path),
+                           "--quick"], capture_output=True, text=True, timeout=300)
     assert proc.returncode == 0, proc.stderr
     names = ["orientation.png", "closure.png", "curve_model.png", "gaps.png", *REPORT_FIGURES]
     assert sorted(p.name for p in tmp_path.iterdir()) == sorted(names)

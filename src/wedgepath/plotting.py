@@ -306,6 +306,9 @@ def pair_chart(areas, *, raw=None, significance=None, bootstrap=None, names=None
         else:
             style = dict(color="white", edgecolor=SLATE)
         ax.barh(y, v, height=0.62, lw=0.9, zorder=3, **style)
+        if bootstrap is None or normalize is not None:     # no whisker there: the value
+            ax.annotate(f"{v:.3g}", (v, y), xytext=(3, 0), textcoords="offset points",
+                        va="center", fontsize=7, color=GREY)
         if q is not None:
             # q-values in a column of their own at the right, clear of bars and whiskers
             ax.annotate(f"{q[i, j]:.3g}" if np.isfinite(q[i, j]) else "-", (1.0, y),
@@ -352,7 +355,9 @@ def pair_chart(areas, *, raw=None, significance=None, bootstrap=None, names=None
     if bootstrap is not None and normalize is None:
         ends = [max(abs(lo[ij]), abs(hi[ij])) for ij in shown]
         xmax = max([xmax] + [e for e in ends if np.isfinite(e)])
-    ax.set_xlim(0, 1.04 * xmax)
+        ax.set_xlim(0, 1.04 * xmax)
+    else:
+        ax.set_xlim(0, 1.12 * xmax)              # room for the values at the bars' ends
     return ax
 
 

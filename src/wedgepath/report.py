@@ -610,9 +610,12 @@ class LeadLagReport(_Report):
             fit, base = float(co.fit), self.fit_baseline
             verdict = ("well above" if fit >= base + 0.5 * (1 - base) else
                        "above" if fit > base + 0.1 * (1 - base) else "not above")
-            lines.append(f"fit {fit:.3f}: {verdict} the {base:.2f} that independent noise gives "
-                         f"for {n} channels" + ("" if verdict != "not above" else
-                                                " (treat the order with caution)"))
+            if n <= 3:
+                lines.append(f"fit {fit:.3f}: always 1 for {n} channels (it says nothing here)")
+            else:
+                lines.append(f"fit {fit:.3f}: {verdict} the {base:.2f} that independent noise "
+                             f"gives for {n} channels" + ("" if verdict != "not above" else
+                                                          " (treat the order with caution)"))
             lines.append("strongest leaders: " + ", ".join(self.leaders()))
             lines.append("strongest laggers: " + ", ".join(self.laggers()))
         if self.rolling is not None:
