@@ -21,9 +21,9 @@ import wedgepath as wp
 from wedgepath import report
 
 
-def ring(n=4, T=800, seed=0, phase=0.7):
+def ring(n=4, T=400, seed=0, phase=0.7):
     rng = np.random.default_rng(seed)
-    t = np.linspace(0, 16 * np.pi, T)
+    t = np.linspace(0, 8 * np.pi, T)
     X = np.column_stack([np.sin(t - phase * k) for k in range(n)])
     return X + 0.01 * rng.normal(size=X.shape), [f"ch{k}" for k in range(n)]
 
@@ -93,7 +93,7 @@ class TestLeadLagReport:
         np.testing.assert_array_equal(a, c)
         with pytest.raises(ValueError, match="names must name the 4 channels"):
             report.leadlag(X, names=["a"])
-        with pytest.raises(ValueError, match="window=5000 is longer than the 800 samples"):
+        with pytest.raises(ValueError, match="window=5000 is longer than the 400 samples"):
             report.leadlag(X, window=5000)
 
     def test_caller_arrays_unchanged(self):
@@ -106,7 +106,7 @@ class TestLeadLagReport:
 
 class TestLoopReport:
     def test_per_cycle_values_are_the_library_ones(self):
-        t = np.linspace(0, 10 * np.pi, 1001)
+        t = np.linspace(0, 6 * np.pi, 301)
         xy = np.column_stack([np.cos(t), np.sin(t + 0.3)])
         r = report.loop(xy, names=["x", "y"], progress=False)
         c = wp.cycle_areas(xy, 1, 0, reference=0)              # ∮ y dx = A[1, 0]
@@ -286,12 +286,19 @@ class TestLeadLagFigures:
 
     def test_rolling_small_multiples(self):
         X, names = ring(4)
-        r = report.leadlag(X, names=names, window=200, step=50)
+        r = report.leadlag(X, names=names, window=100, step=50)
         fig = r.figures()["rolling.png"]
         panels = [ax for ax in fig.axes if ax.lines]
         assert len(panels) == 6                      # the 6 pairs of 4 channels
         ylims = {ax.get_ylim() for ax in panels}
         assert len(ylims) == 1                       # one scale: magnitudes compare
+        # a pair 1000 times weaker is not flattened to a line: own scales, and it says so
+        X[:, 3] *= 1e-3
+        from wedgepath import plotting
+        fig = plotting.rolling_pairs(report.leadlag(X, names=names, window=100, step=50).rolling)
+        panels = [ax for ax in fig.axes if ax.lines]
+        assert len({ax.get_ylim() for ax in panels}) > 1
+        assert "own scale" in fig.get_supxlabel()
 
 
 class TestLoopFigures:

@@ -202,8 +202,8 @@ def cycle_positions(order, *, names=None, low=None, high=None, rolling=None,
         W = _window_positions(rolling, seq[0])
         for ch in range(n):
             if W.size:
-                h = ax.scatter(W[:, ch], np.full(W.shape[0], row[ch]), marker="|", s=70,
-                               color=GREY, alpha=0.35, lw=1, zorder=2)
+                h = ax.scatter(W[:, ch], np.full(W.shape[0], row[ch]), marker="|", s=90,
+                               color=INK, alpha=0.3, lw=1, zorder=3.5)
                 handles["windows"] = h
     if low is not None:
         for ch in range(n):
@@ -239,8 +239,12 @@ def cycle_positions(order, *, names=None, low=None, high=None, rolling=None,
     ax.tick_params(axis="y", length=0)
     if title is None:
         title = f"Position of each channel in the cycle (fit {order.fit:.3f}"
-        title += f"; independent noise gives {fit_baseline:.2f})" if fit_baseline is not None \
-            else ")"
+        if n <= 3:
+            title += f": always 1 for {n} channels)"
+        elif fit_baseline is not None:
+            title += f"; independent noise gives {fit_baseline:.2f})"
+        else:
+            title += ")"
     ax.set_title(title, color=INK, fontsize=10, loc="left")
     leg = [(h1, "position (filled: share ≥ 0.3)")]
     if "weak" in handles:
@@ -412,8 +416,13 @@ def rolling_pairs(rolling, *, names=None, pairs=None, top=6, xlabel="window cent
     m = max(1, len(pairs))
     ncol = 1 if m <= 3 else 2
     nrow = int(math.ceil(m / ncol))
+    # one scale so that magnitudes compare, unless it would flatten a pair to a line
+    peaks = [np.nanmax(np.abs(R[:, i, j])) if K else 0.0 for i, j in pairs]
+    peaks = [p for p in peaks if np.isfinite(p) and p > 0]
+    shared = not peaks or max(peaks) <= 10 * min(peaks)
     fig, axes = plt.subplots(nrow, ncol, figsize=(8.5 if ncol == 2 else 7, 0.6 + 1.7 * nrow),
-                             dpi=110, sharex=True, sharey=True, squeeze=False)
+                             dpi=110, sharex=True, sharey=shared, squeeze=False,
+                             layout="constrained")
     for k, axk in enumerate(axes.flat):
         if k >= len(pairs):
             axk.axis("off")
@@ -430,12 +439,15 @@ def rolling_pairs(rolling, *, names=None, pairs=None, top=6, xlabel="window cent
     for axk in axes[-1]:
         axk.set_xlabel(xlabel, fontsize=8, color=INK)
     for axk in axes[:, 0]:
-        axk.set_ylabel("A[i, j]", fontsize=8, color=INK)
+        axk.set_ylabel("raw A[i, j]", fontsize=8, color=INK)
     fig.suptitle(title or "Rolling lead (raw areas per window)", fontsize=10, color=INK,
                  x=0.02, ha="left")
-    fig.text(0.02, 0.005, "above 0 (blue): the first channel leads in that window; below 0 "
-             "(ochre): the second", fontsize=7, color=GREY)
-    fig.tight_layout(rect=(0, 0.03, 1, 1))
+    # laid out when drawn (cheaper than laying out now and again when saved)
+    fig.supxlabel("above 0 (blue): the first channel leads in that window; below 0 "
+                  "(ochre): the second" + ("" if shared else
+                                           ". Each panel has its own scale (sizes differ by "
+                                           "more than 10 times)"), fontsize=7, color=GREY,
+                  x=0.02, ha="left")
     return fig
 
 
@@ -669,7 +681,7 @@ def loop_overview(report, *, reference=None, reference_label="expected"):
     x, y = report.names
     labels = (_unit_label(x, report.units), _unit_label(y, report.units))   # escaped there
     fig, (a1, a2) = plt.subplots(1, 2, figsize=(12, 4.8), dpi=110,
-                                 gridspec_kw={"width_ratios": [1.1, 1]})
+                                 gridspec_kw={"width_ratios": [1.1, 1]}, layout="constrained")
     sa = report.signed_area
     dec = report.decomposition
     if dec.mixed_signs and dec.cancellation >= 0.01:
@@ -689,5 +701,4 @@ def loop_overview(report, *, reference=None, reference_label="expected"):
                      reference_label=reference_label)
     fig.suptitle(f"{_literal(y)} against {_literal(x)}", color=INK, fontsize=11, x=0.02,
                  ha="left")
-    fig.tight_layout()
     return fig

@@ -596,17 +596,20 @@ class LeadLagReport(_Report):
             lines.append("\ncyclic order (each leads the next): " + " -> ".join(seq)
                          + f" -> {seq[0]}")
             pos = np.asarray(co.positions, dtype=float)
+            ref = int(co.order[0])
             if self.position_low is None:
-                shown = ", ".join(f"{names[i]} {pos[i]:.2f}" for i in co.order)
+                shown = ", ".join(f"{names[i]} {pos[i]:.2f}" for i in co.order[1:])
             else:
                 shown = ", ".join(f"{names[i]} {pos[i]:.2f} [{self.position_low[i]:.2f}, "
-                                  f"{self.position_high[i]:.2f}]" for i in co.order)
-            lines.append(f"positions in the cycle after {seq[0]} (rad, 0 to 2π; they keep the "
-                         "order, not the delays): " + shown)
+                                  f"{self.position_high[i]:.2f}]" for i in co.order[1:])
+            lines.append(f"positions in the cycle after {names[ref]} (rad, 0 to 2π; they keep "
+                         "the order, not the delays): " + shown)
             if self.position_low is not None:
+                wraps = bool(np.any(self.position_low > self.position_high))
                 lines.append(f"  [low, high]: {100 * _bootstrap_confidence(self.bootstrap):.0f}% "
                              f"interval from {self.bootstrap.n_boot} block-bootstrap replicates "
-                             f"(blocks of {self.bootstrap.block} samples)")
+                             f"(blocks of {self.bootstrap.block} samples)"
+                             + ("; low > high: the interval wraps past 2π" if wraps else ""))
             fit, base = float(co.fit), self.fit_baseline
             verdict = ("well above" if fit >= base + 0.5 * (1 - base) else
                        "above" if fit > base + 0.1 * (1 - base) else "not above")
