@@ -82,6 +82,10 @@ class TestLeadLagReport:
         text = repr(report.leadlag(X, names=names))
         assert text.startswith("LeadLagReport(channels=4") and "\n" not in text
         assert len(text) <= 120
+        pytest.importorskip("pandas")
+        X, names = ring()
+        html = report.leadlag(X, names=names)._repr_html_()
+        assert "<table" in html and "channel_i" in html and "ch0" in html
 
     def test_input_forms_agree(self):
         pd = pytest.importorskip("pandas")
