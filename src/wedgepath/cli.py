@@ -170,7 +170,8 @@ def build_parser():
                     "pvalues.csv, qvalues.csv)")
     ll.add_argument("--surrogate-method", default="shift", choices=["shift", "phase"],
                     help="circular time shift (default) or Fourier phase randomisation")
-    ll.add_argument("--seed", type=int, default=0, help="random seed for surrogates and the bootstrap (default 0)")
+    ll.add_argument("--seed", type=int, default=0,
+                    help="random seed for surrogates and the bootstrap (default 0)")
     ll.add_argument("--stream", action="store_true",
                     help="read the table in chunks (memory independent of its length); "
                     "computes the area matrix and cyclic order only")
