@@ -334,7 +334,8 @@ class TestLoopFigures:
         assert not r.faces_informative()            # nested windings repeat the outline
         fig = r.figures()["loop.png"]
         left, right = fig.axes[0], fig.axes[1]
-        assert "clockwise" in left.get_title(loc="left") and "per cycle" in right.get_title(loc="left")
+        assert "clockwise" in left.get_title(loc="left")
+        assert "per cycle" in right.get_title(loc="left")
         shades = np.unique(left.collections[-1].get_array())
         assert shades.size == r.cycles.count             # one shade per cycle
         cbar = [ax for ax in fig.axes if ax.get_ylabel() == "cycle"]
