@@ -25,6 +25,8 @@ import sympy as sp
 
 from wedgepath import Form, OneForm, Path, dx, integrate, symbolic
 
+from _common import figure_path, have_matplotlib
+
 PERIOD = 4.0
 SEMI_AXES = (0.4, 0.25)
 
@@ -109,6 +111,26 @@ ok &= _line("value at rtol=1e-10", f"{float(r):.12f}", f"estimated error {r.erro
 diff = abs(float(r) - float(r2))
 ok &= _line("difference to an rtol=1e-13 run", f"{diff:.1e}", "must not exceed the estimate",
             diff <= r.error + 1e-15)
+
+# %%
+# The recording
+# -------------
+# The three channels against time: three sweeps of the same loop, and the
+# logging dropout in the second sweep (a gap: the path splits into pieces
+# there, and each piece is integrated on its own).
+
+if have_matplotlib():
+    import matplotlib.pyplot as plt
+    fig, ax = plt.subplots(figsize=(8, 3.6), dpi=100)
+    for k, name in enumerate(p.names):
+        ax.plot(p.times, p.points[:, k], lw=1.2, label=name)
+    ax.set_xlabel("time [s]")
+    ax.set_ylabel("position [m]")
+    ax.set_title(f"Gantry recording: {len(p.pieces)} gap-free pieces")
+    ax.legend(frameon=False, fontsize=8, loc="upper right")
+    fig.tight_layout()
+    fig.savefig(figure_path("line_integrals.png"))
+    print(f"figure: {figure_path('line_integrals.png').name}")
 
 print("all checks passed" if ok else "SOME CHECKS FAILED")
 if not ok:

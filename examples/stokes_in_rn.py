@@ -19,6 +19,8 @@ import sympy as sp
 import wedgepath as wp
 from wedgepath import symbolic
 
+from _common import figure_path, have_matplotlib
+
 
 def stride(n_samples=240):
     s = np.linspace(0, 2 * np.pi, n_samples, endpoint=False)
@@ -80,3 +82,20 @@ print("joints in cyclic order:", " -> ".join(path.names[k] for k in order.order)
 g = wp.TwoForm({(0, 1): lambda c: np.exp(-np.sum(c ** 2, axis=1))})
 r = wp.integrate(g, surface)
 print(f"integral of exp(-|q|^2) dx0^dx1 over the cone: {float(r):.10f} +- {r.error:.1e}")
+
+# %%
+# The stride and its lead matrix
+# ------------------------------
+# Left: the loop projected on the plane of the first two joints.  Right: the
+# oriented areas of every pair of joints, rows and columns in cyclic order.
+
+if have_matplotlib():
+    import matplotlib.pyplot as plt
+    from wedgepath import plotting
+    fig, axes = plt.subplots(1, 2, figsize=(11, 4.5), dpi=100)
+    plotting.loop_path(q[:, :2], ("joint_0", "joint_1"), ax=axes[0],
+                       title="one stride, joints 0 and 1")
+    plotting.lead_heatmap(A, path.names, order.order, ax=axes[1], title="area matrix of the joints")
+    fig.tight_layout()
+    fig.savefig(figure_path("stokes_in_rn.png"))
+    print(f"figure: {figure_path('stokes_in_rn.png').name}")

@@ -16,6 +16,8 @@ import numpy as np
 
 import wedgepath as wp
 
+from _common import figure_path, have_matplotlib
+
 
 def blocks(rng, n_blocks=40, rows=5000, n=12):
     phase = 0.0
@@ -67,3 +69,16 @@ roll = wp.rolling_area_matrix(whole, window=20000, step=5000, labels=True)
 lead = roll.pair(0, 1)
 print(f"rolling windows: {len(roll)}; A[0, 1] per window ranges "
       f"{lead.min():.1f} .. {lead.max():.1f}")
+
+if have_matplotlib():
+    import matplotlib.pyplot as plt
+    from wedgepath import plotting
+    dt = 0.01  # seconds between samples
+    fig, ax = plt.subplots(figsize=(8, 3.8), dpi=100)
+    plotting.rolling_lead(roll.start_index * dt, roll.stop_index * dt, roll.areas,
+                          [f"acc_{k}" for k in range(12)], ax=ax,
+                          title="Rolling lead of the strongest pairs (200 s windows)",
+                          xlabel="time at window centre [s]")
+    fig.tight_layout()
+    fig.savefig(figure_path("streaming.png"))
+    print(f"figure: {figure_path('streaming.png').name}")
