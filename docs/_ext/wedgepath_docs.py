@@ -1,8 +1,9 @@
 """Sphinx extension of the wedgepath docs.
 
-* Every public name must have a reference page.  After all pages are read, every name in ``wedgepath.__all__`` and in the ``__all__`` of the
-public submodules (:data:`PUBLIC_MODULES`) must be a documented Python object (an entry of
-an ``autosummary`` table in ``docs/reference/``, which generates its page).  A missing one
+* Every public name must have a reference page.  After all pages are read, every name in
+  ``wedgepath.__all__`` and in the ``__all__`` of the public submodules
+  (:data:`PUBLIC_MODULES`) must be a documented Python object (an entry of an
+  ``autosummary`` table in ``docs/reference/``, which generates its page).  A missing one
   is a warning, which ``make docs`` (``-W``) turns into an error: the reference cannot
   fall behind the code silently.
 * A cross-reference to a public object by the path of the module that defines it
@@ -14,6 +15,8 @@ an ``autosummary`` table in ``docs/reference/``, which generates its page).  A m
 * Module docstrings are not run through numpydoc, so their numpydoc section headings
   (``Examples`` underlined by dashes) would become document sections, whose names clash
   between modules; they are turned into rubrics, as numpydoc does for functions.
+
+Importing this module needs no Sphinx (the test suite uses :func:`public_names`).
 """
 
 from __future__ import annotations
@@ -21,10 +24,6 @@ from __future__ import annotations
 import importlib
 import inspect
 import re
-
-from sphinx.util import logging
-
-logger = logging.getLogger(__name__)
 
 #: modules whose ``__all__`` the reference must cover
 PUBLIC_MODULES = ("wedgepath", "wedgepath.io", "wedgepath.symbolic", "wedgepath.formula",
@@ -55,12 +54,14 @@ def public_names():
 
 
 def check_public_names_documented(app, env):
+    from sphinx.util import logging
+
     documented = set(env.get_domain("py").objects)
     missing = [n for n in public_names() if n not in documented]
     if missing:
-        logger.warning("public names without a reference page (add them to an autosummary "
-                       "table in docs/reference/): %s", ", ".join(missing),
-                       type="wedgepath", subtype="api-coverage")
+        logging.getLogger(__name__).warning(
+            "public names without a reference page (add them to an autosummary table in "
+            "docs/reference/): %s", ", ".join(missing), type="wedgepath", subtype="api-coverage")
 
 
 def _import(path):
