@@ -22,7 +22,7 @@ committed file came from):
 
 Run from the repository root, for example::
 
-    python docs/_intersphinx/build_inventories.py --generate numpy matplotlib shapely
+    python docs/_intersphinx/build_inventories.py --generate shapely
     python docs/_intersphinx/build_inventories.py --from-file scipy=/tmp/scipy-objects.inv
 """
 
@@ -166,82 +166,6 @@ def _kind(obj):
     return None
 
 
-def generate_numpy():
-    import numpy as np
-    entries = [("numpy", "py:module", "0", "reference/index.html#module-numpy", "-")]
-    scalars = {"float16", "float32", "float64", "longdouble", "complex64", "complex128",
-               "int8", "int16", "int32", "int64", "uint8", "uint16", "uint32", "uint64",
-               "bool", "bool_", "intp", "uintp", "generic", "number", "integer", "floating",
-               "complexfloating", "signedinteger", "unsignedinteger", "inexact"}
-    for n in _public(np):
-        obj = getattr(np, n, None)
-        full = f"numpy.{n}"
-        if n in scalars:
-            entries.append((full, "py:class", "1", f"reference/arrays.scalars.html#{full}", "-"))
-        elif isinstance(obj, np.ufunc):
-            entries.append((full, "py:data", "1", f"reference/generated/{full}.html#$", "-"))
-        elif _kind(obj) and not inspect.ismodule(obj):
-            entries.append((full, _kind(obj), "1", f"reference/generated/{full}.html#$", "-"))
-    for cls, page in (("ndarray", "reference/generated/numpy.ndarray.{m}.html"),):
-        for m in dir(getattr(np, cls)):
-            if m.startswith("_"):
-                continue
-            attr = inspect.getattr_static(getattr(np, cls), m)
-            typ = "py:method" if callable(getattr(getattr(np, cls), m)) and not isinstance(
-                attr, property) and "getset" not in type(attr).__name__ else "py:attribute"
-            full = f"numpy.{cls}.{m}"
-            entries.append((full, typ, "1", page.format(m=m) + f"#{full}", "-"))
-    for sub in ("linalg", "fft"):
-        mod = importlib.import_module(f"numpy.{sub}")
-        entries.append((f"numpy.{sub}", "py:module", "0",
-                        f"reference/routines.{sub}.html#module-numpy.{sub}", "-"))
-        for n in _public(mod):
-            obj = getattr(mod, n, None)
-            if _kind(obj) and not inspect.ismodule(obj):
-                full = f"numpy.{sub}.{n}"
-                entries.append((full, _kind(obj), "1", f"reference/generated/{full}.html#$", "-"))
-    entries.append(("numpy.random", "py:module", "0", "reference/random/index.html#module-numpy.random", "-"))
-    entries.append(("numpy.random.default_rng", "py:function", "1",
-                    "reference/random/generator.html#numpy.random.default_rng", "-"))
-    entries.append(("numpy.random.Generator", "py:class", "1",
-                    "reference/random/generator.html#numpy.random.Generator", "-"))
-    for m in dir(np.random.Generator):
-        if not m.startswith("_") and callable(getattr(np.random.Generator, m)):
-            full = f"numpy.random.Generator.{m}"
-            entries.append((full, "py:method", "1",
-                            f"reference/random/generated/{full}.html#$", "-"))
-    entries.append(("array_like", "std:term", "-1", "glossary.html#term-array_like", "-"))
-    return np.__version__, entries
-
-
-def generate_matplotlib():
-    import matplotlib
-    import matplotlib.axes
-    import matplotlib.figure
-    import matplotlib.pyplot as plt
-    g = "api/_as_gen/"
-    entries = [("matplotlib", "py:module", "0", "api/matplotlib_configuration_api.html#module-matplotlib", "-"),
-               ("matplotlib.pyplot", "py:module", "0", "api/pyplot_summary.html#module-matplotlib.pyplot", "-"),
-               ("matplotlib.axes.Axes", "py:class", "1", "api/axes_api.html#matplotlib.axes.Axes", "-"),
-               ("matplotlib.figure.Figure", "py:class", "1", "api/figure_api.html#matplotlib.figure.Figure", "-")]
-    for cls, full_cls in ((matplotlib.axes.Axes, "matplotlib.axes.Axes"),
-                          (matplotlib.figure.Figure, "matplotlib.figure.Figure")):
-        for m in dir(cls):
-            if not m.startswith("_") and inspect.isfunction(getattr(cls, m)):
-                full = f"{full_cls}.{m}"
-                entries.append((full, "py:method", "1", f"{g}{full}.html#$", "-"))
-    for n in dir(plt):
-        obj = getattr(plt, n)
-        if not n.startswith("_") and inspect.isfunction(obj) and obj.__module__ == "matplotlib.pyplot":
-            full = f"matplotlib.pyplot.{n}"
-            entries.append((full, "py:function", "1", f"{g}{full}.html#$", "-"))
-    for n in ("Colormap", "ListedColormap", "LinearSegmentedColormap", "Normalize",
-              "TwoSlopeNorm", "CenteredNorm"):
-        full = f"matplotlib.colors.{n}"
-        entries.append((full, "py:class", "1", f"{g}{full}.html#$", "-"))
-    return matplotlib.__version__, entries
-
-
 def generate_shapely():
     import shapely
     entries = [("shapely", "py:module", "0", "index.html#module-shapely", "-")]
@@ -253,8 +177,7 @@ def generate_shapely():
     return shapely.__version__, entries
 
 
-GENERATORS = {"numpy": generate_numpy, "matplotlib": generate_matplotlib,
-              "shapely": generate_shapely}
+GENERATORS = {"shapely": generate_shapely}
 
 
 def main(argv=None):
