@@ -12,6 +12,11 @@
 * A constant whose only docstring is that of its built-in type (a tuple, a str: Python's
   "Built-in immutable sequence...") gets a one-line description instead
   (:data:`CONSTANT_DOCS`, or a generic line for a constant not listed there).
+* Reference pages left in ``docs/reference/generated/`` by an earlier build for a name that
+  is no longer public are removed before the build reads its sources (otherwise a local
+  build fails on a page that is in no table of contents until ``make clean``).  Only pages
+  this extension's templates wrote (a name underlined by ``=``, then ``.. currentmodule::``)
+  are touched.
 * Module docstrings are not run through numpydoc, so their numpydoc section headings
   (``Examples`` underlined by dashes) would become document sections, whose names clash
   between modules; they are turned into rubrics, as numpydoc does for functions.
@@ -123,6 +128,21 @@ def describe_constants(app, what, name, obj, options, lines):
         lines[:] = [CONSTANT_DOCS.get(name, "A constant; its value is shown above."), ""]
 
 
+def remove_stale_reference_pages(app):
+    from pathlib import Path
+
+    folder = Path(app.srcdir) / "reference" / "generated"
+    if not folder.is_dir():
+        return
+    public = set(public_names())
+    for page in folder.glob("*.rst"):
+        lines = page.read_text(encoding="utf-8-sig").splitlines()  # autosummary may write a BOM
+        is_stub = (len(lines) >= 4 and lines[0] == page.stem and set(lines[1]) == {"="}
+                   and lines[3].startswith(".. currentmodule::"))
+        if is_stub and page.stem not in public:
+            page.unlink()
+
+
 _SECTION = re.compile(r"^-{3,}$")
 
 
@@ -138,6 +158,7 @@ def module_sections_to_rubrics(app, what, name, obj, options, lines):
 
 
 def setup(app):
+    app.connect("builder-inited", remove_stale_reference_pages)
     app.connect("env-check-consistency", check_public_names_documented)
     app.connect("missing-reference", resolve_defining_path)
     app.connect("autodoc-process-docstring", module_sections_to_rubrics, priority=400)
