@@ -1,7 +1,8 @@
 """Draw the convention figures of the user guide into docs/figures/.
 
 Run: ``python docs/make_figures.py`` (needs matplotlib).  The figures are
-committed; tests/test_docs.py checks that this script still runs.
+committed; tests/test_docs.py draws them again and checks what they show (panels,
+titles, the areas stated against the curves drawn) and that the committed files match.
 """
 
 import sys
@@ -42,6 +43,7 @@ def orientation(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
 def closure(path):
@@ -73,6 +75,7 @@ def closure(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
 def curve_model(path):
@@ -96,6 +99,7 @@ def curve_model(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
 def gaps(path):
@@ -118,14 +122,18 @@ def gaps(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
 def main(out=OUT):
+    """Draw every figure into ``out``; returns ``{name: Figure}`` (closed, for inspection)."""
     out = Path(out)
     out.mkdir(parents=True, exist_ok=True)
+    figs = {}
     for fn in (orientation, closure, curve_model, gaps):
-        fn(out / f"{fn.__name__}.png")
+        figs[fn.__name__] = fn(out / f"{fn.__name__}.png")
         print("wrote", out / f"{fn.__name__}.png")
+    return figs
 
 
 if __name__ == "__main__":
