@@ -4,7 +4,7 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 PIP    := $(PY) -m pip
 
-.PHONY: demo test bench doctest clean venv
+.PHONY: demo test bench doctest docs clean venv
 
 $(VENV)/.created:
 	$(PYTHON) -m venv $(VENV)
@@ -29,5 +29,10 @@ test: $(VENV)/.installed-test
 bench: $(VENV)/.installed-bench $(VENV)/.installed-dask
 	$(PY) benchmarks/run_all.py
 
+## docs: install -e ".[docs]" and build the site into docs/_build/html (warnings are errors)
+docs: $(VENV)/.installed-docs
+	$(PY) -m sphinx -b html -W --keep-going -n -q docs docs/_build/html
+
 clean:
 	rm -rf $(VENV) build dist src/*.egg-info .pytest_cache .hypothesis
+	rm -rf docs/_build docs/reference/generated docs/auto_examples docs/sg_execution_times.rst

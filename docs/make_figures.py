@@ -5,7 +5,9 @@ are drawn here; the report figures (``leadlag_*.png``, ``loop_*.png``) are the
 ones ``wedgepath demo --out DIR`` writes, made by the same calls
 (:mod:`wedgepath.report` on the bundled demo data), plus the loop report of a
 figure-eight, where the faces tell something.  The figures are committed;
-tests/test_docs.py checks that this script still runs and draws them.
+tests/test_docs.py draws them again and checks what they show (panels, titles, the
+areas stated against the curves drawn, the demo's cyclic order) and that the committed
+files match.
 """
 
 import sys
@@ -46,6 +48,7 @@ def orientation(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
 def closure(path):
@@ -77,6 +80,7 @@ def closure(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
 def curve_model(path):
@@ -100,6 +104,7 @@ def curve_model(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
 def gaps(path):
@@ -122,57 +127,61 @@ def gaps(path):
     fig.tight_layout()
     fig.savefig(path)
     plt.close(fig)
+    return fig
 
 
-def report_figures(out, quick=False):
+def report_figures(out):
     """The demo's report figures, and the loop report of a drifting figure-eight.
 
-    ``quick``: 19 surrogates and bootstrap replicates instead of the demo's 199 (the same
-    figures with rougher intervals; for the test that this script runs).
+    Returns ``{name: Figure}`` (closed, for inspection).
     """
     import math
 
     from wedgepath import demo, plotting, report
 
+    out = Path(out)
+    figs = {}
+
+    def save(name, fig):
+        (out / f"{name}.png").write_bytes(plotting.png_bytes(fig))
+        figs[name] = fig
+
     ring = demo.bundled("ring_sensors.csv")
-    options = dict(demo.LEADLAG_OPTIONS)
-    if quick:
-        options.update(n_surrogates=19, n_boot=19)
-    rep = report.leadlag(ring, **options, progress=False, time_name="time_s",
+    rep = report.leadlag(ring, **demo.LEADLAG_OPTIONS, progress=False, time_name="time_s",
                          units={"time_s": "s"})
-    names = {"positions.png": "leadlag_positions.png", "pairs.png": "leadlag_pairs.png",
-             "rolling.png": "leadlag_rolling.png"}
     for name, fig in rep.figures().items():
-        (out / names[name]).write_bytes(plotting.png_bytes(fig))
+        save("leadlag_" + name.removesuffix(".png"), fig)
     load = demo.bundled("load_test.csv")
     lrep = report.loop(load, progress=False, units={"strain": "mm/mm", "stress_MPa": "MPa"})
     truth = math.pi * demo.LOAD["eta"] * 2 * math.pi * demo.LOAD["f"] * demo.LOAD["e0"] ** 2
-    figs = lrep.figures(reference=truth, reference_label="known value")
-    (out / "loop_load_test.png").write_bytes(plotting.png_bytes(figs["loop.png"]))
-    (out / "loop_cycles.png").write_bytes(plotting.png_bytes(figs["cycles.png"]))
+    loop_figs = lrep.figures(reference=truth, reference_label="known value")
+    save("loop_load_test", loop_figs["loop.png"])
+    save("loop_cycles", loop_figs["cycles.png"])
     # a figure-eight with a drift, closed by detrend: the faces are shown, on their own axes
     t = np.linspace(0, 2 * np.pi, 801)
     xy = np.c_[np.sin(t), 0.8 * np.sin(2 * t) + np.linspace(0, 0.6, 801)]
     erep = report.loop(xy, names=["u", "v"], closure="detrend", progress=False)
-    (out / "loop_figure_eight.png").write_bytes(plotting.png_bytes(erep.figures()["loop.png"]))
-    return REPORT_FIGURES
+    save("loop_figure_eight", erep.figures()["loop.png"])
+    return figs
 
 
-#: the report figures this script draws (besides the four convention figures)
-REPORT_FIGURES = ["leadlag_positions.png", "leadlag_pairs.png", "leadlag_rolling.png",
-                  "loop_load_test.png", "loop_cycles.png", "loop_figure_eight.png"]
+def main(out=OUT, reports=True):
+    """Draw every figure into ``out``; returns ``{name: Figure}`` (closed, for inspection).
 
-
-def main(out=OUT, quick=False):
+    ``reports=False``: the convention figures only.
+    """
     out = Path(out)
     out.mkdir(parents=True, exist_ok=True)
+    figs = {}
     for fn in (orientation, closure, curve_model, gaps):
-        fn(out / f"{fn.__name__}.png")
+        figs[fn.__name__] = fn(out / f"{fn.__name__}.png")
         print("wrote", out / f"{fn.__name__}.png")
-    for name in report_figures(out, quick=quick):
-        print("wrote", out / name)
+    if reports:
+        for name, fig in report_figures(out).items():
+            figs[name] = fig
+            print("wrote", out / f"{name}.png")
+    return figs
 
 
 if __name__ == "__main__":
-    args = [a for a in sys.argv[1:] if a != "--quick"]
-    main(args[0] if args else OUT, quick="--quick" in sys.argv[1:])
+    main(sys.argv[1] if len(sys.argv) > 1 else OUT)

@@ -1390,8 +1390,8 @@ def public_calls():
         obj = getattr(wp, name)
         if name.startswith("__") or isinstance(obj, (tuple, str)):
             continue
-        if inspect.isclass(obj) and issubclass(obj, Warning):
-            continue
+        if inspect.isclass(obj) and issubclass(obj, (Warning, Exception)):
+            continue  # warning and error classes are raised by the library, not called
         if name in ("RegionMoments", "Decomposition", "Lobe", "CyclicOrder", "SurrogateResult",
                     "BootstrapResult", "CycleAreas", "RollingAreas"):
             continue  # result objects: built by the library, not by users

@@ -201,7 +201,7 @@ def evaluation_cost(expr) -> int:
     argument reduction is slow), the other trigonometric and hyperbolic
     functions 30, ``exp`` 15, ``log`` 20, ``sqrt`` 6, ``abs`` 2: about the
     nanoseconds numpy takes per value (measured by benchmarks/bench_formulas.py).
-    The command line adds :data:`POINT_OVERHEAD` per point for the quadrature
+    The command line adds ``POINT_OVERHEAD`` per point for the quadrature
     and bounds points x cost (docs/cli.md).  The count is the time model of a
     work limit, not a promise of time: values of huge magnitude in the data
     slow trigonometric functions down the same way.

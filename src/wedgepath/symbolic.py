@@ -2,7 +2,7 @@
 
 This module is the exact layer of wedgepath.  It is a *leaf*: it depends only
 on sympy, numpy, the standard library and wedgepath's index algebra
-(:mod:`wedgepath._exterior`: the sign of a permutation and the wedge of term
+(``wedgepath._exterior``: the sign of a permutation and the wedge of term
 tables, which imports nothing), never on the numeric layers, so the rest of
 the package (and its tests) can use it as an independent referee, and users
 can use it to check their floating-point numbers.

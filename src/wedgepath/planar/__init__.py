@@ -18,9 +18,10 @@ planar wrapper.
 """
 
 from .area import RegionMoments, region_moments, signed_area
-from .arrangement import Decomposition, DecompositionWarning, Lobe, decompose
+from .arrangement import ArrangementTooLarge, Decomposition, DecompositionWarning, Lobe, decompose
 from .green import region_integral
 from .winding import winding_number
 
 __all__ = ["signed_area", "winding_number", "region_integral", "region_moments",
-           "RegionMoments", "decompose", "Decomposition", "Lobe", "DecompositionWarning"]
+           "RegionMoments", "decompose", "Decomposition", "Lobe", "DecompositionWarning",
+           "ArrangementTooLarge"]

@@ -1,7 +1,7 @@
 """Region integrals ``∬ w(x, y) f(x, y) dx∧dy`` of closed planar curves (public wrapper).
 
 The engine -- Green's theorem on the boundary, exact for polynomials and
-adaptive otherwise -- is calculus (:mod:`wedgepath.calculus.green`), where
+adaptive otherwise -- is calculus (``wedgepath.calculus.green``), where
 ``integrate(f dx0^dx1, planar_path)`` uses it too.  This module adds what the
 public planar function needs on top: the planar input conventions, constant
 integrands by the shoelace area, and formulas given as text (parsed by
@@ -45,7 +45,7 @@ def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rt
 
     Computes ``∬ w(x, y) f(x, y) dx∧dy`` where ``w`` is the winding number
     of the curve, as a boundary integral by Green's theorem (see
-    :mod:`wedgepath.calculus.green`).  Inside a simple counter-clockwise loop
+    ``wedgepath.calculus.green``).  Inside a simple counter-clockwise loop
     this is the ordinary area integral; a clockwise loop gives its negative;
     lobes of a self-crossing loop count with their winding numbers.
 
