@@ -1237,7 +1237,7 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
     max_crossings : int, optional
         Refuse a loop that crosses itself more often before splitting it into faces.
     progress : bool or None
-        Stages on standard error (None: for loops of :data:`STAGES_FROM` samples or more).
+        Stages on standard error (None: for loops of 20,000 samples or more).
 
     Returns
     -------
