@@ -411,13 +411,13 @@ def leadlag_report(values, times, names, *, closure="chord", normalize=None, win
         st = step if step is not None else max(1, window // 4)
         if window > values.shape[0]:
             raise CLIError(f"--window {window} is longer than the {values.shape[0]} samples")
-        roll = rolling_area_matrix(values, window, st, times=times, labels=True)
+        roll = rolling_area_matrix(values, window, st, times=times)
         if normalize is not None:
             report["notes"].append("rolling windows hold raw areas A[i, j]; --normalize "
                                    "applies to the whole-recording matrix only")
         report["rolling"] = {
             "window": window, "step": st,
-            "start_time": roll.start_time, "end_time": roll.end_time,
+            "start_time": roll.start_time, "end_time": roll.stop_time,
             "areas": roll.areas,
         }
     if surrogates is not None:
@@ -536,7 +536,7 @@ def _cmd_leadlag(args):
     if args.stream:
         return _cmd_leadlag_stream(args, plan, figures)
     tab = _load(args, args.columns)
-    _check_units(args, tab.names + ([args.time] if args.time else []))
+    _check_units(args, list(tab.names) + ([args.time] if args.time else []))
     _check_complete_rows(args.table, tab.values, tab.names)
     rep = leadlag_report(tab.values, tab.times, tab.names, closure=args.closure,
                          normalize=args.normalize, window=args.window, step=args.step,
@@ -577,19 +577,11 @@ def _estimated_rows(path):
 
 
 def _cmd_leadlag_stream(args, plan, figures):
-    from ._progress import Progress
     from .io import stream_area_matrix
 
-    total = _estimated_rows(args.table)
-    with Progress(total or 1, "rows read (estimate)",
-                  enabled=False if args.quiet or total is None else None) as bar:
-        last = [0]
-
-        def tick(rows):
-            bar.update(rows - last[0])
-            last[0] = rows
-        A = stream_area_matrix(args.table, columns=args.columns, time_column=args.time,
-                               delimiter=args.delimiter, chunk_rows=args.chunk_rows, progress=tick)
+    A = stream_area_matrix(args.table, columns=args.columns, time_column=args.time,
+                           delimiter=args.delimiter, chunk_rows=args.chunk_rows,
+                           progress=_progress_flag(args))
     names = list(A.names)
     M = A.values
     order = _order_section(M, names, args.top)
@@ -597,7 +589,7 @@ def _cmd_leadlag_stream(args, plan, figures):
     rep = {
         "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
         "wedgepath_version": __version__,
-        "channels": names, "samples": int(last[0]), "closure": "chord", "normalize": None,
+        "channels": names, "samples": int(A.samples), "closure": "chord", "normalize": None,
         "streamed": True, "chunk_rows": args.chunk_rows,
         "area_matrix": M, "raw_area_matrix": M,
         **order,
@@ -706,11 +698,9 @@ def loop_report(xy, times, names, *, closure="chord", reference=None, reference_
         "reference": ref_name,
         "quantity": "integral of y dx per cycle" if energy == "y_dx" else "integral of x dy per cycle",
         "count": 0 if cyc is None else int(cyc.count),
-        "values": empty if cyc is None else cyc.areas,
-        "start": empty if cyc is None else (cyc.start_times if cyc.start_times is not None
-                                            else cyc.starts),
-        "stop": empty if cyc is None else (cyc.stop_times if cyc.stop_times is not None
-                                           else cyc.stops),
+        "values": empty if cyc is None else cyc.values,
+        "start": empty if cyc is None else cyc.start_time,
+        "stop": empty if cyc is None else cyc.stop_time,
         "mean": math.nan if cyc is None else float(cyc.mean),
         "std": math.nan if cyc is None else float(cyc.std),
     }
@@ -879,7 +869,7 @@ def loop_summary(rep):
 
 
 def _cmd_loop(args):
-    from ._progress import Stages
+    from ._bars import Stages
 
     _check_tol(args)
     cols = [args.x, args.y]
@@ -892,7 +882,7 @@ def _cmd_loop(args):
     plan = _plan(args, loop_files(figures=figures), "loop")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
     tab = _load(args, cols + ([extra] if extra else []))
-    _check_units(args, tab.names + ([args.time] if args.time else []))
+    _check_units(args, list(tab.names) + ([args.time] if args.time else []))
     xy = tab.values[:, :2]
     _check_complete_rows(args.table, xy, cols)
     if args.cycles_by == args.y:
