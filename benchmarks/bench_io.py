@@ -43,7 +43,7 @@ import numpy as np, pyarrow.csv as pcsv, wedgepath as wp
 tab = pcsv.read_csv(sys.argv[1])
 X = np.column_stack([c.to_numpy() for c in tab.columns])
 A = wp.area_matrix(X)
-print(json.dumps(A.tolist()))
+print(json.dumps(A.values.tolist()))
 """
 
 

@@ -39,7 +39,7 @@ def make_data(rng, T=4000):
 
 rng = np.random.default_rng(7)
 t, X, names = make_data(rng)
-A = wp.area_matrix(X, times=t, names=names, labels=True)
+A = wp.area_matrix(X, times=t, names=names)
 order = wp.cyclic_order(A.values[:6, :6])
 print("order of the stations (each leads the next):",
       " -> ".join(names[k] for k in order.order), f"(fit {order.fit:.3f})")
@@ -52,12 +52,14 @@ print("note: a chain of offsets is cyclic only up to the wrap from the last stat
 # signal's spectrum and destroy the timing between signals; the p-values are
 # adjusted for the false discovery rate.
 
-sig = wp.surrogate_test(X, method="phase", n_surrogates=199, seed=11, progress=False)
-print("pairs significant at 5% false discovery rate (phase-randomised surrogates):")
-for i in range(len(names)):
-    for j in range(i + 1, len(names)):
-        if sig.significant()[i, j]:
-            print(f"  {names[i]:>10} / {names[j]:<10} A = {A.values[i, j]: 8.2f}  q = {sig.qvalues[i, j]:.3f}")
+sig = wp.surrogate_test(X, method="phase", n_surrogates=199, seed=11, names=names,
+                        progress=False)
+table = wp.pair_table(A, significance=sig)          # one row per pair, strongest first
+top = table[table["q"] <= 0.05]
+print(f"{len(top)} of {len(table)} pairs significant at 5% false discovery rate "
+      "(phase-randomised surrogates):")
+print(top[["channel_i", "channel_j", "area", "direction", "q"]].to_string(
+    index=False, float_format=lambda v: f"{v:.3g}"))
 noisy = [k for k, nm in enumerate(names) if nm.startswith("noise")]
 flagged = [(i, j) for i in noisy for j in range(len(names)) if i != j and sig.significant()[i, j]]
 print(f"pairs involving the unrelated channels flagged: {len(flagged)} "

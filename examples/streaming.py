@@ -39,8 +39,8 @@ whole = np.concatenate(data)
 acc = wp.AreaAccumulator(12)
 for b in data:
     acc.update(b)
-A_stream = acc.result()
-A_direct = wp.area_matrix(whole)
+A_stream = acc.result().values
+A_direct = wp.area_matrix(whole).values
 err = np.max(np.abs(A_stream - A_direct)) / np.max(np.abs(A_direct))
 print(f"streamed {len(data)} blocks ({whole.shape[0]} samples): max relative difference "
       f"to the in-memory matrix {err:.1e}")
@@ -56,7 +56,7 @@ for b in data[:17]:
     left.update(b)
 for b in data[17:]:
     right.update(b)
-merged = left.merge(right).result()
+merged = left.merge(right).result().values
 err = np.max(np.abs(merged - A_direct)) / np.max(np.abs(A_direct))
 print(f"two halves merged (Chen's identity): max relative difference {err:.1e}")
 assert err < 1e-10
@@ -65,7 +65,7 @@ assert err < 1e-10
 # Rolling windows
 # ---------------
 
-roll = wp.rolling_area_matrix(whole, window=20000, step=5000, labels=True)
+roll = wp.rolling_area_matrix(whole, window=20000, step=5000)
 lead = roll.pair(0, 1)
 print(f"rolling windows: {len(roll)}; A[0, 1] per window ranges "
       f"{lead.min():.1f} .. {lead.max():.1f}")

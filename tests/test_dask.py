@@ -79,7 +79,7 @@ class TestOneArray:
         assert close(A, wp.area_matrix(X))
         assert np.array_equal(X, before)
         # skew-symmetric like the in-memory result
-        assert np.array_equal(A, -A.T)
+        assert np.array_equal(A.values, -A.values.T)
 
     @pytest.mark.parametrize("split_every", [2, 3, 8, 1000])
     def test_any_tree_shape(self, split_every):
@@ -122,10 +122,10 @@ class TestOneArray:
 
     def test_numpy_input_and_labels(self):
         X = walk(1500, 3, seed=11)
-        m = wdask.area_matrix(X, chunk_rows=200, names=["a", "b", "c"], labels=True,
-                              scheduler="sync")
+        m = wdask.area_matrix(X, chunk_rows=200, names=["a", "b", "c"], scheduler="sync")
         assert isinstance(m, wp.AreaMatrix)
-        assert m.names == ("a", "b", "c")
+        assert m.names == ("a", "b", "c") and m.samples == 1500 and m.closure == "chord"
+        assert wdask.area_matrix(X, chunk_rows=500, scheduler="sync").names == ("0", "1", "2")
         ref = wp.area_matrix(X)
         assert close(m.values, ref)
         assert m["a", "c"] == pytest.approx(ref[0, 2], rel=RTOL)
@@ -152,8 +152,8 @@ class TestOneArray:
 
     def test_result_is_a_copy_the_caller_owns(self):
         X = walk(500, 3, seed=14)
-        A = wdask.area_matrix(da.from_array(X, chunks=(100, 3)), scheduler="sync")
-        A[0, 1] = 123.0                                   # writable, and X is untouched
+        A = np.array(wdask.area_matrix(da.from_array(X, chunks=(100, 3)), scheduler="sync"))
+        A[0, 1] = 123.0                                   # a writable copy; X is untouched
         assert close(wdask.area_matrix(da.from_array(X, chunks=(100, 3)), scheduler="sync"),
                      wp.area_matrix(X))
 
@@ -177,7 +177,8 @@ class TestManyRecordings:
         recs = self.recordings()
         dk = [da.from_array(r, chunks=(max(1, r.shape[0] // 3), 4)) for r in recs]
         A = wdask.area_matrices(dk, scheduler=client)
-        assert A.shape == (len(recs), 4, 4)
+        assert len(A) == len(recs) and np.stack(A).shape == (len(recs), 4, 4)
+        assert [m.samples for m in A] == [r.shape[0] for r in recs]
         for k, r in enumerate(recs):
             assert close(A[k], wp.area_matrix(r))
         P = wdask.area_matrices(dk, pooled=True, scheduler=client)
@@ -194,7 +195,7 @@ class TestManyRecordings:
         pd = pytest.importorskip("pandas")
         r = walk(400, 3, seed=21)
         frame = dask.delayed(pd.DataFrame)(r, columns=["x", "y", "z"])
-        A = wdask.area_matrices([frame], names=["x", "y", "z"], labels=True, scheduler="sync")
+        A = wdask.area_matrices([frame], names=["x", "y", "z"], scheduler="sync")
         assert A[0].names == ("x", "y", "z")
         assert close(A[0].values, wp.area_matrix(r))
 
@@ -203,7 +204,7 @@ class TestManyRecordings:
         stack = np.stack([walk(T, n, seed=s, offset=s) for s in range(R)])
         Xd = da.from_array(stack, chunks=(3, 200, n))
         A = wdask.area_matrices(Xd, scheduler=client)
-        assert A.shape == (R, n, n)
+        assert np.stack(A).shape == (R, n, n)
         for k in range(R):
             assert close(A[k], wp.area_matrix(stack[k]))
         P = wdask.area_matrices(stack, pooled=True, chunk_rows=128, scheduler="sync")
@@ -211,10 +212,11 @@ class TestManyRecordings:
 
     def test_labels(self):
         recs = self.recordings()[:2]
-        out = wdask.area_matrices(recs, names=list("abcd"), labels=True, scheduler="sync")
+        out = wdask.area_matrices(recs, names=list("abcd"), scheduler="sync")
         assert [m.names for m in out] == [tuple("abcd")] * 2
-        pooled = wdask.area_matrices(recs, pooled=True, labels=True, scheduler="sync")
-        assert pooled.names == ("0", "1", "2", "3")
+        pooled = wdask.area_matrices(recs, pooled=True, scheduler="sync")
+        assert isinstance(pooled, wp.AreaMatrix) and pooled.names == ("0", "1", "2", "3")
+        assert pooled.samples == sum(r.shape[0] for r in recs)
 
 
 # --------------------------------------------------------------------------- files
@@ -238,9 +240,10 @@ class TestFiles:
         A = wdask.file_area_matrices(paths, chunk_rows=64, scheduler=client)
         for k, r in enumerate(recs):
             assert close(A[k], wp.area_matrix(r))
-        P = wdask.file_area_matrices(paths, pooled=True, labels=True, scheduler=client)
-        assert P.names == ("a", "b", "c")
-        assert close(P.values, sum(wp.area_matrix(r) for r in recs))
+        assert [m.names for m in A] == [("a", "b", "c")] * 3
+        P = wdask.file_area_matrices(paths, pooled=True, scheduler=client)
+        assert P.names == ("a", "b", "c") and P.samples == 1290
+        assert close(P.values, sum(wp.area_matrix(r).values for r in recs))
 
     def test_bad_file_names_file_and_line(self, client, tmp_path):
         good = tmp_path / "good.csv"
@@ -353,9 +356,9 @@ class TestBadInput:
         ({"closure": "detrend"}, ValueError, "only 'chord'"),
         ({"split_every": 1}, ValueError, "split_every"),
         ({"split_every": 2.5}, TypeError, "split_every"),
-        ({"labels": "yes"}, TypeError, "labels"),
+        ({"labels": True}, TypeError, "labels"),        # gone: always labelled
         ({"chunk_rows": 0}, ValueError, "chunk_rows"),
-        ({"names": ["a", "b"], "labels": True}, ValueError, "names"),
+        ({"names": ["a", "b"]}, ValueError, "names"),
     ])
     def test_bad_options(self, kwargs, exc, words):
         with pytest.raises(exc) as e:

@@ -100,7 +100,7 @@ def test_area_matrix_cyclic_order_rolling_and_accumulator():
     A = wp.area_matrix(X)
     expected = cycles * (N / 2) * np.sin(2 * np.pi / N) * np.sin(phi)
     assert A[0, 1] == pytest.approx(expected, rel=1e-9)
-    assert np.allclose(A, -A.T)
+    assert np.allclose(A, -A.values.T)
     co = wp.cyclic_order(A)
     k = list(co.order).index(0)
     assert list(co.order[k:]) + list(co.order[:k]) == [0, 1, 2, 3]

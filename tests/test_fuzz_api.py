@@ -275,7 +275,7 @@ def test_path(points, times, names):
        CLOSURE, st.sampled_from(["linear", "spline", "bogus"]))
 def test_integrate(points, which, closure, curve):
     form = {"dx0": wp.dx(0), "dx1": 2 * wp.dx(1) - wp.dx(0), "dx0^dx1": wp.dx(0) ^ wp.dx(1),
-            "poly": wp.OneForm([lambda c: c[:, 1] ** 2, lambda c: c[:, 0]], degree=2),
+            "poly": wp.OneForm([lambda c: c[:, 1] ** 2, lambda c: c[:, 0]], poly_degree=2),
             "callable": wp.OneForm([lambda c: np.cos(c[:, 0])]),
             "0form": wp.ZeroForm(1.0)}[which]
     check(wp.integrate, form, points, closure=closure, curve=curve)
@@ -329,7 +329,7 @@ def test_forms(matrix, index, scale):
 def test_planar_measures(path, closure):
     check(wp.signed_area, path, closure=closure)
     check(wp.region_moments, path, closure=closure)
-    check(wp.region_integral, lambda x, y: x * y, path, closure=closure, degree=2)
+    check(wp.region_integral, lambda x, y: x * y, path, closure=closure, poly_degree=2)
 
 
 @FUZZ

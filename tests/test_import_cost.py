@@ -1,6 +1,6 @@
 """``import wedgepath`` (and its command line) leaves the heavy modules unloaded.
 
-sympy, scipy.interpolate and pandas are imported only by the calls that need
+sympy, scipy.interpolate, pandas and tqdm are imported only by the calls that need
 them; that keeps the streamed command line within its memory budget (see
 benchmarks/bench_streaming.py).  Checked in a fresh interpreter, since this
 test session has long since imported everything.
@@ -12,7 +12,8 @@ import sys
 
 import pytest
 
-HEAVY = ["sympy", "scipy.interpolate", "scipy.stats", "pandas", "matplotlib", "pyarrow", "dask"]
+HEAVY = ["sympy", "scipy.interpolate", "scipy.stats", "pandas", "matplotlib", "pyarrow", "dask",
+         "tqdm"]
 
 
 def loaded_after(code):

@@ -72,7 +72,7 @@ class TestExactness:
 
     def test_declared_degree_callable_is_exact(self):
         pts = np.array([[0.0, 0.0], [1.0, 2.0], [3.0, -1.0]])
-        w = wp.OneForm([lambda c: c[:, 0] ** 3 * c[:, 1], lambda c: c[:, 1] ** 2], degree=4)
+        w = wp.OneForm([lambda c: c[:, 0] ** 3 * c[:, 1], lambda c: c[:, 1] ** 2], poly_degree=4)
         r = wp.integrate(w, pts)
         exact = symbolic.polyline_integral([X**3 * Y, Y**2], (X, Y), pts)
         assert r.exact

@@ -19,7 +19,7 @@ class TestReadTable:
         f = tmp_path / "s.csv"
         f.write_text("# comment\nt,a,b\n0,1,2\n0.5,,3\n\n1.5,4,NA\n")
         tab = wio.read_table(f, time_column="t")
-        assert tab.names == ["a", "b"]
+        assert tab.names == ("a", "b")
         np.testing.assert_array_equal(tab.times, [0, 0.5, 1.5])
         np.testing.assert_array_equal(tab.values, [[1, 2], [np.nan, 3], [4, np.nan]])
 
@@ -27,7 +27,7 @@ class TestReadTable:
         f = tmp_path / "s.tsv"
         f.write_text("a\tb\tc\n1\t2\t3\n4\t5\t6\n")
         tab = wio.read_table(f, columns="c,a")
-        assert tab.names == ["c", "a"]
+        assert tab.names == ("c", "a")
         np.testing.assert_array_equal(tab.values, [[3, 1], [6, 4]])
 
     def test_chunks_cover_the_table(self, tmp_path):

@@ -94,7 +94,7 @@ class TestTokens:
     def test_comment_lines_before_the_header_only(self, tmp_path):
         text = "# rig 4, run 2\n  # units: V, V\n\na,b\n1,2\n3,4\n"
         for how, tab in read_all_ways(tmp_path, text):
-            assert tab.names == ["a", "b"], how
+            assert tab.names == ("a", "b"), how
             np.testing.assert_array_equal(tab.values, [[1, 2], [3, 4]])
 
     @pytest.mark.parametrize("comment", ["# paused, resumed", "# note", "#,"])
@@ -135,7 +135,7 @@ class TestTokens:
     ])
     def test_headers_and_delimiters(self, tmp_path, text, names, values):
         for how, tab in read_all_ways(tmp_path, text):
-            assert tab.names == names, how
+            assert tab.names == tuple(names), how
             np.testing.assert_array_equal(tab.values, values)
 
     def test_decimal_comma_and_space_lines_refused(self, tmp_path):

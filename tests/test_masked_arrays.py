@@ -47,7 +47,7 @@ CALLS = {
     "signed_area": lambda X: float(wp.signed_area(X)),
     "decompose": lambda X: wp.decompose(X).area_by_winding,
     "winding_number": lambda X: wp.winding_number(X, [[0.5, 0.5], [0.9, 0.1]]).tolist(),
-    "region_integral": lambda X: float(wp.region_integral(lambda x, y: x + 1.0, X, degree=1)),
+    "region_integral": lambda X: float(wp.region_integral(lambda x, y: x + 1.0, X, poly_degree=1)),
     "region_moments": lambda X: wp.region_moments(X).area,
     "Path pieces": lambda X: [p.points.tolist() for p in wp.Path(X).pieces],
     "integrate": lambda X: float(wp.integrate(wp.dx(0) * 1.0, wp.Path(X))),

@@ -167,6 +167,21 @@ def test_simple_polygon_is_one_face_with_shapely_area():
     assert wp.decompose(poly[::-1]).winding.tolist() == [-1]
 
 
+def test_summary_says_how_much_cancels():
+    # a unit square with a small clockwise lobe at a corner (a noise loop of area 0.005):
+    # 1.005 swept, signed 0.995, so 1 - 0.995 / 1.005 = 1.0 % of the absolute area cancels
+    # out.  The old text said "lobes of opposite sign cancel: the net signed area is 99.0% of
+    # the absolute area" (and "100.0%" when almost nothing cancelled).
+    sq = [[0, 0], [1, 0], [1, 1], [0, 1], [0, 0], [0, -0.1], [-0.1, -0.1], [0, 0]]
+    d = wp.decompose(sq)
+    assert d.mixed_signs and d.absolute_area == pytest.approx(1.005)
+    assert d.cancellation == pytest.approx(1 - 0.995 / 1.005)
+    assert d.summary().splitlines()[-1] == ("NOTE: lobes of opposite sign: 1.0% of the absolute "
+                                            "area cancels out in the net signed area")
+    tiny = [[0, 0], [1, 0], [1, 1], [0, 1], [0, 0], [0, -1e-3], [-1e-3, -1e-3], [0, 0]]
+    assert "less than 0.05%" in wp.decompose(tiny).summary()
+
+
 def test_figure_eight_reports_cancelling_lobes():
     eight = [[0, 0], [2, 2], [2, 0], [0, 2]]
     d = wp.decompose(eight)
@@ -175,8 +190,9 @@ def test_figure_eight_reports_cancelling_lobes():
     assert len(d.lobes) == 2
     assert sorted(lb.signed_area for lb in d.lobes) == [-1.0, 1.0]
     assert d.mixed_signs and d.cancellation == 1.0
-    assert "opposite sign cancel" in str(d)
-    assert "mixed signs" in repr(d)
+    assert str(d).splitlines()[-1] == ("NOTE: lobes of opposite sign: 100.0% of the absolute "
+                                       "area cancels out in the net signed area")
+    assert "mixed_signs=True" in repr(d)
     # a smooth figure-eight (lemniscate) nets about zero too
     t = np.linspace(0, 2 * np.pi, 400, endpoint=False)
     lem = np.column_stack([np.sin(t), np.sin(t) * np.cos(t)])

@@ -81,7 +81,7 @@ def test_polynomials_match_symbolic_layer_on_rational_polygons():
 def test_declared_polynomial_callable_is_exact():
     # ∬ x^2 y over the unit square = 1/6 (elementary calculus, common practice, no source)
     sq = [[0, 0], [1, 0], [1, 1], [0, 1]]
-    r = wp.region_integral(lambda x, y: x ** 2 * y, sq, degree=3)
+    r = wp.region_integral(lambda x, y: x ** 2 * y, sq, poly_degree=3)
     assert r.exact and float(r) == pytest.approx(1 / 6, rel=1e-14)
 
 
@@ -139,7 +139,7 @@ def test_disk_integral_of_radial_function():
     pts = np.column_stack([np.cos(2 * np.pi * k / n), np.sin(2 * np.pi * k / n)])
     a = 2 * np.pi / n
     expected = n / 12 * math.sin(a) * (2 + math.cos(a))
-    r = wp.region_integral(lambda x, y: x * x + y * y, pts, degree=2)
+    r = wp.region_integral(lambda x, y: x * x + y * y, pts, poly_degree=2)
     assert float(r) == pytest.approx(expected, rel=1e-13)
 
 
@@ -150,7 +150,7 @@ def test_integral_of_one_is_signed_area(pts):
     scale = float(np.abs(pts).max()) ** 2 * len(pts) + 1.0
     a = wp.signed_area(pts)
     assert float(wp.region_integral(1.0, pts)) == pytest.approx(a, abs=1e-12 * scale)
-    r = wp.region_integral(lambda x, y: np.ones_like(x), pts, degree=0)
+    r = wp.region_integral(lambda x, y: np.ones_like(x), pts, poly_degree=0)
     assert float(r) == pytest.approx(a, abs=1e-11 * scale)
 
 
@@ -163,9 +163,9 @@ def test_rigid_motion_invariance(pts, tx, ty, theta):
     moved = pts @ R + [tx, ty]
     p0 = np.array([1.0, -2.0])
     p1 = p0 @ R + [tx, ty]
-    base = wp.region_integral(lambda x, y: (x - p0[0]) ** 2 + (y - p0[1]) ** 2, pts, degree=2)
+    base = wp.region_integral(lambda x, y: (x - p0[0]) ** 2 + (y - p0[1]) ** 2, pts, poly_degree=2)
     other = wp.region_integral(lambda x, y: (x - p1[0]) ** 2 + (y - p1[1]) ** 2, moved,
-                               degree=2)
+                               poly_degree=2)
     scale = (float(np.abs(pts).max()) + 150.0) ** 4 * len(pts)
     assert float(other) == pytest.approx(float(base), abs=1e-12 * scale)
 

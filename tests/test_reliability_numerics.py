@@ -180,7 +180,7 @@ def test_cycle_areas_with_an_offset():
     res = wp.cycle_areas(X, 0, 1, boundaries=bounds)
     for k in range(4):
         A, S = exact_area(X[bounds[k]:bounds[k + 1] + 1])
-        assert err_units(res.areas[k], A, S) <= 16
+        assert err_units(res.values[k], A, S) <= 16
 
 
 # =========================================================================== magnitudes
@@ -198,7 +198,7 @@ def measure_magnitudes(scale):
             continue   # x^4 moments of 1e150 data exceed float64: refused (see the table)
         out[name] = err_units(fn(X), A, S)
     res = wp.cycle_areas(X, 0, 1, boundaries=[0, 100, 200])
-    out["cycle_areas"] = max(err_units(res.areas[k], *exact_area(X[100 * k:100 * k + 101]))
+    out["cycle_areas"] = max(err_units(res.values[k], *exact_area(X[100 * k:100 * k + 101]))
                              for k in range(2))
     # normalised areas: closed forms for two sinusoids of one frequency over whole cycles
     # (the hilbert value is exactly sin(phi), the zscore value sin(d) sin(phi), d the
@@ -284,7 +284,7 @@ LAYOUT_CALLS = {
                                             else [r[:2] for r in X]),
     "decompose": lambda X: wp.decompose(np.asarray(X)[:, :2]).signed_area,
     "cone": lambda X: float(wp.integrate(wp.dx(0) ^ wp.dx(1), wp.cone(X))),
-    "cycle_areas": lambda X: wp.cycle_areas(X, boundaries=[0, 23]).areas[0],
+    "cycle_areas": lambda X: wp.cycle_areas(X, boundaries=[0, 23]).values[0],
 }
 
 

@@ -518,7 +518,7 @@ row("wp.Integral(value)", "text", "value 'a'", lambda: wp.Integral("a"), ValueEr
 for name, fn in (("wp.signed_area(path2d)", wp.signed_area),
                  ("wp.region_moments(path2d)", wp.region_moments),
                  ("wp.region_integral(f, path2d)", lambda P: wp.region_integral(lambda x, y: x * y,
-                                                                                P, degree=2)),
+                                                                                P, poly_degree=2)),
                  ("wp.decompose(path2d)", wp.decompose),
                  ("wp.winding_number(path2d, points)", lambda P: wp.winding_number(P, [[0.2, 0.1]]))):
     zero = {"wp.signed_area(path2d)": lambda r: r == 0.0,
@@ -603,8 +603,9 @@ row("wp.region_integral(f, path2d)", "text", "a callable returning strings",
     "must return real numbers")
 row("wp.region_integral(f, path2d)", "option", "a sympy f without symbols=",
     lambda: wp.region_integral(x_ * y_, SQUARE), ValueError, "pass symbols=(x, y)")
-row("wp.region_integral(f, path2d)", "option", "degree=-1",
-    lambda: wp.region_integral(lambda x, y: x, SQUARE, degree=-1), ValueError, "degree must be >= 0")
+row("wp.region_integral(f, path2d)", "option", "poly_degree=-1",
+    lambda: wp.region_integral(lambda x, y: x, SQUARE, poly_degree=-1), ValueError,
+    "poly_degree must be >= 0")
 row("wp.region_integral(f, path2d)", "option", "order=0",
     lambda: wp.region_integral(lambda x, y: x, SQUARE, order=0), ValueError, "order must be >= 1")
 row("wp.region_integral(f, path2d)", "option", "rtol=-1",
@@ -662,21 +663,21 @@ row(SIG, "option", "normalize='l2'", lambda: wp.area_matrix(loop(3), normalize="
     "unknown normalize 'l2'")
 row(SIG, "option", "unknown keyword foo=1", lambda: wp.area_matrix(loop(3), foo=1), TypeError,
     "unexpected keyword argument 'foo'")
-row(SIG, "option", "labels='yes'", lambda: wp.area_matrix(loop(3), labels="yes"), TypeError,
-    "labels must be True or False")
+row(SIG, "option", "times given by position", lambda: wp.area_matrix(loop(3), T8), TypeError,
+    "positional argument")
 row(SIG, "option", "tol=-1", lambda: wp.area_matrix(loop(3), closure="require", tol=-1), ValueError,
     "tol must be a finite number >= 0")
 row(SIG, "option", "closure='require' on an open recording",
     lambda: wp.area_matrix(loop(3)[:5], closure="require"), ValueError, "not closed")
 row("AreaMatrix[i, j]", "option", "an unknown channel name",
-    lambda: wp.area_matrix(loop(3), labels=True)["zz", "0"], KeyError, "unknown channel 'zz'")
+    lambda: wp.area_matrix(loop(3))["zz", "0"], KeyError, "unknown channel 'zz'")
 
 ROLL = "wp.rolling_area_matrix(X, window, step)"
 array_rows(ROLL, lambda X: wp.rolling_area_matrix(X, 2, 1), 3,
            ndim=(ValueError, "must be 2-dimensional"),
            empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
            allnan=(None, "zero matrices (every window is a gap)",
-                   lambda r: r.shape == (4, 3, 3) and not r.any()))
+                   lambda r: r.shape == (4, 3, 3) and not np.asarray(r).any()))
 row(ROLL, "option", "window longer than the data", lambda: wp.rolling_area_matrix(loop(3), 100, 1),
     ValueError, "longer than the data")
 row(ROLL, "option", "window=1", lambda: wp.rolling_area_matrix(loop(3), 1, 1), ValueError,
@@ -690,7 +691,7 @@ row(ROLL, "times", "duplicate times", lambda: wp.rolling_area_matrix(loop(3), 4,
 row(ROLL, "overflow", "channels near 1e200",
     lambda: wp.rolling_area_matrix(loop(3) * 1e200, 4, 2), ValueError, "overflow float64")
 row("RollingAreas.pair(i, j)", "option", "an unknown channel name",
-    lambda: wp.rolling_area_matrix(loop(3), 4, 2, labels=True).pair("zz", "0"), KeyError,
+    lambda: wp.rolling_area_matrix(loop(3), 4, 2).pair("zz", "0"), KeyError,
     "unknown channel 'zz'")
 
 ACC = "AreaAccumulator.update(chunk)"
@@ -713,9 +714,6 @@ row("AreaAccumulator.merge(other)", "text", "an array", lambda: wp.AreaAccumulat
     TypeError, "needs an AreaAccumulator")
 row("AreaAccumulator.result()", "empty", "nothing fed", lambda: wp.AreaAccumulator(3).result(),
     ValueError, "has seen 0 sample(s)")
-row("AreaAccumulator.result()", "option", "labels='x'",
-    lambda: wp.AreaAccumulator(2).update(loop(2)).result(labels="x"), TypeError,
-    "labels must be True or False")
 row("AreaAccumulator.result()", "overflow", "chunks near 1e200 (areas beyond float64)",
     lambda: wp.AreaAccumulator(2).update(loop(2) * 1e200).result(), ValueError, "overflow float64")
 
@@ -769,7 +767,26 @@ row(CO, "option", "start=7 of 3", lambda: wp.cyclic_order(wp.area_matrix(loop(3)
 row(CO, "option", "start=1.0", lambda: wp.cyclic_order(wp.area_matrix(loop(3)), start=1.0),
     TypeError, "channel index or name")
 row(CO, "option", "start by name without names",
-    lambda: wp.cyclic_order(wp.area_matrix(loop(3)), start="a"), ValueError, "has no channel names")
+    lambda: wp.cyclic_order(wp.area_matrix(loop(3)).values, start="a"), ValueError,
+    "has no channel names")
+row(CO, "length", "names=['a'] for 3 channels",
+    lambda: wp.cyclic_order(wp.area_matrix(loop(3)).values, names=["a"]), ValueError,
+    "names has 1 entries")
+
+PT = "wp.pair_table(A)"
+row(PT, "ndim", "a (3, 2) matrix", lambda: wp.pair_table(np.zeros((3, 2))), ValueError,
+    "must be a square matrix")
+row(PT, "text", "significance=an area matrix",
+    lambda: wp.pair_table(wp.area_matrix(loop(3)), significance=wp.area_matrix(loop(3))),
+    TypeError, "significance must be a SurrogateResult")
+row(PT, "length", "a bootstrap of 2 channels for 3",
+    lambda: wp.pair_table(wp.area_matrix(loop(3)),
+                          bootstrap=wp.bootstrap_area(loop(2), n_boot=5, seed=0)),
+    ValueError, "bootstrap is for channels ['0', '1']")
+row(PT, "option", "significance with a detrended matrix",
+    lambda: wp.pair_table(wp.area_matrix(loop(3), closure="detrend"),
+                          significance=wp.surrogate_test(loop(3), n_surrogates=5, seed=0)),
+    ValueError, "closure='detrend'")
 
 HE = "wp.hilbert_energy(x)"
 row(HE, "ndim", "a scalar", lambda: wp.hilbert_energy(3.0), ValueError, "at least one dimension")
@@ -820,10 +837,14 @@ row("wp.surrogate_test(X)", "overflow", "channels near 1e200 (areas beyond float
     "overflow float64")
 row("wp.bootstrap_area(X)", "option", "block=0", lambda: wp.bootstrap_area(loop(3), block=0),
     ValueError, "block must be between 2 and")
-row("wp.bootstrap_area(X)", "option", "level=2", lambda: wp.bootstrap_area(loop(3), level=2),
-    ValueError, "strictly between 0 and 1")
-row("wp.bootstrap_area(X)", "option", "level='a'", lambda: wp.bootstrap_area(loop(3), level="a"),
-    TypeError, "level must be a real number")
+row("wp.bootstrap_area(X)", "option", "confidence=2",
+    lambda: wp.bootstrap_area(loop(3), confidence=2), ValueError, "strictly between 0 and 1")
+row("wp.bootstrap_area(X)", "option", "confidence='a'",
+    lambda: wp.bootstrap_area(loop(3), confidence="a"), TypeError,
+    "confidence must be a real number")
+row("wp.bootstrap_area(X)", "option", "progress='yes'",
+    lambda: wp.bootstrap_area(loop(3), progress="yes"), TypeError,
+    "progress must be True, False or None")
 row("wp.bootstrap_area(X)", "option", "keep='a'", lambda: wp.bootstrap_area(loop(3), keep="a"),
     TypeError, "keep must be True or False")
 row("wp.bootstrap_area(X)", "option", "n_boot=1", lambda: wp.bootstrap_area(loop(3), n_boot=1),
@@ -849,8 +870,8 @@ array_rows(DL, lambda X: wp.decorrelation_lag(X), 3, ndim=(ValueError, "must be 
 NB = "wp.noise_fit_baseline(n)"
 row(NB, "option", "n=1", lambda: wp.noise_fit_baseline(1), ValueError, "at least 2 channels")
 row(NB, "option", "n=4.5", lambda: wp.noise_fit_baseline(4.5), TypeError, "n must be an integer")
-row(NB, "option", "draws=0", lambda: wp.noise_fit_baseline(5, draws=0), ValueError,
-    "draws must be at least 1")
+row(NB, "option", "n_draws=0", lambda: wp.noise_fit_baseline(5, n_draws=0), ValueError,
+    "n_draws must be at least 1")
 
 BH = "wp.benjamini_hochberg(pvalues)"
 row(BH, "option", "a p-value of 2", lambda: wp.benjamini_hochberg([0.5, 2]), ValueError,
@@ -1323,8 +1344,9 @@ if wdask is not None:
     row(DA, "option", "split_every=1",
         lambda: wdask.area_matrix(loop(2), split_every=1, scheduler="sync"), ValueError,
         "split_every must be >= 2")
-    row(DA, "option", "labels='yes'", lambda: wdask.area_matrix(loop(2), labels="yes"), TypeError,
-        "labels must be True or False")
+    row(DA, "text", "names='ab' (one string)",
+        lambda: wdask.area_matrix(loop(2), names="ab"), TypeError,
+        "names must be a sequence of strings")
     row(DA, "length", "1 name for 2 channels",
         lambda: wdask.area_matrix(loop(2), names=["a"], scheduler="sync"), ValueError,
         "names has 1 entries")

@@ -34,7 +34,7 @@ class TestLeadLagReport:
         X, names = ring()
         r = report.leadlag(X, names=names, window=200, n_surrogates=19, n_boot=19, seed=2,
                            progress=False)
-        A = wp.area_matrix(X, names=names, labels=True)
+        A = wp.area_matrix(X, names=names)
         assert isinstance(r.areas, wp.AreaMatrix) and r.areas.names == tuple(names)
         np.testing.assert_array_equal(np.asarray(r.areas), np.asarray(A))
         co = wp.cyclic_order(np.asarray(A))
@@ -114,9 +114,9 @@ class TestLoopReport:
         xy = np.column_stack([np.cos(t), np.sin(t + 0.3)])
         r = report.loop(xy, names=["x", "y"], progress=False)
         c = wp.cycle_areas(xy, 1, 0, reference=0)              # ∮ y dx = A[1, 0]
-        np.testing.assert_allclose(r.cycle_stats()[0], c.areas)
+        np.testing.assert_allclose(r.cycle_stats()[0], c.values)
         assert r.quantity == "∮ y d(x)"
-        assert r.cycle_stats()[3] == pytest.approx(np.std(c.areas[np.isfinite(c.areas)],
+        assert r.cycle_stats()[3] == pytest.approx(np.std(c.values[np.isfinite(c.values)],
                                                           ddof=1))
         d = r.to_dict()
         assert d["schema"] == "wedgepath.loop/3" and d["cycles"]["ddof"] == 1
@@ -149,7 +149,7 @@ class TestRowNumbersCountFromOne:
         xy = np.column_stack([np.cos(t), np.sin(t)])
         lr = report.loop(xy)
         c = wp.cycle_areas(xy, 1, 0, reference=0)
-        np.testing.assert_allclose(lr.to_frame()["start"], c.starts + 1)
+        np.testing.assert_allclose(lr.to_frame()["start"], c.start + 1)
         assert lr.to_dict()["cycles"]["bounds"] == "row"
 
 
@@ -204,13 +204,13 @@ class TestSummaryText:
     def test_decomposition_wording(self):
         d = wp.decompose([[0, 0], [2, 2], [2, 0], [0, 2]])
         assert d.summary().splitlines()[-1] == \
-            "NOTE: lobes of opposite sign cancel 100.0% of the absolute area"
+            "NOTE: lobes of opposite sign: 100.0% of the absolute area cancels out in the net signed area"
         # a big loop with a tiny opposite lobe: nothing worth calling cancellation
         big = [[0, 0], [10, 0], [10, 10], [0, 10], [0.02, -0.02], [-0.02, -0.02]]
         d = wp.decompose(big)
         assert d.mixed_signs and d.cancellation < 1e-4
         last = d.summary().splitlines()[-1]
-        assert "cancel only" in last and "100.0%" not in last
+        assert "too small to matter" in last and "100.0%" not in last
 
 
 # =========================================================================== figures

@@ -189,14 +189,14 @@ class TestExactCases:
     @given(st.integers(2, 60), st.integers(2, 4), st.integers(0, 10 ** 6))
     def test_skew_and_translation_invariant(self, T, n, seed):
         X = random_walk(T, n, seed)
-        A = wp.area_matrix(X)
+        A = wp.area_matrix(X).values
         assert np.array_equal(A, -A.T)
         shift = np.random.default_rng(seed).uniform(-50, 50, size=n)
         assert close(wp.area_matrix(X + shift), A, 1e-9) or np.max(np.abs(A)) < 1e-9
 
     def test_reversal_flips_sign(self):
         X = random_walk(100, 3, seed=2)
-        assert close(wp.area_matrix(X[::-1]), -wp.area_matrix(X), 1e-12)
+        assert close(wp.area_matrix(X[::-1]), -wp.area_matrix(X).values, 1e-12)
 
 
 # --------------------------------------------------------------------------- closures and gaps
@@ -318,9 +318,9 @@ class TestNormalisation:
         for norm in ("hilbert", "zscore"):
             assert close(wp.area_matrix(X * scale, normalize=norm), wp.area_matrix(X, normalize=norm),
                          1e-10)
-        F = wp.area_matrix(X, normalize="frobenius")
+        F = wp.area_matrix(X, normalize="frobenius").values
         assert np.sqrt(np.sum(F * F)) == pytest.approx(1.0, rel=1e-12)
-        raw = wp.area_matrix(X)
+        raw = wp.area_matrix(X).values
         assert close(F * np.sqrt(np.sum(raw * raw)), raw, 1e-12)
 
     @pytest.mark.parametrize("norm", ["hilbert", "zscore"])
@@ -346,20 +346,23 @@ class TestNormalisation:
 class TestInputs:
     def test_dataframe_names_and_labels(self):
         df = pd.DataFrame(random_walk(40, 3, seed=1), columns=["x", "y", "z"])
-        m = wp.area_matrix(df, labels=True)
-        assert m.names == ("x", "y", "z")
-        assert m["x", "z"] == pytest.approx(oracle_area(df.to_numpy())[0, 2], rel=1e-12)
-        fr = m.to_frame()
-        assert list(fr.columns) == ["x", "y", "z"]
-        assert np.array_equal(np.asarray(m), m.values)
-        plain = wp.area_matrix(df)
-        assert isinstance(plain, np.ndarray) and plain.shape == (3, 3)
+        m = wp.area_matrix(df)
+        assert isinstance(m, wp.AreaMatrix) and m.names == ("x", "y", "z")
+        ref = oracle_area(df.to_numpy())
+        assert m["x", "z"] == pytest.approx(ref[0, 2], rel=1e-12)
+        fr = m.to_frame()                    # tidy: one row per pair i < j
+        assert list(fr.columns) == ["i", "j", "channel_i", "channel_j", "area"]
+        assert fr[["channel_i", "channel_j"]].values.tolist() == [["x", "y"], ["x", "z"],
+                                                                  ["y", "z"]]
+        assert np.allclose(fr["area"], ref[[0, 0, 1], [1, 2, 2]], rtol=1e-12)
+        assert np.array_equal(np.asarray(m), m.values) and m.shape == (3, 3)
+        assert m.samples == 40 and m.closure == "chord" and m.normalize is None
 
     def test_path_input_uses_times_and_names(self):
         X = random_walk(30, 2, seed=2)
         t = np.cumsum(np.random.default_rng(2).uniform(0.5, 1.5, 30))
         p = wp.Path(X, times=t, names=["u", "v"])
-        m = wp.area_matrix(p, closure="detrend", labels=True)
+        m = wp.area_matrix(p, closure="detrend")
         assert m.names == ("u", "v")
         assert close(m.values, integrate_area(X, "detrend", times=t), 1e-11)
 
@@ -371,7 +374,7 @@ class TestInputs:
         assert close(wp.area_matrix(Xf), oracle_area(Xf.astype(float)), 1e-13)
 
     def test_mapping_input(self):
-        m = wp.area_matrix({"p": [0.0, 1, 1, 0], "q": [0.0, 0, 1, 1]}, labels=True)
+        m = wp.area_matrix({"p": [0.0, 1, 1, 0], "q": [0.0, 0, 1, 1]})
         assert m["p", "q"] == 1.0 and m.names == ("p", "q")
 
     def test_inputs_never_modified(self):
@@ -436,7 +439,7 @@ class TestAlignment:
         ta = np.sort(rng.uniform(0, 6 * np.pi, 4000))
         tb = np.sort(rng.uniform(0, 6 * np.pi, 3000))
         m = wp.area_matrix({"i": pd.Series(np.sin(ta), index=ta),
-                            "j": pd.Series(np.sin(tb - phi), index=tb)}, labels=True)
+                            "j": pd.Series(np.sin(tb - phi), index=tb)})
         span = min(ta[-1], tb[-1]) - max(ta[0], tb[0])
         assert m["i", "j"] / (span / (2 * np.pi)) == pytest.approx(np.pi * np.sin(phi), rel=2e-3)
 
@@ -523,5 +526,7 @@ class TestBadInput:
             wp.area_matrix(X, times=[0, 1, 2])
         with pytest.raises(ValueError, match="strictly increasing"):
             wp.area_matrix(X, times=np.r_[0:9, 8.0])
-        with pytest.raises(TypeError, match="labels"):
-            wp.area_matrix(X, labels="yes")
+        with pytest.raises(TypeError, match="unexpected keyword argument 'labels'"):
+            wp.area_matrix(X, labels=True)          # gone: the result always has its labels
+        with pytest.raises(TypeError, match="positional argument"):
+            wp.area_matrix(X, np.arange(10.0))      # times= is keyword-only

@@ -8,6 +8,7 @@ a closed form derived in the comment, or an independent library routine
 from __future__ import annotations
 
 import io
+import sys
 
 import numpy as np
 import pandas as pd
@@ -15,7 +16,7 @@ import pytest
 from scipy import stats
 
 import wedgepath as wp
-from wedgepath._progress import Progress
+from wedgepath import _bars
 
 
 def same_cycle(a, b):
@@ -92,8 +93,18 @@ class TestCyclicOrder:
     def test_two_channels_and_names(self):
         t = np.arange(200) * 2 * np.pi / 50
         df = pd.DataFrame({"late": np.sin(t - 0.4), "early": np.sin(t)})
-        res = wp.cyclic_order(wp.area_matrix(df, labels=True), start="early")
-        assert res.ordered_names == ["early", "late"]
+        res = wp.cyclic_order(wp.area_matrix(df), start="early")
+        assert res.ordered_names == ("early", "late")
+        assert res.names == ("late", "early") and res.closure == "chord"
+        fr = res.to_frame()                 # one row per channel, in cycle order
+        assert list(fr.columns) == ["rank", "channel", "position_rad", "modulus"]
+        assert fr["channel"].tolist() == ["early", "late"] and fr["rank"].tolist() == [0, 1]
+        assert fr["position_rad"].tolist() == [0.0, pytest.approx(np.pi / 2)]
+        # a plain matrix gets the names "0", "1", ... (or the ones given)
+        plain = wp.cyclic_order(wp.area_matrix(df).values)
+        assert plain.names == ("0", "1") and plain.closure is None
+        named = wp.cyclic_order(wp.area_matrix(df).values, names=["L", "E"], start="E")
+        assert named.ordered_names == ("E", "L")
         assert res.fit == 1.0
         assert res.positions[0] == pytest.approx(np.pi / 2)   # two channels: always a quarter cycle
 
@@ -250,8 +261,8 @@ class TestLargeN:
             wp.noise_fit_baseline(1)
         with pytest.raises(TypeError, match="integer"):
             wp.noise_fit_baseline(4.5)
-        with pytest.raises(ValueError, match="draws"):
-            wp.noise_fit_baseline(5, draws=0)
+        with pytest.raises(ValueError, match="n_draws"):
+            wp.noise_fit_baseline(5, n_draws=0)
 
     def test_noise_baseline_memory_is_bounded(self):
         # 1500 channels: the baseline used to allocate (200, 1500, 1500) complex
@@ -335,7 +346,8 @@ class TestSurrogates:
     def test_progress_indicator(self, capsys):
         X = np.random.default_rng(0).standard_normal((50, 2))
         wp.surrogate_test(X, n_surrogates=5, seed=0, progress=True)
-        assert "surrogates: 5/5" in capsys.readouterr().err
+        err = capsys.readouterr().err
+        assert "surrogates" in err and "5/5" in err
         wp.surrogate_test(X, n_surrogates=5, seed=0, progress=False)
         wp.surrogate_test(X, n_surrogates=5, seed=0)          # short run: silent
         assert capsys.readouterr().err == ""
@@ -491,8 +503,8 @@ class TestBootstrap:
             wp.bootstrap_area(X, block="long")
         with pytest.raises(ValueError, match="at least 8 samples"):
             wp.bootstrap_area(X[:7])
-        with pytest.raises(ValueError, match="level"):
-            wp.bootstrap_area(X, level=1.5)
+        with pytest.raises(ValueError, match="confidence must lie strictly between 0 and 1"):
+            wp.bootstrap_area(X, confidence=1.5)
         with pytest.raises(ValueError, match="n_boot"):
             wp.bootstrap_area(X, n_boot=1)
 
@@ -555,7 +567,7 @@ class TestCycleAreas:
         res = wp.cycle_areas(X, 0, 1, reference=1)
         exact = (N / 2) * np.sin(2 * np.pi / N) * a * b * np.sin(phi)
         assert res.count >= 5
-        assert np.allclose(res.areas, exact, rtol=1e-12)
+        assert np.allclose(res.values, exact, rtol=1e-12)
         assert res.mean == pytest.approx(exact, rel=1e-12)
         assert res.std < 1e-10 * exact
 
@@ -565,8 +577,11 @@ class TestCycleAreas:
         X = np.column_stack([np.cos(t), np.sin(t)])
         res = wp.cycle_areas(X, 0, 1, boundaries=[0, N, 2 * N, 3.5 * N])
         exact = (N / 2) * np.sin(2 * np.pi / N)        # unit circle, phi = pi/2
-        assert np.allclose(res.areas[:2], exact, rtol=1e-12)
-        assert res.starts.tolist() == [0, N, 2 * N] and res.stops.tolist() == [N, 2 * N, 3.5 * N]
+        assert np.allclose(res.values[:2], exact, rtol=1e-12)
+        assert res.start.tolist() == [0, N, 2 * N] and res.stop.tolist() == [N, 2 * N, 3.5 * N]
+        # without times the boundaries "in time" are the sample positions
+        assert res.start_time.tolist() == res.start.tolist()
+        assert res.reference is None and res.level is None
 
     def test_hysteresis_energy_kelvin_voigt(self):
         # Kelvin-Voigt solid: stress = E strain + eta d(strain)/dt.  For
@@ -580,14 +595,20 @@ class TestCycleAreas:
         stress = E * strain + eta * e0 * w * np.cos(w * t)
         df = pd.DataFrame({"strain": strain, "stress": stress})
         res = wp.cycle_areas(df, "stress", "strain", reference="strain", times=t)
-        assert res.pair == ("stress", "strain")
+        assert res.names == ("stress", "strain") and res.quantity == "∮ stress d(strain)"
+        assert res.reference == "strain" and res.level == pytest.approx(strain.mean())
         # strain crosses zero upwards at w t = 2 pi m, m = 1..10 within the
         # record (it starts just after m = 0): 10 crossings, 9 whole loops
         assert res.count == 9
         assert res.mean == pytest.approx((N / 2) * np.sin(2 * np.pi / N) * e0 ** 2 * eta * w,
                                          rel=1e-10)
         assert res.mean == pytest.approx(np.pi * eta * w * e0 ** 2, rel=1e-4)
-        assert np.allclose(np.diff(res.start_times), 2 * np.pi / w)
+        assert np.allclose(np.diff(res.start_time), 2 * np.pi / w)
+        fr = res.to_frame()                  # one row per cycle
+        assert list(fr.columns) == ["cycle", "start", "stop", "start_time", "stop_time", "value",
+                                    "complete"]
+        assert len(fr) == len(res) and fr["value"].tolist() == res.values.tolist()
+        assert fr["complete"].all()
 
     def test_hysteresis_band_ignores_noise(self):
         rng = np.random.default_rng(4)
@@ -608,8 +629,9 @@ class TestCycleAreas:
         X = np.column_stack([np.sin(t), np.cos(t)])
         X[45] = np.nan
         res = wp.cycle_areas(X, 0, 1)
-        assert np.isnan(res.areas).sum() == 1
+        assert np.isnan(res.values).sum() == 1
         assert res.count == len(res) - 1 and np.isfinite(res.mean)
+        assert res.complete.tolist() == (~np.isnan(res.values)).tolist()
 
     def test_errors(self):
         X = np.column_stack([np.sin(np.arange(50.0)), np.cos(np.arange(50.0))])
@@ -630,30 +652,59 @@ class TestCycleAreas:
 
 
 # --------------------------------------------------------------------------- progress
-class TestProgress:
-    def test_modes(self, monkeypatch):
-        out = io.StringIO()
-        with Progress(4, "work", enabled=True, interval=0, stream=out) as bar:
-            for _ in range(4):
-                bar.update()
-        text = out.getvalue()
-        assert "work: 4/4 (100%)" in text and text.endswith("\n")
-        quiet = io.StringIO()
-        with Progress(4, "work", enabled=None, delay=3600, stream=quiet) as bar:
-            bar.update(4)
-        assert quiet.getvalue() == ""                    # short run: nothing shown
-        auto = io.StringIO()
-        with Progress(4, "work", enabled=None, delay=0, interval=0, stream=auto) as bar:
-            bar.update(2)
-        assert "work: 2/4" in auto.getvalue()
-        monkeypatch.setenv("WEDGEPATH_PROGRESS", "0")
-        env = io.StringIO()
-        with Progress(4, "work", enabled=None, delay=0, stream=env) as bar:
-            bar.update(4)
-        assert env.getvalue() == ""
+class _Terminal(io.StringIO):
+    """A text stream that says it is a terminal (tqdm's ``disable=None`` looks at isatty)."""
 
-    def test_bad_arguments(self):
-        with pytest.raises(ValueError, match="positive integer"):
-            Progress(0)
-        with pytest.raises(TypeError, match="enabled"):
-            Progress(3, enabled="yes")
+    def isatty(self):
+        return True
+
+
+class TestProgress:
+    """progress= means one thing everywhere: True, False, None (automatic), tqdm underneath."""
+
+    def _run(self, monkeypatch, stream, progress, steps=4):
+        monkeypatch.setattr(sys, "stderr", stream)
+        with _bars.progress_bar(steps, "work", progress) as bar:
+            for _ in range(steps):
+                bar.update()
+        return stream.getvalue()
+
+    def test_modes(self, monkeypatch):
+        monkeypatch.delenv("WEDGEPATH_PROGRESS", raising=False)
+        text = self._run(monkeypatch, io.StringIO(), True)
+        assert "work" in text and "4/4" in text and text.endswith("\n")
+        assert self._run(monkeypatch, _Terminal(), False) == ""
+        # automatic: not on a pipe or file, and on a terminal not before the delay
+        assert self._run(monkeypatch, io.StringIO(), None) == ""
+        assert self._run(monkeypatch, _Terminal(), None) == ""
+        monkeypatch.setattr(_bars, "DELAY", 0.0)
+        assert "4/4" in self._run(monkeypatch, _Terminal(), None)
+        monkeypatch.setenv("WEDGEPATH_PROGRESS", "0")
+        assert self._run(monkeypatch, _Terminal(), None) == ""
+        assert "4/4" in self._run(monkeypatch, io.StringIO(), True)   # asked for: shown
+
+    def test_stages(self, monkeypatch):
+        out = io.StringIO()
+        monkeypatch.setattr(sys, "stderr", out)
+        with _bars.Stages("loop", ["faces", "cycles"], enabled=True) as st:
+            st.start("faces")
+            st.start("cycles")
+        parts = [p.split(" (")[0] for p in out.getvalue().split("\r") if p.strip()]
+        assert parts[:2] == ["loop: faces", "loop: cycles"]
+        assert parts[-1].startswith("loop: done in")
+        quiet = io.StringIO()
+        monkeypatch.setattr(sys, "stderr", quiet)
+        with _bars.Stages("loop", ["faces"], enabled=False) as st:
+            st.start("faces")
+        assert quiet.getvalue() == ""
+
+    @pytest.mark.parametrize("bad", ["yes", 1, 0, print])
+    def test_bad_arguments(self, bad):
+        with pytest.raises(TypeError, match="progress must be True, False or None"):
+            _bars.progress_bar(3, "work", bad)
+        X = np.random.default_rng(0).standard_normal((40, 2))
+        for call in (lambda: wp.surrogate_test(X, n_surrogates=5, progress=bad),
+                     lambda: wp.bootstrap_area(X, n_boot=5, progress=bad),
+                     lambda: wp.decompose([[0, 0], [1, 0], [1, 1]], progress=bad)):
+            with pytest.raises(TypeError, match="progress must be True, False or None"):
+                call()

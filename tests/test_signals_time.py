@@ -147,14 +147,26 @@ class TestRolling:
     def test_labels_and_times(self):
         X = pd.DataFrame(walk(100, 2, seed=6), columns=["a", "b"])
         t = 10.0 + 0.5 * np.arange(100)
-        r = wp.rolling_area_matrix(X, 20, 10, times=t, labels=True)
-        assert len(r) == 9 and r.shape == (9, 2, 2)
-        assert r.start_index.tolist() == list(range(0, 81, 10))
-        assert r.stop_index.tolist() == list(range(20, 101, 10))
-        assert r.start_time[2] == 20.0 and r.end_time[2] == 10.0 + 0.5 * 39
+        r = wp.rolling_area_matrix(X, 20, 10, times=t)
+        assert isinstance(r, wp.RollingAreas) and r.names == ("a", "b")
+        assert len(r) == 9 and r.shape == (9, 2, 2) and (r.window, r.step) == (20, 10)
+        assert r.start.tolist() == list(range(0, 81, 10))
+        assert r.stop.tolist() == list(range(20, 101, 10))
+        assert r.start_time[2] == 20.0 and r.stop_time[2] == 10.0 + 0.5 * 39
         assert np.array_equal(r.pair("a", "b"), r.areas[:, 0, 1])
+        assert np.array_equal(np.asarray(r), r.areas)
+        # tidy: one row per window and pair, each equal to the area of that window's slice
+        fr = r.to_frame()
+        assert list(fr.columns) == ["window", "start", "stop", "start_time", "stop_time", "i",
+                                    "j", "channel_i", "channel_j", "area"]
+        assert len(fr) == 9 and fr["window"].tolist() == list(range(9))
+        for k in (0, 4, 8):
+            ref = wp.area_matrix(X.iloc[10 * k:10 * k + 20])
+            assert fr["area"][k] == pytest.approx(ref["a", "b"], rel=1e-12)
+        # without times, the windows' times are their sample positions
         plain = wp.rolling_area_matrix(X, 20, 10)
-        assert isinstance(plain, np.ndarray) and np.array_equal(plain, r.areas)
+        assert plain.start_time.tolist() == list(range(0, 81, 10))
+        assert plain.stop_time.tolist() == list(range(19, 100, 10))
 
     def test_input_not_modified(self):
         X = walk(100, 3, seed=7)
@@ -249,8 +261,11 @@ class TestAccumulator:
 
     def test_labels(self):
         acc = wp.AreaAccumulator(2, names=["strain", "stress"]).update([[0, 0], [1, 0], [1, 1]])
-        m = acc.result(labels=True)
+        m = acc.result()
+        assert isinstance(m, wp.AreaMatrix) and m.samples == 3
         assert m.names == ("strain", "stress") and m["strain", "stress"] == 0.5
+        # without names: "0", "1", ... (always a tuple of str)
+        assert wp.AreaAccumulator(2).update([[0, 0], [1, 0], [1, 1]]).result().names == ("0", "1")
 
     def test_memory_stays_flat(self):
         # state size does not depend on the number of samples fed

@@ -97,7 +97,7 @@ class TestInterop:
         s = wp.SimplicialChain.from_chain(wp.Chain([(p, 2), (q, -1)]))
         assert len(s) == 1 + 2 + 1
         assert s.coefficients.tolist() == [2, 2, 2, -1]
-        w = wp.OneForm([lambda c: c[:, 1] ** 2, lambda c: c[:, 0] * c[:, 1]], degree=2)
+        w = wp.OneForm([lambda c: c[:, 1] ** 2, lambda c: c[:, 0] * c[:, 1]], poly_degree=2)
         a = wp.integrate(w, s)
         b = wp.integrate(w, wp.Chain([(p, 2), (q, -1)]))
         assert float(a) == pytest.approx(float(b), rel=1e-13)
@@ -121,7 +121,7 @@ class TestInterop:
 
     def test_integrate_works_on_each_representation(self):
         X = np.array([[0.0, 0.0], [3.0, 0.0], [3.0, 2.0], [1.0, 3.0]])
-        w = 0.5 * (wp.OneForm([lambda c: -c[:, 1], lambda c: c[:, 0]], degree=1))
+        w = 0.5 * (wp.OneForm([lambda c: -c[:, 1], lambda c: c[:, 0]], poly_degree=1))
         # shoelace formula (common practice, no source): 1/2 sum (x_k y_{k+1} - x_{k+1} y_k)
         x, y = X[:, 0], X[:, 1]
         exact = 0.5 * float(np.sum(x * np.roll(y, -1) - np.roll(x, -1) * y))

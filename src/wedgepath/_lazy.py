@@ -1,35 +1,20 @@
-"""Heavy modules loaded on first use, so that ``import wedgepath`` stays light.
+"""Type tests for heavy modules that must not be imported to answer them.
 
 sympy (about 50 MB and half a second to import) is needed only for symbolic
 coefficients and oracles; a streamed lead-lag table from the command line never
-touches it.  ``sympy`` here is a stand-in whose attributes import the real
-module; :func:`is_sympy` answers ``isinstance(obj, sympy.<cls>)`` without
-importing anything, since no object can be a sympy object unless sympy is
-already loaded.
+touches it.  Modules that use sympy import it inside the functions that need it
+(plain function-level imports; ``wedgepath.symbolic`` and ``wedgepath.formula``
+load on first use through the package's module ``__getattr__``).
+
+:func:`is_sympy` answers ``isinstance(obj, sympy.<cls>)`` without importing
+anything, since no object can be a sympy object unless sympy is already loaded.
 """
 
 from __future__ import annotations
 
-import importlib
 import sys
 
-
-class LazyModule:
-    """A module imported when one of its attributes is first read."""
-
-    __slots__ = ("_name",)
-
-    def __init__(self, name):
-        object.__setattr__(self, "_name", name)
-
-    def __getattr__(self, attr):
-        return getattr(importlib.import_module(self._name), attr)
-
-    def __repr__(self):
-        return f"<module {self._name!r}, imported on first use>"
-
-
-sympy = LazyModule("sympy")
+__all__ = ["is_sympy"]
 
 
 def is_sympy(obj, cls="Basic"):

@@ -352,7 +352,7 @@ def _cmd_leadlag(args):
         _check_units(args, list(rep.names) + ([args.time] if args.time else []))
         return _emit(args, rep, plan, figures)
     tab = _load(args, args.columns)
-    _check_units(args, tab.names + ([args.time] if args.time else []))
+    _check_units(args, list(tab.names) + ([args.time] if args.time else []))
     _check_complete_rows(args.table, tab.values, tab.names)
     rep = report.leadlag(tab, closure=args.closure, normalize=args.normalize,
                          window=args.window, step=args.step, n_surrogates=args.surrogates,
@@ -378,7 +378,7 @@ def _cmd_loop(args):
     plan = _plan(args, report.loop_files(figures), "loop")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
     tab = _load(args, cols + ([extra] if extra else []))
-    _check_units(args, tab.names + ([args.time] if args.time else []))
+    _check_units(args, list(tab.names) + ([args.time] if args.time else []))
     _check_complete_rows(args.table, tab.values[:, :2], cols)
     rep = report.loop(tab, x=args.x, y=args.y, closure=args.closure, cycles_by=args.cycles_by,
                       level=args.level, hysteresis=args.hysteresis, energy=args.energy,

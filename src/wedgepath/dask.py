@@ -41,7 +41,7 @@ Examples
 >>> X = np.random.default_rng(1).standard_normal((10_000, 4)).cumsum(axis=0)
 >>> Xd = da.from_array(X, chunks=(1_000, 4))          # 10 chunks along time
 >>> A = wdask.area_matrix(Xd, scheduler="sync")
->>> bool(np.allclose(A, wp.area_matrix(X), rtol=0, atol=1e-10 * abs(A).max()))
+>>> bool(np.allclose(A, wp.area_matrix(X), rtol=0, atol=1e-10 * abs(A.values).max()))
 True
 """
 
@@ -215,8 +215,8 @@ def _final_area(st, recording):
     return np.array(st["area"], dtype=np.float64)
 
 
-def _assemble(labels_r, *lists, pooled=False):
-    """Per-recording (R, n, n) array, or the pooled (n, n) sum, from the final states."""
+def _assemble(labels_r, *lists, pooled=False, names=None):
+    """One AreaMatrix per recording (a list), or the pooled one, from the final states."""
     states = [s for lst in lists for s in lst]
     mats = [_final_area(s, r) for s, r in zip(states, labels_r)]
     widths = {m.shape[0] for m in mats}
@@ -225,13 +225,20 @@ def _assemble(labels_r, *lists, pooled=False):
         r = next(r for m, r in zip(mats, labels_r) if m.shape[0] != first)
         raise ChunkError(f"recording {r} has {dict(zip(labels_r, mats))[r].shape[0]} channels, "
                          f"recording {labels_r[0]} has {first}")
+    nm = _names_for(names, mats[0].shape[0])
+    counts = [int(st["count"]) for st in states]
     if pooled:
-        return np.sum(mats, axis=0) if len(mats) > 1 else mats[0]
-    return np.stack(mats)
+        A = np.sum(mats, axis=0) if len(mats) > 1 else mats[0]
+        return AreaMatrix(values=A, names=nm, closure="chord", samples=sum(counts))
+    return [AreaMatrix(values=m, names=nm, closure="chord", samples=c)
+            for m, c in zip(mats, counts)]
 
 
-def _final_single(lst):
-    return _final_area(lst[0], None)
+def _final_single(lst, names):
+    st = lst[0]
+    A = _final_area(st, None)
+    return AreaMatrix(values=A, names=_names_for(names, A.shape[0]), closure="chord",
+                      samples=int(st["count"]))
 
 
 # --------------------------------------------------------------------------- checks
@@ -367,8 +374,8 @@ def _names_for(names, n):
 
 
 # --------------------------------------------------------------------------- public
-def area_matrix(X, *, closure="chord", names=None, labels=False, split_every=8,
-                skip_empty=False, chunk_rows=None, scheduler=None, compute=True):
+def area_matrix(X, *, closure="chord", names=None, split_every=8, skip_empty=False,
+                chunk_rows=None, scheduler=None, compute=True):
     """Area matrix of a (T, n) Dask array chunked along time, by a tree of chunk merges.
 
     ``A[i, j] = (1/2)∮(x_i dx_j - x_j dx_i)``, chord closure: the same
@@ -387,9 +394,7 @@ def area_matrix(X, *, closure="chord", names=None, labels=False, split_every=8,
         Only the chord closure is available (the others need the whole
         piece at once).
     names : sequence of str, optional
-        Channel names (for ``labels=True``).
-    labels : bool
-        Return an :class:`~wedgepath.AreaMatrix` instead of an ndarray.
+        Channel names (default ``"0", "1", ...``).
     split_every : int
         Chunk states merged per task of the reduction tree (>= 2).
     skip_empty : bool
@@ -406,7 +411,9 @@ def area_matrix(X, *, closure="chord", names=None, labels=False, split_every=8,
 
     Returns
     -------
-    ndarray (n, n), AreaMatrix, or Delayed
+    AreaMatrix, or Delayed
+        The :class:`~wedgepath.AreaMatrix` (``.values`` the (n, n) array,
+        ``.samples`` the rows), or a delayed object that computes it.
 
     Raises
     ------
@@ -437,26 +444,23 @@ def area_matrix(X, *, closure="chord", names=None, labels=False, split_every=8,
     """
     _dask()
     _check_closure(closure)
-    _check_bool(labels, "labels")
     _check_bool(skip_empty, "skip_empty")
     _check_bool(compute, "compute")
     split_every = _check_split_every(split_every)
     X = _as_dask_array(X, "X", chunk_rows, 2)
     n = int(X.shape[1])
-    nm = _names_for(names, n) if (labels or names is not None) else None
+    nm = _names_for(names, n)
     from dask import delayed
 
     (states,) = _array_states(X, split_every, skip_empty)
-    A = delayed(_final_single, pure=True)(states)
-    if labels:
-        A = delayed(AreaMatrix, pure=True)(A, nm, "chord", None)
+    A = delayed(_final_single, pure=True)(states, nm)
     if not compute:
         return A
     return _compute(A, scheduler)
 
 
-def area_matrices(recordings, *, pooled=False, names=None, labels=False, split_every=8,
-                  skip_empty=False, chunk_rows=None, scheduler=None, compute=True):
+def area_matrices(recordings, *, pooled=False, names=None, split_every=8, skip_empty=False,
+                  chunk_rows=None, scheduler=None, compute=True):
     """Area matrices of many recordings at once: one per recording, or pooled.
 
     Each recording is closed on its own (chord closure; NaN rows inside a
@@ -474,14 +478,15 @@ def area_matrices(recordings, *, pooled=False, names=None, labels=False, split_e
         equal length; it may be chunked along recordings and time, not
         along channels.
     pooled : bool
-        Return the single pooled (n, n) matrix instead of (R, n, n).
-    names, labels, split_every, skip_empty, chunk_rows, scheduler, compute
-        As in :func:`area_matrix`.  With ``labels=True`` the result is a list
-        of :class:`~wedgepath.AreaMatrix` (one AreaMatrix when pooled).
+        Return the single pooled matrix instead of one per recording.
+    names, split_every, skip_empty, chunk_rows, scheduler, compute
+        As in :func:`area_matrix`.
 
     Returns
     -------
-    ndarray (R, n, n) or (n, n); list of AreaMatrix or AreaMatrix; or Delayed
+    list of AreaMatrix, AreaMatrix (pooled), or Delayed
+        One :class:`~wedgepath.AreaMatrix` per recording, in order
+        (``np.stack(result)`` is the (R, n, n) array), or the pooled one.
 
     Raises
     ------
@@ -499,19 +504,18 @@ def area_matrices(recordings, *, pooled=False, names=None, labels=False, split_e
     >>> recs = [rng.standard_normal((T, 3)).cumsum(axis=0) for T in (500, 800, 300)]
     >>> lazy = [dask.delayed(r.copy)() for r in recs]        # stands in for file loaders
     >>> A = wdask.area_matrices(lazy, scheduler="sync")
-    >>> A.shape
-    (3, 3, 3)
+    >>> len(A), A[1].samples
+    (3, 800)
     >>> bool(np.allclose(A[1], wp.area_matrix(recs[1]), rtol=1e-12, atol=1e-12))
     True
     >>> P = wdask.area_matrices(lazy, pooled=True, scheduler="sync")
-    >>> bool(np.allclose(P, A.sum(axis=0), rtol=1e-12, atol=1e-12))
+    >>> bool(np.allclose(P, np.sum(A, axis=0), rtol=1e-12, atol=1e-12))
     True
     """
     _dask()
     from dask import delayed
 
     _check_bool(pooled, "pooled")
-    _check_bool(labels, "labels")
     _check_bool(skip_empty, "skip_empty")
     _check_bool(compute, "compute")
     split_every = _check_split_every(split_every)
@@ -550,11 +554,9 @@ def area_matrices(recordings, *, pooled=False, names=None, labels=False, split_e
                 lists.append(_array_states_recording(Xr, r, split_every, skip_empty))
             rec_ids.append(r)
 
-    result = delayed(_assemble, pure=True)(rec_ids, *lists, pooled=pooled)
-    if labels:
-        result = delayed(_label_result, pure=True)(result, names, pooled)
-    elif names is not None and n_known is not None:
-        _names_for(names, n_known)
+    if names is not None and n_known is not None:
+        _names_for(names, n_known)                  # refused at once, before any work
+    result = delayed(_assemble, pure=True)(rec_ids, *lists, pooled=pooled, names=names)
     if not compute:
         return result
     return _compute(result, scheduler)
@@ -577,16 +579,8 @@ def _array_states_recording(X, r, split_every, skip_empty):
     return _tree(col, split_every)
 
 
-def _label_result(result, names, pooled):
-    n = result.shape[-1]
-    nm = _names_for(names, n)
-    if pooled:
-        return AreaMatrix(result, nm, "chord", None)
-    return [AreaMatrix(m, nm, "chord", None) for m in result]
-
-
 def file_area_matrices(paths, *, pooled=False, columns=None, time_column=None, delimiter=None,
-                       chunk_rows=100_000, labels=False, scheduler=None, compute=True):
+                       chunk_rows=100_000, scheduler=None, compute=True):
     """Area matrices of many table files, each streamed in chunks by one task.
 
     Every file is read by :func:`wedgepath.io.stream_area_matrix` on a
@@ -599,15 +593,17 @@ def file_area_matrices(paths, *, pooled=False, columns=None, time_column=None, d
     paths : sequence of str or path-like
         CSV, TSV or Parquet files with a header row (see :mod:`wedgepath.io`).
     pooled : bool
-        Return the pooled (n, n) matrix (the sum; each file closed on its
-        own) instead of (R, n, n).  The files must name the same channels.
+        Return the pooled matrix (the sum; each file closed on its own)
+        instead of one per file.  The files must name the same channels.
     columns, time_column, delimiter, chunk_rows
         As in :func:`wedgepath.io.stream_area_matrix`.
-    labels : bool
-        Return AreaMatrix objects (a list, or one when pooled) with the
-        channel names read from the files.
     scheduler, compute
         As in :func:`area_matrix`.
+
+    Returns
+    -------
+    list of AreaMatrix, AreaMatrix (pooled), or Delayed
+        Labelled with the channel names read from the files.
 
     Raises
     ------
@@ -624,7 +620,7 @@ def file_area_matrices(paths, *, pooled=False, columns=None, time_column=None, d
     ...     with open(os.path.join(folder, f"rec{k}.csv"), "w") as fh:
     ...         _ = fh.write("a,b\\n0,0\\n1,0\\n1,1\\n0,1\\n")
     >>> files = sorted(os.path.join(folder, f) for f in os.listdir(folder))
-    >>> wdask.file_area_matrices(files, pooled=True, scheduler="sync")
+    >>> wdask.file_area_matrices(files, pooled=True, scheduler="sync").values
     array([[ 0.,  3.],
            [-3.,  0.]])
     """
@@ -632,7 +628,6 @@ def file_area_matrices(paths, *, pooled=False, columns=None, time_column=None, d
     from dask import delayed
 
     _check_bool(pooled, "pooled")
-    _check_bool(labels, "labels")
     _check_bool(compute, "compute")
     if isinstance(paths, (str, bytes, os.PathLike)) or not hasattr(paths, "__iter__"):
         raise TypeError("paths must be a sequence of file paths")
@@ -647,8 +642,7 @@ def file_area_matrices(paths, *, pooled=False, columns=None, time_column=None, d
                              "input; pass files (or use wedgepath.io.stream_area_matrix('-'))")
     task = delayed(_file_matrix, pure=True)
     parts = [task(os.fspath(p), columns, time_column, delimiter, chunk_rows) for p in paths]
-    result = delayed(_assemble_files, pure=True)([os.fspath(p) for p in paths], parts,
-                                                 pooled, labels)
+    result = delayed(_assemble_files, pure=True)([os.fspath(p) for p in paths], parts, pooled)
     if not compute:
         return result
     from wedgepath.io import TableError
@@ -661,22 +655,20 @@ def file_area_matrices(paths, *, pooled=False, columns=None, time_column=None, d
 def _file_matrix(path, columns, time_column, delimiter, chunk_rows):
     from wedgepath.io import stream_area_matrix
 
-    m = stream_area_matrix(path, columns=columns, time_column=time_column, delimiter=delimiter,
-                           chunk_rows=chunk_rows)
-    return np.asarray(m.values), tuple(m.names)
+    return stream_area_matrix(path, columns=columns, time_column=time_column,
+                              delimiter=delimiter, chunk_rows=chunk_rows, progress=False)
 
 
-def _assemble_files(paths, parts, pooled, labels):
+def _assemble_files(paths, parts, pooled):
     from wedgepath.io import TableError
 
-    names0 = parts[0][1]
-    for p, (_, nm) in zip(paths, parts):
-        if nm != names0:
-            raise TableError(f"{p}: channels {list(nm)} differ from {list(names0)} in {paths[0]}")
-    mats = np.stack([m for m, _ in parts])
+    names0 = parts[0].names
+    for p, m in zip(paths, parts):
+        if m.names != names0:
+            raise TableError(f"{p}: channels {list(m.names)} differ from {list(names0)} in "
+                             f"{paths[0]}")
     if pooled:
-        A = mats.sum(axis=0)
-        return AreaMatrix(A, names0, "chord", None) if labels else A
-    if labels:
-        return [AreaMatrix(m, names0, "chord", None) for m in mats]
-    return mats
+        A = np.sum([m.values for m in parts], axis=0)
+        return AreaMatrix(values=A, names=names0, closure="chord",
+                          samples=sum(m.samples for m in parts))
+    return list(parts)

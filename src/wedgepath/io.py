@@ -65,7 +65,7 @@ Examples
 >>> text = "# bench test 3\\nt,a,b\\n0,1.0,2.0\\n0.5,,3.0\\n1.25,4.0,NA\\n"
 >>> tab = wio.read_table(io.StringIO(text), time_column="t")
 >>> tab.names, tab.times.tolist()
-(['a', 'b'], [0.0, 0.5, 1.25])
+(('a', 'b'), [0.0, 0.5, 1.25])
 >>> tab.values[1:]
 array([[nan,  3.],
        [ 4., nan]])
@@ -85,9 +85,13 @@ import re
 import stat
 import sys
 from collections import Counter
+from collections.abc import Mapping
 from dataclasses import dataclass
 
 import numpy as np
+
+from ._bars import check_progress, progress_bar
+from ._results import Result, fmt_names
 
 __all__ = ["TableError", "Table", "read_table", "iter_table_chunks", "table_columns",
            "stream_area_matrix", "GAP_TOKENS", "MAX_LINE_BYTES"]
@@ -115,31 +119,60 @@ class TableError(ValueError):
     """A table could not be read; the message names file, line and column."""
 
 
-@dataclass(frozen=True)
-class Table:
-    """Channels of a table.
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class Table(Result):
+    """Channels of a table: what :func:`read_table` and :func:`iter_table_chunks` return.
 
     Attributes
     ----------
     values : numpy.ndarray (T, n) float64
-        The channels, NaN for gaps.
+        The channels, NaN for gaps (read-only).
     times : numpy.ndarray (T,) float64 or None
-        Sample times: the numbers as given, or seconds since the first sample
-        for date/times.
-    names : list of str
+        Sample times as numbers: the numbers as given, or seconds since the
+        first sample for date/times (what the library's ``times=`` takes).
+    names : tuple of str
         Channel names.
     source : str
         The file (and, for a chunk, its first data row).
     time_axis : wedgepath._time.TimeAxis or None
         What the times were: ``kind`` ("number"/"datetime"), ``origin``,
         ``tz``; ``time_axis.format(t)`` gives ISO strings back.
+    units : mapping or None
+        Channel name -> unit text (:meth:`with_units`).
+
+    ``to_frame()`` is the table itself: one column per channel, indexed by
+    time (a ``DatetimeIndex`` for date/times, numbers otherwise, the row
+    number 0, 1, ... without a time column).
     """
 
     values: np.ndarray
-    times: object
-    names: list
+    times: np.ndarray | None
+    names: tuple
     source: str = ""
     time_axis: object = None
+    units: Mapping | None = None
+
+    def to_frame(self):
+        """The table as a DataFrame: channels as columns, time as index."""
+        import pandas as pd
+
+        if self.times is None:
+            index = pd.RangeIndex(self.values.shape[0], name="row")
+        elif self.time_axis is not None and self.time_axis.kind == "datetime":
+            index = pd.DatetimeIndex(self.time_axis.to_datetime64(), name="time")
+            if self.time_axis.tz:
+                index = index.tz_localize("UTC").tz_convert(self.time_axis.tz)
+        else:
+            index = pd.Index(np.asarray(self.times), name="time")
+        return pd.DataFrame(np.array(self.values), index=index, columns=list(self.names))
+
+    def _summary_items(self):
+        items = [("rows", str(self.values.shape[0])), ("names", fmt_names(self.names))]
+        if self.time_axis is not None:
+            items.append(("times", self.time_axis.kind))
+        if self.source:
+            items.append(("source", repr(self.source)))
+        return items
 
 
 # =========================================================================== sources
@@ -441,6 +474,11 @@ def table_columns(source, delimiter=None):
 
     For a pipe or standard input, the header is consumed with the lines
     read along with it.
+
+    Returns
+    -------
+    list of str
+        The column names, in file order.
     """
     name = _name_of(source)
     if _is_parquet_name(source):
@@ -1149,7 +1187,8 @@ def _chunk(parts, tparts, names, name, first_row, axis):
     if tparts:
         times = np.concatenate(tparts) if len(tparts) > 1 else np.array(tparts[0])
         t_axis = axis.with_values(times)
-    return Table(vals, times, list(names), f"{name}:row {first_row + 1}", t_axis)
+    return Table(values=vals, times=times, names=tuple(names),
+                 source=f"{name}:row {first_row + 1}", time_axis=t_axis)
 
 
 def read_table(source, *, columns=None, time_column=None, delimiter=None, min_rows=2):
@@ -1209,7 +1248,7 @@ def read_table(source, *, columns=None, time_column=None, delimiter=None, min_ro
         t_axis = axis.with_values(times)
     if values.shape[0] < min_rows:
         raise TableError(f"{name}: {values.shape[0]} data row(s); at least {min_rows} are needed")
-    return Table(values, times, names, name, t_axis)
+    return Table(values=values, times=times, names=tuple(names), source=name, time_axis=t_axis)
 
 
 def stream_area_matrix(source, *, columns=None, time_column=None, delimiter=None,
@@ -1223,10 +1262,22 @@ def stream_area_matrix(source, *, columns=None, time_column=None, delimiter=None
     add).  ``source`` may be a path, ``"-"`` (standard input) or an open
     stream; it is read once.
 
+    Parameters
+    ----------
+    source, columns, time_column, delimiter
+        As in :func:`read_table`.
+    chunk_rows : int
+        Rows per chunk.
+    progress : bool or None
+        A bar counting the rows read, on standard error: None (default) only
+        on a terminal and for runs longer than a few seconds, False never,
+        True always.
+
     Returns
     -------
     AreaMatrix
-        Labelled with the channel names; ``.values`` is the (n, n) array.
+        Labelled with the channel names; ``.values`` is the (n, n) array,
+        ``.samples`` the number of data rows read.
 
     Examples
     --------
@@ -1237,17 +1288,19 @@ def stream_area_matrix(source, *, columns=None, time_column=None, delimiter=None
     array([[ 0.,  1.],
            [-1.,  0.]])
     """
+    check_progress(progress)
     chunks = iter_table_chunks(source, columns=columns, time_column=time_column,
                                delimiter=delimiter, chunk_rows=chunk_rows)
     # closing() shuts the file at once when a chunk is refused below
-    with contextlib.closing(chunks):
-        acc, rows = _stream_chunks(chunks, source, progress)
+    with contextlib.closing(chunks), progress_bar(None, "rows read", progress,
+                                                  unit=" rows") as bar:
+        acc, rows = _stream_chunks(chunks, source, bar)
     if acc is None or rows < 2:
         raise TableError(f"{_name_of(source)}: fewer than 2 data rows")
-    return acc.result(labels=True)
+    return acc.result()
 
 
-def _stream_chunks(chunks, source, progress):
+def _stream_chunks(chunks, source, bar):
     from .signals import AreaAccumulator
 
     acc = None
@@ -1259,6 +1312,5 @@ def _stream_chunks(chunks, source, progress):
             acc = AreaAccumulator(len(chunk.names), names=chunk.names)
         acc.update(chunk.values)
         rows += chunk.values.shape[0]
-        if progress is not None:
-            progress(rows)
+        bar.update(chunk.values.shape[0])
     return acc, rows

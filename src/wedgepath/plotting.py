@@ -394,14 +394,11 @@ def rolling_pairs(rolling, *, names=None, pairs=None, top=6, xlabel="window cent
         raise ValueError(f"rolling areas must have shape (windows, n, n), got {R.shape}")
     labels = _names(rolling, names, n)
     if rows:
-        a = np.asarray(getattr(rolling, "start", getattr(rolling, "start_index", None)),
-                       dtype=float) + 1
-        b = np.asarray(getattr(rolling, "stop", getattr(rolling, "stop_index", None)),
-                       dtype=float)
+        a = np.asarray(rolling.start, dtype=float) + 1
+        b = np.asarray(rolling.stop, dtype=float)
     else:
-        a = np.asarray(getattr(rolling, "start_time"), dtype=float)
-        b = np.asarray(getattr(rolling, "stop_time", getattr(rolling, "end_time", None)),
-                       dtype=float)
+        a = np.asarray(rolling.start_time, dtype=float)
+        b = np.asarray(rolling.stop_time, dtype=float)
     t = 0.5 * (a + b)
     if pairs is None:
         strength = np.nanmean(np.abs(R), axis=0) if K else np.zeros((n, n))
@@ -506,9 +503,9 @@ def loop_path(curve, *, names=None, cycles=None, ax=None, title=None, arrows=6):
     which = np.full(T - 1, -1.0)
     count = 0
     if cycles is not None:
-        start = np.asarray(getattr(cycles, "start", getattr(cycles, "starts", None)),
+        start = np.asarray(cycles.start,
                            dtype=float)
-        stop = np.asarray(getattr(cycles, "stop", getattr(cycles, "stops", None)), dtype=float)
+        stop = np.asarray(cycles.stop, dtype=float)
         count = start.size
         mid = np.arange(T - 1) + 0.5
         for k, (s0, s1) in enumerate(zip(start, stop)):
@@ -626,7 +623,7 @@ def cycle_values(cycles, *, ax=None, title="Per-cycle integral", ylabel="value p
         mean = sd = math.nan
     elif hasattr(cycles, "count") and hasattr(cycles, "mean") and not isinstance(cycles,
                                                                               np.ndarray):
-        vals = as_float_array(getattr(cycles, "values", getattr(cycles, "areas", None)),
+        vals = as_float_array(cycles.values,
                               "values", ndim=1, allow_nan=True)
         mean, sd = float(cycles.mean), float(cycles.std)
     else:

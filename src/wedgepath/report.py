@@ -98,70 +98,18 @@ def loop_files(figures: bool = False, *, json_name: str = "result.json") -> list
     return [json_name, "cycles.csv"] + (["loop.png", "cycles.png"] if figures else [])
 
 
-# =========================================================================== adapters
-# The library's result types are being unified (one labelled result model); these
-# helpers read either spelling of a field, so that the reports work with both.
-def _field(obj, *names, default=None):
-    for n in names:
-        if hasattr(obj, n):
-            return getattr(obj, n)
-    return default
-
-
-def _area_matrix(values, **kw):
-    from .signals import area_matrix
-    try:
-        return area_matrix(values, labels=True, **kw)
-    except TypeError as exc:           # the result model without ``labels=``
-        if "labels" not in str(exc):
-            raise
-        return area_matrix(values, **kw)
-
-
-def _rolling(values, window, step, times, names):
-    from .signals import rolling_area_matrix
-    try:
-        return rolling_area_matrix(values, window, step, times=times, names=names, labels=True)
-    except TypeError as exc:
-        if "labels" not in str(exc):
-            raise
-        return rolling_area_matrix(values, window, step, times=times, names=names)
-
-
-def _bootstrap(values, n_boot, confidence, seed, progress, names):
-    from .signals import bootstrap_area
-    try:
-        return bootstrap_area(values, n_boot=n_boot, confidence=confidence, seed=seed,
-                              keep=True, progress=progress, names=names)
-    except TypeError as exc:
-        if "confidence" not in str(exc):
-            raise
-        return bootstrap_area(values, n_boot=n_boot, level=confidence, seed=seed, keep=True,
-                              progress=progress, names=names)
-
-
+# =========================================================================== fields
 def _rolling_parts(r):
     """(areas, first row, last row, start time, stop time) of a RollingAreas (rows from 1)."""
-    areas = np.asarray(r, dtype=float)
-    start = np.asarray(_field(r, "start", "start_index"), dtype=np.int64)
-    stop = np.asarray(_field(r, "stop", "stop_index"), dtype=np.int64)
-    t0 = np.asarray(_field(r, "start_time"), dtype=float)
-    t1 = np.asarray(_field(r, "stop_time", "end_time"), dtype=float)
-    return areas, start + 1, stop, t0, t1
+    return (np.asarray(r.areas, dtype=float), np.asarray(r.start, dtype=np.int64) + 1,
+            np.asarray(r.stop, dtype=np.int64), np.asarray(r.start_time, dtype=float),
+            np.asarray(r.stop_time, dtype=float))
 
 
 def _cycle_parts(c):
-    """(values, start, stop, start time or None, stop time or None) of a CycleAreas."""
-    values = np.asarray(_field(c, "values", "areas"), dtype=float)
-    start = np.asarray(_field(c, "start", "starts"), dtype=float)
-    stop = np.asarray(_field(c, "stop", "stops"), dtype=float)
-    t0 = _field(c, "start_time", "start_times")
-    t1 = _field(c, "stop_time", "stop_times")
-    return values, start, stop, t0, t1
-
-
-def _bootstrap_confidence(b):
-    return float(_field(b, "confidence", "level"))
+    """(values, start, stop, start time, stop time) of a CycleAreas."""
+    return (np.asarray(c.values, dtype=float), np.asarray(c.start, dtype=float),
+            np.asarray(c.stop, dtype=float), c.start_time, c.stop_time)
 
 
 # =========================================================================== input
@@ -506,7 +454,7 @@ class LeadLagReport(_Report):
             if self.position_low is not None:
                 d["cyclic_order"]["positions_low_rad"] = dict(zip(names, self.position_low))
                 d["cyclic_order"]["positions_high_rad"] = dict(zip(names, self.position_high))
-                d["cyclic_order"]["confidence"] = _bootstrap_confidence(self.bootstrap)
+                d["cyclic_order"]["confidence"] = float(self.bootstrap.confidence)
         d["net_lead"] = {names[i]: float(self.net_lead[i]) for i in range(n)}
         d["leaders"] = self.leaders()
         d["laggers"] = self.laggers()
@@ -523,7 +471,7 @@ class LeadLagReport(_Report):
             d["significance"] = {
                 "rows": list(self.significance_rows),
                 "method": s.method, "n_surrogates": int(s.n_surrogates),
-                "seed": _field(s, "seed"),
+                "seed": s.seed,
                 "pvalues": np.asarray(s.pvalues, dtype=float),
                 "qvalues": np.asarray(s.qvalues, dtype=float),
                 "significant_pairs": [[names[i], names[j]] for i, j in self.significant_pairs()],
@@ -532,7 +480,7 @@ class LeadLagReport(_Report):
             b = self.bootstrap
             d["bootstrap"] = {"rows": list(self.significance_rows),
                               "n_boot": int(b.n_boot), "block": int(b.block),
-                              "confidence": _bootstrap_confidence(b),
+                              "confidence": float(b.confidence),
                               "low": np.asarray(b.low, dtype=float),
                               "high": np.asarray(b.high, dtype=float)}
         if self.streamed:
@@ -606,7 +554,7 @@ class LeadLagReport(_Report):
                          "the order, not the delays): " + shown)
             if self.position_low is not None:
                 wraps = bool(np.any(self.position_low > self.position_high))
-                lines.append(f"  [low, high]: {100 * _bootstrap_confidence(self.bootstrap):.0f}% "
+                lines.append(f"  [low, high]: {100 * float(self.bootstrap.confidence):.0f}% "
                              f"interval from {self.bootstrap.n_boot} block-bootstrap replicates "
                              f"(blocks of {self.bootstrap.block} samples)"
                              + ("; low > high: the interval wraps past 2π" if wraps else ""))
@@ -631,7 +579,7 @@ class LeadLagReport(_Report):
             q = np.asarray(s.qvalues, dtype=float)
             M = self.matrix
             head = (f"\nsignificance ({s.method} surrogates, {s.n_surrogates}, seed "
-                    f"{_field(s, 'seed')}): {_plural(len(pairs), 'pair')} at 5% false "
+                    f"{s.seed}): {_plural(len(pairs), 'pair')} at 5% false "
                     "discovery rate")
             if len(pairs) > LISTED_PAIRS:
                 head += f"; the {LISTED_PAIRS} strongest:"
@@ -663,7 +611,7 @@ class LeadLagReport(_Report):
                        high=self.position_high, rolling=self.rolling,
                        fit_baseline=self.fit_baseline,
                        confidence=None if self.bootstrap is None else
-                       _bootstrap_confidence(self.bootstrap)).figure,
+                       float(self.bootstrap.confidence)).figure,
                    "pairs.png": plotting.pair_chart(
                        self.areas, raw=self.raw, significance=self.significance,
                        bootstrap=self.bootstrap).figure}
@@ -767,6 +715,8 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     >>> r.to_dict()["schema"], r.planned_files()
     ('wedgepath.leadlag/3', ['result.json', 'area_matrix.csv', 'pairs.csv'])
     """
+    from .signals import area_matrix, bootstrap_area, rolling_area_matrix
+
     values, times, names = _unpack(data, times, names)
     n = values.shape[1]
     if n < 2:
@@ -775,10 +725,10 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         raise ValueError("step needs window")
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
-        A = _area_matrix(values, times=times, closure=closure, normalize=normalize,
-                         names=list(names), tol=tol)
-        raw = A if normalize is None else _area_matrix(values, times=times, closure=closure,
-                                                       names=list(names), tol=tol)
+        A = area_matrix(values, times=times, closure=closure, normalize=normalize,
+                        names=list(names), tol=tol)
+        raw = A if normalize is None else area_matrix(values, times=times, closure=closure,
+                                                      names=list(names), tol=tol)
     notes = [str(w.message) for w in caught]
     order, base, more = _order_of(A, names)
     notes += more
@@ -791,7 +741,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         st = step if step is not None else max(1, window // 4)
         if window > values.shape[0]:
             raise ValueError(f"window={window} is longer than the {values.shape[0]} samples")
-        kw["rolling"] = _rolling(values, window, st, times, list(names))
+        kw["rolling"] = rolling_area_matrix(values, window, st, times=times, names=list(names))
         kw["window"], kw["step"] = int(window), int(st)
         if normalize is not None:
             notes.append("rolling windows hold raw areas A[i, j]; the normalisation applies "
@@ -814,30 +764,14 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
                                                 times=tpart, progress=progress,
                                                 names=list(names))
         if n_boot is not None:
-            boot = _bootstrap(part, n_boot, confidence, seed, progress, list(names))
+            boot = bootstrap_area(part, n_boot=n_boot, confidence=confidence, seed=seed,
+                                  keep=True, progress=progress, names=list(names))
             kw["bootstrap"] = boot
             if order is not None:
                 kw["position_low"], kw["position_high"] = _position_intervals(order, boot,
                                                                               confidence)
     kw["notes"] = tuple(notes)
     return LeadLagReport(**kw)
-
-
-def _estimated_rows(path):
-    """Rough row count of a text table from its size and its first lines (for progress)."""
-    import stat
-    try:
-        if path == "-" or not stat.S_ISREG(os.stat(path).st_mode):
-            return None
-        size = os.path.getsize(path)
-        with open(path, "rb") as fh:
-            head = fh.read(1 << 20)
-    except (OSError, TypeError):
-        return None
-    lines = head.count(b"\n")
-    if lines < 2:
-        return None
-    return max(1, int(size / (len(head) / lines)))
 
 
 def leadlag_stream(source, *, columns=None, time_column=None, delimiter=None,
@@ -849,24 +783,14 @@ def leadlag_stream(source, *, columns=None, time_column=None, delimiter=None,
     (:func:`wedgepath.io.stream_area_matrix`).  ``progress`` shows the rows read
     (None: for files, estimated from their size).
     """
-    from ._progress import Progress
     from .io import stream_area_matrix
 
-    total = _estimated_rows(source) if isinstance(source, (str, os.PathLike)) else None
-    with Progress(total or 1, "rows read (estimate)",
-                  enabled=False if progress is False or total is None else
-                  (None if progress is None else True)) as bar:
-        last = [0]
-
-        def tick(rows):
-            bar.update(rows - last[0])
-            last[0] = rows
-        A = stream_area_matrix(source, columns=columns, time_column=time_column,
-                               delimiter=delimiter, chunk_rows=chunk_rows, progress=tick)
+    A = stream_area_matrix(source, columns=columns, time_column=time_column,
+                           delimiter=delimiter, chunk_rows=chunk_rows, progress=progress)
     names = tuple(A.names)
     order, base, notes = _order_of(A, names)
     M = np.nan_to_num(np.asarray(A, dtype=float), nan=0.0)
-    return LeadLagReport(names=names, samples=int(last[0]), closure="chord", normalize=None,
+    return LeadLagReport(names=names, samples=int(A.samples), closure="chord", normalize=None,
                          areas=A, raw=A, order=order, fit_baseline=base,
                          net_lead=M.sum(axis=1), top=int(top), notes=tuple(notes),
                          times_given=time_column is not None, time_name=time_column,
@@ -1254,7 +1178,7 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
     """
     import sympy as sp
 
-    from ._progress import Stages
+    from ._bars import Stages
     from .calculus import Path
     from .planar import region_integral, region_moments, signed_area
     from .signals import cycle_areas

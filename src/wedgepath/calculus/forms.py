@@ -15,7 +15,7 @@ integrated:
 ``callable``
     ``f(coords) -> values`` with ``coords`` of shape ``(m, n)`` and values of
     shape ``(m,)`` (vectorised over points).  Integrated adaptively with an
-    error estimate, unless declared polynomial with ``degree=``.
+    error estimate, unless declared polynomial with ``poly_degree=``.
 
 Examples
 --------
@@ -38,7 +38,7 @@ from itertools import combinations
 import numpy as np
 
 from .._exterior import sort_with_sign, wedge_terms
-from .._lazy import is_sympy, sympy
+from .._lazy import is_sympy
 from .._validation import as_int, check_values
 
 __all__ = ["Form", "ZeroForm", "OneForm", "TwoForm", "dx", "Coefficient", "checked_values"]
@@ -80,6 +80,7 @@ class Coefficient:
         (:func:`wedgepath.formula.degree_bound`): an upper bound, exact unless
         terms cancel, which is all that exact quadrature needs.
         """
+        import sympy
         expr = _as_expression(expr, symbols)
         if expr.has(sympy.I) or expr.has(sympy.zoo) or expr.has(sympy.nan) or expr.has(sympy.oo):
             raise ValueError(f"form coefficient {expr} is not a finite real expression")
@@ -106,15 +107,16 @@ class Coefficient:
         return cls("sympy", expr=expr, symbols=tuple(symbols), func=func, poly_degree=deg)
 
     @classmethod
-    def from_callable(cls, f, degree=None):
-        if degree is not None:
-            degree = as_int(degree, "degree")
-            if degree < 0:
-                raise ValueError(f"degree must be >= 0, got {degree}")
-        return cls("callable", func=f, poly_degree=degree)
+    def from_callable(cls, f, poly_degree=None):
+        """A callable coefficient; ``poly_degree`` declares it a polynomial of that degree."""
+        if poly_degree is not None:
+            poly_degree = as_int(poly_degree, "poly_degree")
+            if poly_degree < 0:
+                raise ValueError(f"poly_degree must be >= 0, got {poly_degree}")
+        return cls("callable", func=f, poly_degree=poly_degree)
 
     @classmethod
-    def make(cls, spec, symbols=None, degree=None):
+    def make(cls, spec, symbols=None, poly_degree=None):
         """Build from a number, a sympy expression or a callable."""
         if isinstance(spec, Coefficient):
             return spec
@@ -136,7 +138,7 @@ class Coefficient:
                 raise ValueError("sympy coefficients need coordinate symbols: pass symbols=")
             return cls.from_sympy(spec, symbols)
         if callable(spec):
-            return cls.from_callable(spec, degree)
+            return cls.from_callable(spec, poly_degree)
         raise TypeError(f"a form coefficient must be a real number, a callable or a sympy "
                         f"expression, got {type(spec).__name__}")
 
@@ -146,10 +148,12 @@ class Coefficient:
         if self.kind == "constant":
             return self.value == 0.0
         if self.kind == "sympy":
+            import sympy
             return sympy.expand(self.expr) == 0
         return False
 
     def as_sympy(self):
+        import sympy
         if self.kind == "constant":
             return sympy.Float(self.value) if self.value != int(self.value) else sympy.Integer(int(self.value))
         if self.kind == "sympy":
@@ -210,6 +214,7 @@ class Coefficient:
         return self._combine(Coefficient.constant(c), _mul)
 
     def equals(self, other) -> bool:
+        import sympy
         if self.kind == "callable" or other.kind == "callable":
             return self.func is other.func and self.kind == other.kind
         return sympy.simplify(self.as_sympy() - other.as_sympy()) == 0
@@ -237,6 +242,7 @@ def _as_expression(value, symbols, what="form coefficient"):
 
         return parse_formula(value, {s.name: s for s in symbols})
     if isinstance(value, numbers.Real) and not isinstance(value, (bool, np.bool_)):
+        import sympy
         return sympy.sympify(value, strict=True)   # a number: strict never parses text
     raise TypeError(f"{what} must be a sympy expression, a real number or a formula string, "
                     f"got {type(value).__name__}; pass sympy expressions")
@@ -381,10 +387,10 @@ class Form:
             degrees = {len(k) for k in components}
             if len(degrees) != 1:
                 raise ValueError(f"terms of mixed degree {sorted(degrees)}")
-            return cls({k: _as_expression(v, symbols) for k, v in components.items()},
-                       degrees.pop(), n, symbols)
+            return Form({k: _as_expression(v, symbols) for k, v in components.items()},
+                        degrees.pop(), n, symbols)
         if is_sympy(components) or isinstance(components, (numbers.Real, str)):
-            return cls({(): _as_expression(components, symbols)}, 0, n, symbols)
+            return Form({(): _as_expression(components, symbols)}, 0, n, symbols)
         if isinstance(components, (bytes, bytearray)) or not hasattr(components, "__iter__"):
             raise TypeError(f"components must be an expression, a sequence of {n} expressions "
                             f"or a dict {{index tuple: expression}}, got "
@@ -392,8 +398,8 @@ class Form:
         comps = list(components)
         if len(comps) != n:
             raise ValueError(f"{len(comps)} components for {n} symbols")
-        return cls({(i,): _as_expression(c, symbols) for i, c in enumerate(comps)}, 1, n,
-                   symbols)
+        return Form({(i,): _as_expression(c, symbols) for i, c in enumerate(comps)}, 1, n,
+                    symbols)
 
     # ------------------------------------------------------------------ views
     @property
@@ -544,6 +550,8 @@ class Form:
                             "coefficients (build it with Form.from_sympy to differentiate)")
         if self.symbols is None:  # constant form: d = 0
             return Form({}, self.degree + 1, self.dim)
+        import sympy
+
         out = {}
         for idx, coef in self._terms.items():
             expr = coef.as_sympy()
@@ -584,6 +592,11 @@ def _check_symbols(symbols):
 def dx(i) -> Form:
     """The constant 1-form dx_i (i counts channels from 0).
 
+    Returns
+    -------
+    Form
+        A 1-form (``isinstance(dx(i), OneForm)`` is True).
+
     Examples
     --------
     >>> import wedgepath as wp
@@ -609,8 +622,34 @@ def _infer_symbols(specs, symbols):
     raise ValueError("sympy coefficients need their coordinate symbols: pass symbols=(x, y, ...)")
 
 
-def ZeroForm(f, *, dim=None, symbols=None, degree=None) -> Form:
+class _FormOfDegree(type):
+    """Metaclass of :class:`ZeroForm`, :class:`OneForm`, :class:`TwoForm`.
+
+    ``isinstance(w, OneForm)`` is True exactly when ``w`` is a :class:`Form`
+    of degree 1, however it was built (``dx(0)``, a sum, a wedge, ``d`` of a
+    0-form, ``Form.from_sympy``...); likewise for degrees 0 and 2.
+    """
+
+    def __instancecheck__(cls, obj):
+        return isinstance(obj, Form) and obj.degree == cls.DEGREE
+
+
+class ZeroForm(Form, metaclass=_FormOfDegree):
     """A 0-form (a function on R^n): a number, a callable on (m, n) coordinates, or sympy.
+
+    ``isinstance(w, ZeroForm)`` is True for every :class:`Form` of degree 0.
+
+    Parameters
+    ----------
+    f : number, callable or sympy expression
+        A callable takes coordinates of shape (m, n) and returns shape (m,).
+    dim : int, optional
+        n (default: the number of symbols).
+    symbols : sequence of sympy.Symbol, optional
+        Coordinate symbols (needed when ``f`` is a sympy expression).
+    poly_degree : int, optional
+        Declares that a callable ``f`` is a polynomial of total degree at
+        most ``poly_degree`` (only declare it when it is true).
 
     Examples
     --------
@@ -619,15 +658,32 @@ def ZeroForm(f, *, dim=None, symbols=None, degree=None) -> Form:
     >>> phi = wp.ZeroForm(x**2 * y, symbols=(x, y))
     >>> phi.d().terms_as_dict()
     {(0,): 2*x*y, (1,): x**2}
+    >>> isinstance(phi, wp.ZeroForm), isinstance(phi.d(), wp.OneForm)
+    (True, True)
     """
-    syms = _infer_symbols([f], symbols)
-    if syms is not None:
-        dim = len(syms) if dim is None else dim
-    return Form({(): Coefficient.make(f, syms, degree)}, 0, dim, syms)
+
+    __slots__ = ()
+    DEGREE = 0
+
+    def __init__(self, f, *, dim=None, symbols=None, poly_degree=None):
+        syms = _infer_symbols([f], symbols)
+        if syms is not None:
+            dim = len(syms) if dim is None else dim
+        Form.__init__(self, {(): Coefficient.make(f, syms, poly_degree)}, 0, dim, syms)
+
+    @classmethod
+    def from_sympy(cls, expr, symbols) -> Form:
+        """The 0-form of one sympy expression (or formula text) over coordinate ``symbols``."""
+        if isinstance(expr, (dict, list, tuple)):
+            raise TypeError("ZeroForm.from_sympy needs one expression")
+        return Form.from_sympy(expr, symbols)
 
 
-def OneForm(components, *, symbols=None, degree=None) -> Form:
+class OneForm(Form, metaclass=_FormOfDegree):
     """The 1-form ``sum_i f_i dx_i`` on R^n, n = len(components).
+
+    ``isinstance(w, OneForm)`` is True for every :class:`Form` of degree 1
+    (``wp.dx(0)`` too).
 
     Parameters
     ----------
@@ -636,34 +692,65 @@ def OneForm(components, *, symbols=None, degree=None) -> Form:
         sympy expression in ``symbols``.
     symbols : sequence of sympy.Symbol, optional
         Coordinate symbols (needed when components are sympy expressions).
-    degree : int, optional
+    poly_degree : int, optional
         Declares that the callable components are polynomials of total degree
-        at most ``degree``: their integrals along linear segments are then
-        computed exactly by Gauss-Legendre quadrature.  Only declare it when
-        it is true.
+        at most ``poly_degree``: their integrals along linear segments are
+        then computed exactly by Gauss-Legendre quadrature.  Only declare it
+        when it is true.
 
     Examples
     --------
     >>> import numpy as np, wedgepath as wp
-    >>> w = wp.OneForm([lambda c: -c[:, 1], lambda c: c[:, 0]], degree=1)
+    >>> w = wp.OneForm([lambda c: -c[:, 1], lambda c: c[:, 0]], poly_degree=1)
     >>> square = wp.Path([[0, 0], [1, 0], [1, 1], [0, 1], [0, 0]])
     >>> float(wp.integrate(w, square))      # twice the area
     2.0
+    >>> isinstance(w, wp.OneForm), isinstance(wp.dx(0) ^ wp.dx(1), wp.OneForm)
+    (True, False)
     """
-    if isinstance(components, (str, bytes)) or not hasattr(components, "__len__"):
-        raise TypeError("OneForm needs a sequence of n components")
-    comps = list(components)
-    if not comps:
-        raise ValueError("OneForm needs at least one component")
-    syms = _infer_symbols(comps, symbols)
-    if syms is not None and len(syms) != len(comps):
-        raise ValueError(f"{len(syms)} symbols for {len(comps)} components")
-    terms = {(i,): Coefficient.make(c, syms, degree) for i, c in enumerate(comps)}
-    return Form(terms, 1, len(comps), syms)
+
+    __slots__ = ()
+    DEGREE = 1
+
+    def __init__(self, components, *, symbols=None, poly_degree=None):
+        if isinstance(components, (str, bytes)) or not hasattr(components, "__len__"):
+            raise TypeError("OneForm needs a sequence of n components")
+        comps = list(components)
+        if not comps:
+            raise ValueError("OneForm needs at least one component")
+        syms = _infer_symbols(comps, symbols)
+        if syms is not None and len(syms) != len(comps):
+            raise ValueError(f"{len(syms)} symbols for {len(comps)} components")
+        terms = {(i,): Coefficient.make(c, syms, poly_degree) for i, c in enumerate(comps)}
+        Form.__init__(self, terms, 1, len(comps), syms)
+
+    @classmethod
+    def from_sympy(cls, exprs, symbols) -> Form:
+        """The 1-form ``sum_i exprs[i] dx_i`` from n sympy expressions over n coordinate symbols.
+
+        The same as ``wp.Form.from_sympy(list(exprs), symbols)``, refusing
+        anything but a sequence of n expressions.  ``.d()`` of the result is
+        exact.
+
+        Examples
+        --------
+        >>> import sympy as sp, wedgepath as wp
+        >>> x, y = sp.symbols("x y")
+        >>> w = wp.OneForm.from_sympy([-y, x], [x, y])
+        >>> w.d().terms_as_dict()
+        {(0, 1): 2.0}
+        """
+        if isinstance(exprs, (dict, str)) or not hasattr(exprs, "__len__"):
+            raise TypeError("OneForm.from_sympy needs a sequence of n expressions, one per "
+                            "coordinate")
+        return Form.from_sympy(list(exprs), symbols)
 
 
-def TwoForm(components, *, dim=None, symbols=None, degree=None) -> Form:
+class TwoForm(Form, metaclass=_FormOfDegree):
     """The 2-form ``sum f_ij dx_i ^ dx_j`` from ``{(i, j): f_ij}`` or a matrix.
+
+    ``isinstance(w, TwoForm)`` is True for every :class:`Form` of degree 2
+    (``wp.dx(0) ^ wp.dx(1)`` too).
 
     Parameters
     ----------
@@ -673,6 +760,11 @@ def TwoForm(components, *, dim=None, symbols=None, degree=None) -> Form:
         meaning ``sum_{i<j} M[i, j] dx_i ^ dx_j``.
     dim : int, optional
         n; defaults to the number of symbols or the matrix size.
+    symbols : sequence of sympy.Symbol, optional
+        Coordinate symbols (needed for sympy coefficients).
+    poly_degree : int, optional
+        Declares that callable coefficients are polynomials of total degree
+        at most ``poly_degree`` (only declare it when it is true).
 
     Examples
     --------
@@ -680,69 +772,50 @@ def TwoForm(components, *, dim=None, symbols=None, degree=None) -> Form:
     >>> wp.TwoForm({(1, 0): 3.0}).terms_as_dict()
     {(0, 1): -3.0}
     """
-    if isinstance(components, dict):
-        specs = list(components.values())
-        syms = _infer_symbols(specs, symbols)
-        terms = {}
-        for key, c in components.items():
-            if not isinstance(key, tuple) or len(key) != 2:
-                raise ValueError(f"TwoForm keys must be index pairs (i, j), got {key!r}")
-            i, j = (as_int(v, "form index") for v in key)
-            if i == j:
-                raise ValueError(f"term {(i, j)} repeats an index; dx_i ^ dx_i = 0")
-            terms[(i, j)] = Coefficient.make(c, syms, degree)
-        return Form(terms, 2, dim, syms)
-    from .._validation import as_float_array
-    M = as_float_array(components, "components", ndim=2)
-    if M.shape[0] != M.shape[1]:
-        raise ValueError(f"a 2-form matrix must be square, got shape {M.shape}")
-    if not np.array_equal(M, -M.T):
-        raise ValueError("a 2-form matrix must be skew-symmetric (M == -M.T)")
-    n = M.shape[0]
-    terms = {(i, j): M[i, j] for i, j in combinations(range(n), 2) if M[i, j] != 0}
-    return Form(terms, 2, n if dim is None else dim)
 
+    __slots__ = ()
+    DEGREE = 2
 
-def _one_form_from_sympy(exprs, symbols) -> Form:
-    """The 1-form ``sum_i exprs[i] dx_i`` from n sympy expressions over n coordinate symbols.
+    def __init__(self, components, *, dim=None, symbols=None, poly_degree=None):
+        if isinstance(components, dict):
+            specs = list(components.values())
+            syms = _infer_symbols(specs, symbols)
+            terms = {}
+            for key, c in components.items():
+                if not isinstance(key, tuple) or len(key) != 2:
+                    raise ValueError(f"TwoForm keys must be index pairs (i, j), got {key!r}")
+                i, j = (as_int(v, "form index") for v in key)
+                if i == j:
+                    raise ValueError(f"term {(i, j)} repeats an index; dx_i ^ dx_i = 0")
+                terms[(i, j)] = Coefficient.make(c, syms, poly_degree)
+            Form.__init__(self, terms, 2, dim, syms)
+            return
+        from .._validation import as_float_array
+        M = as_float_array(components, "components", ndim=2)
+        if M.shape[0] != M.shape[1]:
+            raise ValueError(f"a 2-form matrix must be square, got shape {M.shape}")
+        if not np.array_equal(M, -M.T):
+            raise ValueError("a 2-form matrix must be skew-symmetric (M == -M.T)")
+        n = M.shape[0]
+        terms = {(i, j): M[i, j] for i, j in combinations(range(n), 2) if M[i, j] != 0}
+        Form.__init__(self, terms, 2, n if dim is None else dim)
 
-    ``wp.OneForm.from_sympy(exprs, symbols)``: the same as
-    ``wp.Form.from_sympy(list(exprs), symbols)``, refusing anything but a sequence of n
-    expressions.  ``.d()`` of the result is exact.
+    @classmethod
+    def from_sympy(cls, components, symbols) -> Form:
+        """The 2-form ``sum f_ij dx_i ^ dx_j`` from ``{(i, j): sympy expression}``.
 
-    Examples
-    --------
-    >>> import sympy as sp, wedgepath as wp
-    >>> x, y = sp.symbols("x y")
-    >>> w = wp.OneForm.from_sympy([-y, x], [x, y])
-    >>> w.d().terms_as_dict()
-    {(0, 1): 2.0}
-    """
-    if isinstance(exprs, (dict, str)) or not hasattr(exprs, "__len__"):
-        raise TypeError("OneForm.from_sympy needs a sequence of n expressions, one per "
-                        "coordinate")
-    return Form.from_sympy(list(exprs), symbols)
+        The same as ``wp.TwoForm(components, symbols=symbols)`` with every
+        coefficient sympy.
 
-
-def _two_form_from_sympy(components, symbols) -> Form:
-    """The 2-form ``sum f_ij dx_i ^ dx_j`` from ``{(i, j): sympy expression}``.
-
-    ``wp.TwoForm.from_sympy(components, symbols)``, the same as
-    ``wp.TwoForm(components, symbols=symbols)`` with every coefficient sympy.
-
-    Examples
-    --------
-    >>> import sympy as sp, wedgepath as wp
-    >>> x, y = sp.symbols("x y")
-    >>> wp.TwoForm.from_sympy({(0, 1): x * y}, [x, y]).terms_as_dict()
-    {(0, 1): x*y}
-    """
-    if not isinstance(components, dict):
-        raise TypeError("TwoForm.from_sympy needs a dict {(i, j): expression}")
-    syms = _check_symbols(symbols)
-    return TwoForm({k: _as_expression(v, syms) for k, v in components.items()}, dim=len(syms),
-                   symbols=syms)
-
-
-OneForm.from_sympy = _one_form_from_sympy
-TwoForm.from_sympy = _two_form_from_sympy
+        Examples
+        --------
+        >>> import sympy as sp, wedgepath as wp
+        >>> x, y = sp.symbols("x y")
+        >>> wp.TwoForm.from_sympy({(0, 1): x * y}, [x, y]).terms_as_dict()
+        {(0, 1): x*y}
+        """
+        if not isinstance(components, dict):
+            raise TypeError("TwoForm.from_sympy needs a dict {(i, j): expression}")
+        syms = _check_symbols(symbols)
+        return TwoForm({k: _as_expression(v, syms) for k, v in components.items()},
+                       dim=len(syms), symbols=syms)

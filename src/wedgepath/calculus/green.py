@@ -136,11 +136,11 @@ class Integrand:
     non-finite values when not ``strict``).
     """
 
-    def __init__(self, kind, value=0.0, func=None, degree=None, label="f"):
+    def __init__(self, kind, value=0.0, func=None, poly_degree=None, label="f"):
         self.kind = kind            # "constant" or "function"
         self.value = value
         self.func = func
-        self.degree = degree
+        self.poly_degree = poly_degree
         self.label = label
 
 
@@ -150,18 +150,18 @@ def _from_coefficient(coef: Coefficient, label: str) -> Integrand:
 
     def func(x, y, strict=True):
         return coef.evaluate(np.column_stack([x, y]), label, strict=strict)
-    return Integrand("function", func=func, degree=coef.poly_degree, label=label)
+    return Integrand("function", func=func, poly_degree=coef.poly_degree, label=label)
 
 
-def integrand(f, symbols=None, degree=None) -> Integrand:
+def integrand(f, symbols=None, poly_degree=None) -> Integrand:
     """The integrand of a region integral from a number, callable, sympy expression or 2-form.
 
     Text is not accepted here (the public wrapper parses it safely first).
     """
-    if degree is not None:
-        degree = as_int(degree, "degree")
-        if degree < 0:
-            raise ValueError(f"degree must be >= 0, got {degree}")
+    if poly_degree is not None:
+        poly_degree = as_int(poly_degree, "poly_degree")
+        if poly_degree < 0:
+            raise ValueError(f"poly_degree must be >= 0, got {poly_degree}")
     if isinstance(f, Form):
         if f.degree != 2:
             raise ValueError(f"region_integral integrates 2-forms (f dx0^dx1), got a "
@@ -203,7 +203,7 @@ def integrand(f, symbols=None, degree=None) -> Integrand:
                 vals = f(x, y)
             return checked_values(vals, x.size, "f",
                                   lambda k: f"({float(x[k])!r}, {float(y[k])!r})", strict)
-        return Integrand("function", func=func, degree=degree, label="f")
+        return Integrand("function", func=func, poly_degree=poly_degree, label="f")
     raise TypeError(f"the integrand must be a number, a callable f(x, y), a sympy expression "
                     f"or a 2-form, got {type(f).__name__}")
 
@@ -241,7 +241,7 @@ class _Segments:
 
 
 def _exact_poly(geo, fn, acc):
-    d = fn.degree
+    d = fn.poly_degree
     ms, mu = points_needed(d + 1), points_needed(d)
     xs_, ws_ = gauss_legendre(ms)
     xu_, wu_ = gauss_legendre(mu)
@@ -417,9 +417,9 @@ def region_accumulator(fn: Integrand, pieces, opts) -> Accumulator:
         return acc
     if fn.kind == "constant":
         fn = Integrand("function", func=lambda x, y, strict=True: np.full(x.size, fn.value),
-                       degree=0)
+                       poly_degree=0)
     with np.errstate(over="ignore", invalid="ignore"):
-        if fn.degree is not None:
+        if fn.poly_degree is not None:
             _exact_poly(geo, fn, acc)
         else:
             order = opts.order or DEFAULT_ORDER

@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from .._results import Result, fmt_number
 from .._warn import warn
 
 __all__ = ["Integral", "IntegrationWarning", "Accumulator", "EPS"]
@@ -29,10 +30,12 @@ class IntegrationWarning(UserWarning):
     was not finite where refinement looked.  ``error`` says how far the result is."""
 
 
-class Integral(float):
+class Integral(Result, float):
     """A float with an error estimate and a description of how it was obtained.
 
     Behaves as a float in arithmetic (results of arithmetic are plain floats).
+    ``to_frame()`` gives one row: ``value, error, exact, method, rounding,
+    evaluations``.
 
     Attributes
     ----------
@@ -53,6 +56,8 @@ class Integral(float):
     >>> r = Integral(1.5, error=1e-12, method="adaptive")
     >>> r + 1, r.error, r.exact
     (2.5, 1e-12, False)
+    >>> r
+    Integral(value=1.5, error=1e-12, exact=False, method='adaptive')
     """
 
     def __new__(cls, value, *, error=0.0, exact=False, method="", rounding=0.0, evaluations=0):
@@ -64,9 +69,20 @@ class Integral(float):
         self.evaluations = int(evaluations)
         return self
 
-    def __repr__(self):
-        return (f"Integral({float(self)!r}, error={self.error:.3g}, exact={self.exact}, "
-                f"method={self.method!r})")
+    def _summary_items(self):
+        return [("value", repr(float(self))), ("error", fmt_number(self.error, 3)),
+                ("exact", str(self.exact)), ("method", repr(self.method))]
+
+    def to_frame(self):
+        """One row: ``value, error, exact, method, rounding, evaluations``."""
+        import pandas as pd
+
+        return pd.DataFrame({"value": [float(self)], "error": [self.error],
+                             "exact": [self.exact], "method": [self.method],
+                             "rounding": [self.rounding], "evaluations": [self.evaluations]})
+
+    def with_units(self, units):
+        raise TypeError("an Integral is one number; it carries no channels to attach units to")
 
     def __reduce__(self):
         return (_rebuild_integral, (float(self), self.error, self.exact, self.method,

@@ -277,7 +277,7 @@ def integrate_constant_2form(form: Form, path: Path, closure: str, curve: str) -
         # primitive (c/2)(x_i dx_j - x_j dx_i)
         coefs.setdefault(j, []).append((0.5 * c, i))
         coefs.setdefault(i, []).append((-0.5 * c, j))
-    varying = [(k, Coefficient.from_callable(_linear_combination(lst), degree=1))
+    varying = [(k, Coefficient.from_callable(_linear_combination(lst), poly_degree=1))
                for k, lst in sorted(coefs.items())]
     # A constant 2-form's integral over a surface spanning a closed curve is
     # translation invariant: each piece is taken relative to a point of its own.

@@ -68,7 +68,7 @@ class Path:
 
     __slots__ = ("_points", "_times", "_names", "_gap_rows", "_pieces")
 
-    def __init__(self, points, times=None, names=None):
+    def __init__(self, points, *, times=None, names=None):
         if names is None and hasattr(points, "columns") and not isinstance(points, np.ndarray):
             names = [str(c) for c in points.columns]
         pts = as_float_array(points, "points", ndim=(1, 2), allow_nan=True)
@@ -299,8 +299,8 @@ class Path:
         pts = np.concatenate([self._points, other._points])
         return Path._trusted(pts, times, names)
 
-    def close(self, how: str = "chord", *, tol=None) -> "Path":
-        """Return the path closed by convention ``how`` (each piece on its own).
+    def close(self, closure: str = "chord", *, tol=None) -> "Path":
+        """Return the path closed by the convention ``closure`` (each piece on its own).
 
         ``"none"``
             Unchanged.
@@ -317,7 +317,7 @@ class Path:
             ``tol`` of its start (default ``1e-9`` times the piece's extent,
             Euclidean); then the end sample is set exactly to the start.
         """
-        check_choice(how, "closure", CLOSURES)
+        how = check_choice(closure, "closure", CLOSURES)
         if how == "none":
             return self
         if tol is not None:
@@ -427,7 +427,12 @@ def _index_bound(x, name: str, T: int) -> int:
 
 
 def as_path(obj, name: str = "path") -> Path:
-    """Return ``obj`` if it is a :class:`Path`, else ``Path(obj)``."""
+    """Return ``obj`` if it is a :class:`Path`, else ``Path(obj)``.
+
+    Returns
+    -------
+    Path
+    """
     if isinstance(obj, Path):
         return obj
     try:

@@ -13,13 +13,22 @@ from __future__ import annotations
 
 import numpy as np
 
+from .._results import default_names
 from ..calculus.green import closed_pieces, finite_result, planar_path
 from ..calculus.paths import CLOSURES
 
-__all__ = ["planar_path", "closed_pieces", "drop_repeats", "finite_result", "REGION_CLOSURES"]
+__all__ = ["planar_path", "closed_pieces", "drop_repeats", "finite_result", "REGION_CLOSURES",
+           "plane_names"]
 
 #: Closure conventions accepted by region quantities (the same as everywhere).
 REGION_CLOSURES = CLOSURES
+
+
+def plane_names(path) -> tuple:
+    """The channel names of a planar path (from :func:`planar_path`), ``("0", "1")`` without."""
+    if path is None or path.names is None:
+        return default_names(2)
+    return tuple(path.names)
 
 
 def drop_repeats(pts: np.ndarray) -> np.ndarray:

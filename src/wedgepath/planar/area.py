@@ -18,12 +18,15 @@ recovered with the parallel-axis shifts.
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass
 
 import numpy as np
 
+from .._results import Result, fmt_number
+from .._scaling import pow2_exponent, pow2_scale
 from ..calculus.green import bounds_nothing as _too_few_points
-from ._input import closed_pieces, finite_result, planar_path
+from ._input import closed_pieces, finite_result, planar_path, plane_names
 
 __all__ = ["signed_area", "region_moments", "RegionMoments"]
 
@@ -120,8 +123,8 @@ def _raw_moments(pts: np.ndarray, ref: np.ndarray) -> np.ndarray:
     ])
 
 
-@dataclass(frozen=True)
-class RegionMoments:
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class RegionMoments(Result):
     """Winding-weighted area moments of a closed planar curve.
 
     Every quantity is an integral over the plane weighted by the winding
@@ -149,6 +152,14 @@ class RegionMoments:
         ``I_x = ∬ w (y-cy)^2 dA`` (about the horizontal axis through the
         centroid), ``I_y = ∬ w (x-cx)^2 dA`` and the product
         ``I_xy = ∬ w (x-cx)(y-cy) dA``.
+    names : tuple of str
+        The two channels (x, y): the path's names, or ``("0", "1")``.
+    closure : str
+        How open pieces were closed.
+    units : mapping or None
+
+    ``to_frame()`` is one row: ``area, int_x, int_y, int_xx, int_xy, int_yy,
+    centroid_x, centroid_y, I_x, I_y, I_xy`` (NaN where there is no centroid).
     """
 
     area: float
@@ -159,6 +170,29 @@ class RegionMoments:
     int_yy: float
     centroid: tuple | None
     central: tuple | None
+    names: tuple = ("0", "1")
+    closure: str = "chord"
+    units: Mapping | None = None
+
+    def to_frame(self):
+        """One row: the moments, the centroid and the centroidal moments."""
+        import pandas as pd
+
+        nan = float("nan")
+        cx, cy = self.centroid if self.centroid is not None else (nan, nan)
+        row = {"area": self.area, "int_x": self.int_x, "int_y": self.int_y,
+               "int_xx": self.int_xx, "int_xy": self.int_xy, "int_yy": self.int_yy,
+               "centroid_x": cx, "centroid_y": cy,
+               "I_x": nan if self.I_x is None else self.I_x,
+               "I_y": nan if self.I_y is None else self.I_y,
+               "I_xy": nan if self.I_xy is None else self.I_xy}
+        return pd.DataFrame({k: [v] for k, v in row.items()})
+
+    def _summary_items(self):
+        c = "None" if self.centroid is None else \
+            "(" + ", ".join(fmt_number(v) for v in self.centroid) + ")"
+        return [("area", fmt_number(self.area)), ("centroid", c),
+                ("names", repr(list(self.names)))]
 
     @property
     def I_x(self):  # noqa: N802 - engineering notation
@@ -223,10 +257,9 @@ def region_moments(path2d, closure="chord") -> RegionMoments:
     # A curve of extreme magnitude is scaled by a power of two (exact) so that
     # third and fourth powers of its coordinates neither overflow nor
     # underflow; each moment is scaled back by its own power.
-    big = max((float(np.abs(p).max()) for p in pieces), default=0.0)
-    k = int(np.frexp(big)[1]) if (big > 2.0 ** 64 or 0.0 < big < 2.0 ** -64) else 0
+    k = pow2_exponent(pieces, safe=64)
     if k:
-        pieces = [np.ldexp(p, -k) for p in pieces]
+        pieces = [pow2_scale(p, -k) for p in pieces]
     raw = np.zeros(6)
     with np.errstate(over="ignore", invalid="ignore"):
         ref = np.concatenate([p[:-1] for p in pieces]).mean(axis=0) if pieces else np.zeros(2)
@@ -252,12 +285,11 @@ def region_moments(path2d, closure="chord") -> RegionMoments:
         centroid = (cx + rx, cy + ry)
         central = (sxx - cx * sx, sxy - cx * sy, syy - cy * sy)
     powers = np.array([2, 3, 3, 4, 4, 4])
-    with np.errstate(over="ignore", under="ignore"):
-        raw = np.ldexp(raw, k * powers)
-        about_origin = np.ldexp(about_origin, k * powers[1:])
-        if centroid is not None:
-            centroid = tuple(float(v) for v in np.ldexp(centroid, k))
-            central = tuple(float(v) for v in np.ldexp(central, 4 * k))
+    raw = pow2_scale(raw, k * powers)
+    about_origin = pow2_scale(about_origin, k * powers[1:])
+    if centroid is not None:
+        centroid = tuple(float(v) for v in pow2_scale(np.array(centroid), k))
+        central = tuple(float(v) for v in pow2_scale(np.array(central), 4 * k))
     finite_result(raw, "region_moments")
     finite_result(about_origin, "region_moments")
     if central is not None:
@@ -265,4 +297,5 @@ def region_moments(path2d, closure="chord") -> RegionMoments:
     a = float(raw[0])
     int_x, int_y, int_xx, int_xy, int_yy = (float(v) for v in about_origin)
     return RegionMoments(area=a, int_x=int_x, int_y=int_y, int_xx=int_xx, int_xy=int_xy,
-                         int_yy=int_yy, centroid=centroid, central=central)
+                         int_yy=int_yy, centroid=centroid, central=central,
+                         names=plane_names(path), closure=closure)

@@ -43,15 +43,19 @@ reported as such (:class:`ArrangementTooLarge`, a ``ValueError``).
 
 from __future__ import annotations
 
-import os
 import warnings
+from collections.abc import Mapping
+from dataclasses import dataclass
 
 import numpy as np
 import shapely
 from scipy.sparse import coo_matrix
 from scipy.sparse.csgraph import breadth_first_order, connected_components
 
-from ._input import closed_pieces, drop_repeats, finite_result, planar_path
+from .._bars import Stages, check_progress
+from .._results import Result, fmt_number
+from .._scaling import pow2_exponent, pow2_scale
+from ._input import closed_pieces, drop_repeats, finite_result, planar_path, plane_names
 from ._predicates import orient_sign
 from .area import _piece_area, _too_few_points
 
@@ -75,8 +79,8 @@ _SMALL_PRODUCT = 256
 _EPS = np.finfo(np.float64).eps
 #: snap-rounding grids tried when floating-point noding fails: extent * 2**-k
 _SNAP_GRIDS = (40, 32, 24)
-#: curves whose largest coordinate lies outside [1/_SAFE, _SAFE] are rescaled for GEOS
-_SAFE = 2.0 ** 64
+#: curves whose largest coordinate lies outside [2**-_SAFE_EXP, 2**_SAFE_EXP] are rescaled for GEOS
+_SAFE_EXP = 64
 
 
 class ArrangementTooLarge(ValueError):
@@ -327,7 +331,8 @@ class DecompositionWarning(UserWarning):
 
 
 # --------------------------------------------------------------------------- results
-class Lobe:
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class Lobe(Result):
     """A connected group of faces whose winding numbers share one sign.
 
     Attributes
@@ -346,19 +351,28 @@ class Lobe:
         Geometric area covered (``sum area``).
     absolute_area : float
         ``sum |w| * area``.
+    names : tuple of str
+        The two channels of the plane (horizontal, vertical).
+    units : mapping or None
+
+    ``to_frame()`` is one row: ``sign, signed_area, area, absolute_area, faces``.
     """
 
-    __slots__ = ("sign", "face_indices", "faces", "winding", "signed_area", "area",
-                 "absolute_area")
+    sign: int
+    face_indices: np.ndarray
+    faces: np.ndarray
+    winding: np.ndarray
+    signed_area: float
+    area: float
+    absolute_area: float
+    names: tuple = ("0", "1")
+    units: Mapping | None = None
 
-    def __init__(self, sign, face_indices, faces, winding, areas):
-        self.sign = int(sign)
-        self.face_indices = face_indices
-        self.faces = faces
-        self.winding = winding
-        self.area = float(areas.sum())
-        self.signed_area = float((winding * areas).sum())
-        self.absolute_area = float((np.abs(winding) * areas).sum())
+    @classmethod
+    def _build(cls, sign, face_indices, faces, winding, areas, names=("0", "1")):
+        return cls(sign=int(sign), face_indices=face_indices, faces=faces, winding=winding,
+                   area=float(areas.sum()), signed_area=float((winding * areas).sum()),
+                   absolute_area=float((np.abs(winding) * areas).sum()), names=names)
 
     @property
     def n_faces(self) -> int:
@@ -369,13 +383,22 @@ class Lobe:
         """The lobe as one shapely geometry (union of its faces; computed on demand)."""
         return shapely.union_all(self.faces)
 
-    def __repr__(self):
-        return (f"Lobe(sign={self.sign:+d}, signed_area={self.signed_area:.6g}, "
-                f"faces={self.n_faces})")
+    def to_frame(self):
+        """One row: ``sign, signed_area, area, absolute_area, faces``."""
+        import pandas as pd
+
+        return pd.DataFrame({"sign": [self.sign], "signed_area": [self.signed_area],
+                             "area": [self.area], "absolute_area": [self.absolute_area],
+                             "faces": [self.n_faces]})
+
+    def _summary_items(self):
+        return [("sign", f"{self.sign:+d}"), ("signed_area", fmt_number(self.signed_area)),
+                ("faces", str(self.n_faces))]
 
 
-class Decomposition:
-    """The faces of a closed planar curve with their winding numbers.
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class Decomposition(Result):
+    """The faces of a closed planar curve with their winding numbers: :func:`decompose`.
 
     Attributes
     ----------
@@ -387,17 +410,17 @@ class Decomposition:
         Winding number of each face (counter-clockwise positive).
     areas : numpy.ndarray of float
         Geometric (positive) area of each face.
+    lobes : tuple of Lobe
+        Connected groups of faces of one sign, largest ``|signed_area|``
+        first.
     signed_area : float
         ``sum(winding * areas)``; equals :func:`signed_area` of the curve up
         to rounding (the difference is ``residual``).
     absolute_area : float
         ``sum(|winding| * areas)``: the area swept, counted with
         multiplicity and without cancellation.
-    area_by_winding : dict
+    area_by_winding : mapping
         ``{k: total area of faces with winding number k}``.
-    lobes : tuple of Lobe
-        Connected groups of faces of one sign, largest ``|signed_area|``
-        first.
     mixed_signs : bool
         True when lobes of both signs exist: the net ``signed_area`` then
         hides cancelling parts (a figure-eight nets about zero).
@@ -406,31 +429,55 @@ class Decomposition:
         lobes cancel completely); 0.0 for an empty decomposition.
     residual : float
         ``signed_area`` minus the shoelace area of the curve.
-    diagnostics : dict
+    diagnostics : mapping
         How the faces and windings were obtained: ``"noding"`` (GEOS
         ``"floating point"`` noding, or ``"snap-rounded, grid g"`` when that
         failed, as it can for laps that nearly coincide; faces are then
         exact to within the grid), ``"multiplicities"`` (``"ordered"`` or
         ``"matched"``), ``"inconsistent_adjacencies"`` and
         ``"unreached_faces"`` (both 0 unless the noding misbehaved).
+    names : tuple of str
+        The two channels of the plane (horizontal, vertical): the path's
+        names, or ``("0", "1")``.
+    closure : str
+        How open pieces were closed.
+    units : mapping or None
+
+    ``to_frame()`` has one row per face, columns ``face, winding, area,
+    lobe`` (``lobe``: index into ``lobes``, -1 for a face of winding 0);
+    :meth:`lobes_frame` one row per lobe.
     """
 
-    def __init__(self, faces, winding, areas, lobes, shoelace, diagnostics):
-        self.faces = faces
-        self.winding = winding
-        self.areas = areas
-        self.lobes = tuple(lobes)
-        self.signed_area = float((winding * areas).sum()) if areas.size else 0.0
-        self.absolute_area = float((np.abs(winding) * areas).sum()) if areas.size else 0.0
+    faces: np.ndarray
+    winding: np.ndarray
+    areas: np.ndarray
+    lobes: tuple
+    signed_area: float
+    absolute_area: float
+    area_by_winding: Mapping
+    mixed_signs: bool
+    cancellation: float
+    residual: float
+    diagnostics: Mapping
+    names: tuple = ("0", "1")
+    closure: str = "chord"
+    units: Mapping | None = None
+
+    @classmethod
+    def _build(cls, faces, winding, areas, lobes, shoelace, diagnostics, names=("0", "1"),
+               closure="chord"):
+        lobes = tuple(lobes)
+        signed = float((winding * areas).sum()) if areas.size else 0.0
+        absolute = float((np.abs(winding) * areas).sum()) if areas.size else 0.0
         keys, inv = np.unique(winding, return_inverse=True)
         sums = np.bincount(inv.ravel(), weights=areas, minlength=keys.size) if keys.size else []
-        self.area_by_winding = {int(k): float(v) for k, v in zip(keys, sums)}
-        signs = {lobe.sign for lobe in self.lobes}
-        self.mixed_signs = len(signs) > 1
-        self.cancellation = (1.0 - abs(self.signed_area) / self.absolute_area
-                             if self.absolute_area > 0 else 0.0)
-        self.residual = self.signed_area - shoelace
-        self.diagnostics = diagnostics
+        by_winding = {int(k): float(v) for k, v in zip(keys, sums)}
+        return cls(faces=faces, winding=winding, areas=areas, lobes=lobes, signed_area=signed,
+                   absolute_area=absolute, area_by_winding=by_winding,
+                   mixed_signs=len({lobe.sign for lobe in lobes}) > 1,
+                   cancellation=(1.0 - abs(signed) / absolute if absolute > 0 else 0.0),
+                   residual=signed - shoelace, diagnostics=dict(diagnostics), names=names,
+                   closure=closure)
 
     @property
     def n_faces(self) -> int:
@@ -454,6 +501,27 @@ class Decomposition:
             raise ValueError(f"fraction must be in [0, 1], got {fraction}")
         cut = fraction * self.absolute_area
         return tuple(lobe for lobe in self.lobes if lobe.absolute_area >= cut)
+
+    def to_frame(self):
+        """One row per face: ``face, winding, area, lobe`` (-1: in no lobe, winding 0)."""
+        import pandas as pd
+
+        lobe_of = np.full(self.n_faces, -1, dtype=np.int64)
+        for k, lobe in enumerate(self.lobes):
+            lobe_of[lobe.face_indices] = k
+        return pd.DataFrame({"face": np.arange(self.n_faces), "winding": self.winding,
+                             "area": self.areas, "lobe": lobe_of})
+
+    def lobes_frame(self):
+        """One row per lobe: ``lobe, sign, signed_area, area, absolute_area, faces``."""
+        import pandas as pd
+
+        return pd.DataFrame({"lobe": np.arange(len(self.lobes), dtype=np.int64),
+                             "sign": [lb.sign for lb in self.lobes],
+                             "signed_area": [lb.signed_area for lb in self.lobes],
+                             "area": [lb.area for lb in self.lobes],
+                             "absolute_area": [lb.absolute_area for lb in self.lobes],
+                             "faces": [lb.n_faces for lb in self.lobes]})
 
     def summary(self, max_lobes=5) -> str:
         """A short text report; says so when lobes of opposite sign cancel.
@@ -483,12 +551,8 @@ class Decomposition:
             share = a / self.absolute_area if self.absolute_area else 0.0
             lines.append(f"... and {_plural(len(rest), 'smaller lobe')} "
                          f"({share:.2%} of the absolute area)")
-        if self.mixed_signs and self.cancellation >= 0.0005:
-            lines.append(f"NOTE: lobes of opposite sign cancel {self.cancellation:.1%} of the "
-                         "absolute area")
-        elif self.mixed_signs:
-            lines.append(f"note: small lobes of opposite sign cancel only "
-                         f"{100 * self.cancellation:.2g}% of the absolute area")
+        if self.mixed_signs:
+            lines.append(_cancellation_note(self.cancellation))
         bad = self.diagnostics.get("inconsistent_adjacencies", 0)
         if bad:
             lines.append(f"WARNING: {bad} face adjacencies disagree with the windings")
@@ -497,11 +561,23 @@ class Decomposition:
     def __str__(self):
         return self.summary()
 
-    def __repr__(self):
-        flag = ", mixed signs" if self.mixed_signs else ""
-        return (f"Decomposition(faces={self.n_faces}, lobes={len(self.lobes)}, "
-                f"signed_area={self.signed_area:.6g}, absolute_area={self.absolute_area:.6g}"
-                f"{flag})")
+    def _summary_items(self):
+        items = [("faces", str(self.n_faces)), ("lobes", str(len(self.lobes))),
+                 ("signed_area", fmt_number(self.signed_area)),
+                 ("absolute_area", fmt_number(self.absolute_area))]
+        if self.mixed_signs:
+            items += [("mixed_signs", "True"), ("cancellation", f"{self.cancellation:.3g}")]
+        return items
+
+
+def _cancellation_note(cancellation):
+    """The summary's line on lobes of opposite sign (what share of the area cancels)."""
+    pct = 100.0 * cancellation
+    if pct >= 0.05:
+        return (f"NOTE: lobes of opposite sign: {pct:.1f}% of the absolute area cancels out "
+                "in the net signed area")
+    return ("NOTE: lobes of opposite sign, too small to matter: less than 0.05% of the absolute "
+            "area cancels out in the net signed area")
 
 
 def _plural(n, word):
@@ -529,16 +605,16 @@ def decompose(path2d, closure="chord", *, max_crossings=MAX_CROSSINGS,
         crossing).  ``None``: no limit.
     progress : bool or None
         Name the stages on standard error: ``None`` (default) only for large
-        arrangements (20,000 crossings or 200,000 segments and more),
-        ``False`` never, ``True`` always.
+        arrangements (20,000 crossings or 200,000 segments and more) and
+        only on a terminal, ``False`` never, ``True`` always.
 
     Returns
     -------
     Decomposition
         ``.faces`` (shapely polygons), ``.winding``, ``.areas``,
         ``.signed_area`` (equals :func:`signed_area`), ``.absolute_area``,
-        ``.area_by_winding``, ``.lobes``, ``.mixed_signs`` and a
-        ``summary()``.
+        ``.area_by_winding``, ``.lobes``, ``.mixed_signs``, ``summary()``,
+        ``to_frame()`` (one row per face) and ``lobes_frame()``.
 
     Notes
     -----
@@ -559,7 +635,7 @@ def decompose(path2d, closure="chord", *, max_crossings=MAX_CROSSINGS,
     >>> d.mixed_signs, [lobe.sign for lobe in d.lobes]
     (True, [1, -1])
     >>> print(d.summary().splitlines()[-1])
-    NOTE: lobes of opposite sign cancel 100.0% of the absolute area
+    NOTE: lobes of opposite sign: 100.0% of the absolute area cancels out in the net signed area
 
     A square traced twice, counter-clockwise:
 
@@ -573,19 +649,18 @@ def decompose(path2d, closure="chord", *, max_crossings=MAX_CROSSINGS,
             raise ValueError(f"max_crossings must be a whole number >= 0 or None, got "
                              f"{max_crossings!r}")
         max_crossings = int(max_crossings)
-    if progress not in (None, True, False):
-        raise TypeError(f"progress must be True, False or None, got {progress!r}")
+    check_progress(progress)
     path = planar_path(path2d, "decompose")
+    meta = {"names": plane_names(path), "closure": closure}
     # "+ 0.0" turns -0.0 into 0.0: GEOS keeps one of two coordinates that compare
     # equal, and which one it keeps can change from call to call
     pieces = [drop_repeats(p) + 0.0 for p in closed_pieces(path, closure, "decompose")]
     pieces = [p for p in pieces if not _too_few_points(p)]
     # GEOS works in absolute terms: a curve of extreme magnitude is scaled by a
     # power of two (exact, so the arrangement is the same) and scaled back.
-    big = max((float(np.abs(p).max()) for p in pieces), default=0.0)
-    e = -int(np.frexp(big)[1]) if (big > _SAFE or 0.0 < big < 1.0 / _SAFE) else 0
+    e = -pow2_exponent(pieces, safe=_SAFE_EXP)
     if e:
-        pieces = [np.ldexp(p, e) for p in pieces]
+        pieces = [pow2_scale(p, e) for p in pieces]
     # GEOS nodes in absolute coordinates: a curve far from the origin (relative to
     # its size) is moved next to it first, so that crossings a hair from a vertex
     # stay resolvable; faces are moved back at the end.
@@ -593,33 +668,32 @@ def decompose(path2d, closure="chord", *, max_crossings=MAX_CROSSINGS,
     if shift is not None:
         pieces = [p - shift for p in pieces]
     with np.errstate(over="ignore", invalid="ignore", under="ignore"):
-        shoelace = float(np.ldexp(sum(_piece_area(p) for p in pieces), -2 * e))
+        shoelace = float(pow2_scale(sum(_piece_area(p) for p in pieces), -2 * e))
     shoelace = float(finite_result(shoelace, "decompose"))
     diagnostics = {"noding": "none", "multiplicities": "none", "inconsistent_adjacencies": 0,
                    "unreached_faces": 0}
     if not pieces:
-        return _empty(shoelace, diagnostics)
+        return _empty(shoelace, diagnostics, meta)
 
-    from .._progress import Stages
-    quiet_env = os.environ.get("WEDGEPATH_PROGRESS", "").strip() == "0"
+    # automatic (None): named only for large arrangements, decided once the crossings are counted
     with Stages("decompose", ["counting crossings", "noding", "faces and windings"],
-                enabled=bool(progress)) as stages:
+                enabled=False if progress is None else progress) as stages:
         stages.start("counting crossings")
         cap = None if max_crossings is None else max(10 ** 7, 50 * max_crossings)
         count = count_crossings(pieces, limit=max_crossings, max_candidates=cap)
         if not count.complete or (max_crossings is not None and count.crossings > max_crossings):
             raise _too_large(count, max_crossings)
-        if progress is None and not quiet_env and (count.crossings >= _SLOW_CROSSINGS
-                                                   or count.segments >= _SLOW_SEGMENTS):
-            stages.enabled = True
+        if progress is None and (count.crossings >= _SLOW_CROSSINGS
+                                 or count.segments >= _SLOW_SEGMENTS):
+            stages.enabled = None           # automatic: on a terminal, unless switched off
         try:
             return _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count,
-                                stages)
+                                stages, meta)
         except MemoryError:
             raise _out_of_memory(count, max_crossings) from None
 
 
-def _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count, stages):
+def _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count, stages, meta):
     """The faces, windings and lobes of the prepared pieces (see decompose)."""
     lines = shapely.linestrings(pieces[0]) if len(pieces) == 1 else \
         shapely.multilinestrings([shapely.linestrings(p) for p in pieces])
@@ -630,8 +704,7 @@ def _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count, 
     for p in pieces:
         c = p - p[:-1].mean(axis=0)
         terms += float(np.sum(np.abs(c[:-1, 0] * c[1:, 1]) + np.abs(c[1:, 0] * c[:-1, 1])))
-    with np.errstate(over="ignore", under="ignore"):
-        noise = float(np.ldexp(64 * _EPS * terms, -2 * e))
+    noise = float(pow2_scale(64 * _EPS * terms, -2 * e))
     result = None
     geos_error = None
     stages.start("noding")
@@ -658,7 +731,7 @@ def _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count, 
                                  else f"snap-rounded, grid {grid:.3g}")
         if faces.size == 0:
             diagnostics["multiplicities"] = "no faces"
-            return _checked(_empty(shoelace, diagnostics), noise)
+            return _checked(_empty(shoelace, diagnostics, meta), noise)
         with np.errstate(over="ignore", invalid="ignore"):
             rings = _Rings(faces)
         finite_result(rings.face_area, "decompose")
@@ -685,7 +758,7 @@ def _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count, 
         pts = shapely.get_coordinates(shapely.point_on_surface(faces[unreached]))
         if shift is not None:
             pts = pts + shift
-        winding[unreached] = winding_number(path, np.ldexp(pts, -e), closure=closure)
+        winding[unreached] = winding_number(path, pow2_scale(pts, -e), closure=closure)
     bad = int(result["inconsistent"] + result["unmatched"])
     diagnostics.update(multiplicities=mode, inconsistent_adjacencies=bad,
                        unreached_faces=int(unreached.size))
@@ -701,11 +774,11 @@ def _arrangement(path, closure, pieces, e, shift, shoelace, diagnostics, count, 
     if shift is not None:
         faces = shapely.transform(faces, lambda c: c + shift)
     if e:
-        with np.errstate(over="ignore", under="ignore"):
-            face_area = finite_result(np.ldexp(face_area, -2 * e), "decompose")
-        faces = shapely.transform(faces, lambda c: np.ldexp(c, -e))
-    lobes = _lobes(faces, winding, face_area, result["pairs"])
-    return _checked(Decomposition(faces, winding, face_area, lobes, shoelace, diagnostics), noise)
+        face_area = finite_result(pow2_scale(face_area, -2 * e), "decompose")
+        faces = shapely.transform(faces, lambda c: pow2_scale(c, -e))
+    lobes = _lobes(faces, winding, face_area, result["pairs"], meta["names"])
+    return _checked(Decomposition._build(faces, winding, face_area, lobes, shoelace, diagnostics,
+                                         **meta), noise)
 
 
 def _local_origin(pieces):
@@ -722,7 +795,7 @@ def _local_origin(pieces):
     mid = 0.5 * lo + 0.5 * hi
     if extent == 0.0 or float(np.abs(mid).max()) <= extent:
         return None
-    q = 2.0 ** (int(np.frexp(extent)[1]) - 20)
+    q = 2.0 ** (pow2_exponent(extent) - 20)
     return np.round(mid / q) * q
 
 
@@ -742,9 +815,9 @@ def _checked(dec, noise):
     return dec
 
 
-def _empty(shoelace, diagnostics):
-    return Decomposition(np.empty(0, dtype=object), np.zeros(0, dtype=np.int64), np.zeros(0),
-                         (), shoelace, diagnostics)
+def _empty(shoelace, diagnostics, meta):
+    return Decomposition._build(np.empty(0, dtype=object), np.zeros(0, dtype=np.int64),
+                                np.zeros(0), (), shoelace, diagnostics, **meta)
 
 
 # --------------------------------------------------------------------------- rings of faces
@@ -1040,7 +1113,7 @@ def _windings(rings: _Rings, seg: _NodedSegments, n_faces: int):
 
 
 # --------------------------------------------------------------------------- lobes
-def _lobes(faces, winding, areas, pairs):
+def _lobes(faces, winding, areas, pairs, names):
     F, G = pairs
     n = faces.size
     sign = np.sign(winding)
@@ -1057,6 +1130,6 @@ def _lobes(faces, winding, areas, pairs):
     members = nonzero[order]
     cuts = np.flatnonzero(np.diff(lab[order])) + 1
     groups = np.split(members, cuts)
-    lobes = [Lobe(sign[g[0]], g, faces[g], winding[g], areas[g]) for g in groups]
+    lobes = [Lobe._build(sign[g[0]], g, faces[g], winding[g], areas[g], names) for g in groups]
     lobes.sort(key=lambda lb: -abs(lb.signed_area))
     return lobes

@@ -38,7 +38,7 @@ def _from_text(text, symbols):
     return parse_formula(text, dict(zip(names, syms))), syms
 
 
-def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rtol=1e-10,
+def region_integral(f, path2d, closure="chord", *, symbols=None, poly_degree=None, rtol=1e-10,
                     atol=0.0, order=None, max_levels=30, resolution=32,
                     max_evaluations=None) -> Integral:
     """Integral of ``f`` over the winding-weighted region of a closed planar curve.
@@ -68,10 +68,10 @@ def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rt
     symbols : pair of sympy.Symbol, optional
         The coordinate symbols ``(x, y)`` of a sympy integrand (or the
         variable names of a formula).
-    degree : int, optional
+    poly_degree : int, optional
         Declares that a callable ``f`` is a polynomial of total degree at
-        most ``degree``; it is then integrated exactly.  Only declare it
-        when it is true.
+        most ``poly_degree``; it is then integrated exactly.  Only declare
+        it when it is true.
     rtol, atol : float
         Tolerance of the adaptive rule (non-polynomial ``f``): the
         estimated error is driven below ``max(atol, rtol * S)`` with ``S``
@@ -137,7 +137,7 @@ def region_integral(f, path2d, closure="chord", *, symbols=None, degree=None, rt
         if isinstance(f, bytes):
             raise TypeError("the integrand formula must be text (str), got bytes")
         f, symbols = _from_text(f, symbols)
-    fn = integrand(f, symbols, degree)
+    fn = integrand(f, symbols, poly_degree)
     path = planar_path(path2d, "region_integral")
     pieces = closed_pieces(path, closure, "region_integral")
     opts = options(rtol, atol, order, max_levels, resolution, max_evaluations)

@@ -37,6 +37,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from .._scaling import pow2_exponent, pow2_scale
 from .._validation import as_float_array
 from ._input import closed_pieces, planar_path
 from ._predicates import orient_sign
@@ -47,7 +48,7 @@ _EPS = 2.0 ** -53
 _QUERY_CHUNK = 1 << 20    # queries handled per pass (bounds memory)
 _PAIR_CHUNK = 1 << 21     # (sub-edge, query) pairs tested per pass
 _MAX_COORD = 1e150        # larger coordinates are refused (documented limit)
-_SAFE = 2.0 ** 400        # curves beyond this magnitude (or below its inverse) are rescaled
+_SAFE_EXP = 400          # curves beyond 2**400 in magnitude (or below 2**-400) are rescaled
 
 
 def winding_number(path2d, points, closure="chord"):
@@ -121,17 +122,15 @@ def winding_number(path2d, points, closure="chord"):
             raise ValueError(f"winding_number: {what} has coordinates up to {big:.3g}; exact "
                              f"tests support magnitudes up to {_MAX_COORD:g} (rescale both "
                              "the path and the points)")
-    big = max((float(np.abs(a).max()) for a in pieces if a.size), default=0.0)
-    if big > _SAFE or 0.0 < big < 1.0 / _SAFE:
+    e = pow2_exponent(pieces, safe=_SAFE_EXP)
+    if e:
         # Winding numbers do not change when the plane is scaled: scale path
         # and points by the same power of two (exact) so that the products in
         # the exact orientation test neither overflow nor underflow.  Points
         # pushed to +-inf or 0 by it lie far outside the curve's box and are
         # decided by comparisons alone.
-        e = -int(np.frexp(big)[1])
-        with np.errstate(over="ignore", under="ignore"):
-            pieces = [np.ldexp(a, e) for a in pieces]
-            q = np.ldexp(q, e)
+        pieces = [pow2_scale(a, -e) for a in pieces]
+        q = pow2_scale(q, -e)
     edges = _edges(pieces)
     out = np.zeros(q.shape[0], dtype=np.int64)
     if edges is not None and q.shape[0]:

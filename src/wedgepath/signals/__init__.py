@@ -6,7 +6,10 @@ strongly (its normalisations), in what cyclic order the channels move
 (:func:`cyclic_order`), whether it is more than chance
 (:func:`surrogate_test`, :func:`bootstrap_area`), how it changes over time
 (:func:`rolling_area_matrix`, :class:`AreaAccumulator`) and what each cycle of
-a loop contributes (:func:`cycle_areas`).  See ``docs/signals.md``.
+a loop contributes (:func:`cycle_areas`).  :func:`pair_table` puts a matrix,
+its significance and its intervals into one table.  Every result is a
+labelled value with ``to_frame()`` (see ``docs/conventions.md``).  See
+``docs/signals.md``.
 """
 
 from ._kernel import ConstantChannelWarning
@@ -14,6 +17,7 @@ from .align import align
 from .areas import NORMALIZATIONS, AreaMatrix, area_matrix, hilbert_energy
 from .cycles import CycleAreas, cycle_areas
 from .order import CyclicOrder, cyclic_order, noise_fit_baseline
+from .pairs import pair_table
 from .rolling import RollingAreas, rolling_area_matrix
 from .significance import (SURROGATE_METHODS, BootstrapResult, SurrogateResult,
                            SurrogateWarning, benjamini_hochberg, bootstrap_area, decorrelation_lag,
@@ -33,4 +37,6 @@ __all__ = [
     "BootstrapResult", "benjamini_hochberg", "decorrelation_lag", "SurrogateWarning",
     # per-cycle loops
     "cycle_areas", "CycleAreas",
+    # the table of pairs
+    "pair_table",
 ]

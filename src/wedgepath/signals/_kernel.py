@@ -28,6 +28,8 @@ from collections.abc import Mapping
 
 import numpy as np
 
+from .._scaling import pow2_exponents, pow2_scale
+from .._results import default_names
 from .._validation import as_float_array, check_choice, check_names, check_times  # noqa: F401 (re-exported)
 from ..calculus.paths import CLOSURES, Path
 
@@ -69,19 +71,33 @@ class SignalData:
 
     ``values`` is never written to.  It may be the caller's own array (no
     copy) when that is already a real numeric ndarray; chunks are converted
-    to float64 as they are read.
+    to float64 as they are read.  ``units`` (channel name -> unit text) comes
+    from a DataFrame's ``attrs["units"]`` when it has one.
     """
 
-    __slots__ = ("values", "times", "names")
+    __slots__ = ("values", "times", "names", "units")
 
-    def __init__(self, values, times, names):
+    def __init__(self, values, times, names, units=None):
         self.values = values
         self.times = times
         self.names = names
+        self.units = units
 
     @property
     def shape(self):
         return self.values.shape
+
+    @property
+    def labels(self) -> tuple:
+        """The channel names, ``"0", "1", ...`` when the input had none."""
+        return self.names if self.names is not None else default_names(self.values.shape[1])
+
+    def units_of(self, names=None):
+        """The units of the channels ``names`` (default: all) that have one, or None."""
+        if not self.units:
+            return None
+        keep = {k: v for k, v in self.units.items() if names is None or k in names}
+        return keep or None
 
     def rows(self, a, b):
         """Rows ``a:b`` as float64 (a view when the input already is float64)."""
@@ -96,6 +112,16 @@ def _is_dataframe(obj) -> bool:
 def _is_series(obj) -> bool:
     return (hasattr(obj, "index") and hasattr(obj, "to_numpy") and hasattr(obj, "dtype")
             and not hasattr(obj, "columns") and not isinstance(obj, np.ndarray))
+
+
+def _frame_units(df, names):
+    """``df.attrs["units"]`` restricted to the channels, when it maps names to unit text."""
+    attrs = getattr(df, "attrs", None)
+    units = attrs.get("units") if isinstance(attrs, Mapping) else None
+    if not isinstance(units, Mapping):
+        return None
+    keep = {str(k): v for k, v in units.items() if str(k) in names and isinstance(v, str)}
+    return keep or None
 
 
 def _frame_values(df, what):
@@ -155,6 +181,7 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
             names = [str(k) for k in keys]
             X = np.column_stack(cols) if cols else np.empty((0, 0))
 
+    units = None
     if isinstance(X, Path):
         if times is not None and X.times is not None:
             raise ValueError("times given twice: the Path already has times")
@@ -168,6 +195,7 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
         if names is not None and tuple(names) != tuple(df_names):
             raise ValueError(f"names {list(names)} do not match the DataFrame columns {df_names}")
         names = df_names
+        units = _frame_units(X, df_names)
     else:
         if isinstance(X, np.ma.MaskedArray):
             # masked entries are gaps: a NaN copy (np.asarray would drop the mask)
@@ -201,7 +229,7 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
         times = check_times(times, T)
     if names is not None:
         names = check_names(names, n)
-    return SignalData(values, times, names)
+    return SignalData(values, times, names, units)
 
 
 def check_closure(closure):
@@ -387,7 +415,7 @@ def channel_exponents(data: SignalData):
         blk = np.abs(np.asarray(values[a:a + step], dtype=np.float64))
         m = np.fmax(m, np.fmax.reduce(blk, axis=0))
     m = np.nan_to_num(m, nan=0.0)
-    e = np.where(m > 0, np.frexp(m)[1], 0).astype(np.int64)
+    e = pow2_exponents(m[None, :], axis=0)
     nz = m > 0
     needed = bool(np.any(nz & ((m < 2.0 ** -SAFE_EXP) | (m > 2.0 ** SAFE_EXP))))
     return e, needed
@@ -395,15 +423,14 @@ def channel_exponents(data: SignalData):
 
 def scaled_data(data: SignalData, e) -> SignalData:
     """``data`` with channel k multiplied by ``2**-e[k]`` (exact; a float64 copy)."""
-    values = np.ldexp(np.asarray(data.values, dtype=np.float64), -np.asarray(e)[None, :])
-    return SignalData(values, data.times, data.names)
+    values = pow2_scale(np.asarray(data.values, dtype=np.float64), -np.asarray(e)[None, :])
+    return SignalData(values, data.times, data.names, data.units)
 
 
 def unscale_pairs(A, e, what="area_matrix"):
     """``A[..., i, j] * 2**(e[i] + e[j])``; ValueError when that overflows float64."""
     e = np.asarray(e, dtype=np.int64)
-    with np.errstate(over="ignore", under="ignore"):
-        out = np.ldexp(A, e[:, None] + e[None, :])
+    out = pow2_scale(A, e[:, None] + e[None, :])
     if not np.isfinite(out[np.isfinite(A)]).all():
         raise ValueError(f"{what}: the areas overflow float64 for data this large; rescale the "
                          "data (e.g. divide each channel by its largest value)")

@@ -20,7 +20,7 @@ def _series_parts(s, label):
     return t, s.to_numpy()
 
 
-def align(channels, times=None, names=None) -> Path:
+def align(channels, *, times=None, names=None) -> Path:
     """Align channels sampled at different times onto the union of their time stamps.
 
     Each channel is a sampled curve of its own, piecewise linear in time (the

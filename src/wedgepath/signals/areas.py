@@ -12,8 +12,14 @@ two sinusoids ``x_i = sin t``, ``x_j = sin(t - phi)``, ``0 < phi < pi``, give
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+from dataclasses import dataclass
+from typing import ClassVar
+
 import numpy as np
 
+from .._results import ArrayResult, fmt_names, fmt_number, pair_index
+from .._scaling import pow2_exponents, pow2_scale
 from .._validation import as_float_array, as_int, check_choice
 from ._kernel import (ConstantChannelWarning, channel_exponents, closed_area,  # noqa: F401
                       closed_piece_rows, overflow_error, scaled_data, signal_input,
@@ -32,60 +38,115 @@ _TINY = 2.0 ** -800
 _FFT_BUDGET = 1 << 26
 
 
-class AreaMatrix:
-    """An area matrix with its channel names (returned with ``labels=True``).
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class AreaMatrix(ArrayResult):
+    """An area matrix with its channel names and the conventions it was computed with.
+
+    Returned by :func:`area_matrix`, :meth:`AreaAccumulator.result`,
+    :func:`wedgepath.io.stream_area_matrix` and :mod:`wedgepath.dask`.
+    Array-like: ``np.asarray(m)`` is ``m.values`` (read-only), ``m[i, j]``
+    one entry by index or by name (``m["a", "b"]``), ``m[:, 0]`` any numpy
+    index of the values.
 
     Attributes
     ----------
     values : ndarray, shape (n, n)
-        The (possibly normalised) skew-symmetric matrix.
+        The skew-symmetric matrix: raw areas ``A[i, j]``, or the normalised
+        values when ``normalize`` is set.
     names : tuple of str
         Channel names (``"0", "1", ...`` when the input had none).
-    closure, normalize : str or None
-        How the matrix was computed.
+    closure : str
+        How each piece was closed (see :func:`area_matrix`).
+    normalize : str or None
+        The normalisation of ``values`` (None: raw areas).
+    raw : ndarray (n, n) or None
+        The raw areas when ``values`` are normalised (None otherwise, and
+        where the raw areas are not known).
+    samples : int or None
+        Number of samples (rows, gap rows included) the matrix was computed from.
+    units : mapping or None
+        Channel name -> unit text, where the input had units; a raw area of
+        channels i and j has the unit of x_i times that of x_j.
 
-    Use ``np.asarray(m)`` or ``m.values`` for the array, ``m["a", "b"]`` for
-    one entry by name, and ``m.to_frame()`` for a pandas DataFrame.
+    ``to_frame()`` has one row per pair ``i < j``, columns ``i, j,
+    channel_i, channel_j, area`` (plus ``normalized`` when ``normalize`` is
+    set; ``area`` is then the raw area, NaN where it is not known).
+
+    Examples
+    --------
+    >>> import wedgepath as wp
+    >>> m = wp.area_matrix({"a": [0.0, 1, 1, 0], "b": [0.0, 0, 1, 1]})
+    >>> m
+    AreaMatrix(names=['a', 'b'], closure='chord', normalize=None, max=1 (a leads b), samples=4)
+    >>> m.to_frame()
+       i  j channel_i channel_j  area
+    0  0  1         a         b   1.0
     """
 
-    __slots__ = ("values", "names", "closure", "normalize")
+    _array_field: ClassVar[str] = "values"
 
-    def __init__(self, values, names, closure="chord", normalize=None):
-        self.values = values
-        self.names = tuple(names)
-        self.closure = closure
-        self.normalize = normalize
-
-    def __array__(self, dtype=None, copy=None):
-        return self.values if dtype is None else self.values.astype(dtype)
-
-    @property
-    def shape(self):
-        return self.values.shape
+    values: np.ndarray
+    names: tuple
+    closure: str = "chord"
+    normalize: str | None = None
+    raw: np.ndarray | None = None
+    samples: int | None = None
+    units: Mapping | None = None
 
     def index(self, key) -> int:
+        """Position of a channel given by name or index."""
         if isinstance(key, str):
             try:
                 return self.names.index(key)
             except ValueError:
                 raise KeyError(f"unknown channel {key!r}; channels are {list(self.names)}") from None
-        return int(key)
+        if isinstance(key, (bool, np.bool_)) or not isinstance(key, (int, np.integer)):
+            raise KeyError(f"a channel is a name or an index, got {key!r}")
+        n = len(self.names)
+        k = int(key)
+        if not -n <= k < n:
+            raise KeyError(f"channel index {k} is out of range for {n} channels")
+        return k % n
 
     def __getitem__(self, key):
-        if isinstance(key, tuple) and len(key) == 2:
+        if isinstance(key, tuple) and len(key) == 2 and all(
+                isinstance(k, (str, int, np.integer)) and not isinstance(k, (bool, np.bool_))
+                for k in key):
             return self.values[self.index(key[0]), self.index(key[1])]
-        raise KeyError("index an AreaMatrix with a pair of channel names or indices, e.g. m['a', 'b']")
+        if isinstance(key, str):
+            raise KeyError("index an AreaMatrix with a pair of channel names or indices, "
+                           "e.g. m['a', 'b']")
+        return self.values[key]
 
     def to_frame(self):
-        """The matrix as a pandas DataFrame labelled by channel names."""
+        """One row per pair ``i < j``: ``i, j, channel_i, channel_j, area`` (+ ``normalized``)."""
         import pandas as pd
-        return pd.DataFrame(self.values, index=list(self.names), columns=list(self.names))
 
-    def __repr__(self):
-        with np.printoptions(precision=4, suppress=True):
-            body = np.array2string(self.values, prefix="             ")
-        return (f"AreaMatrix(names={list(self.names)}, closure={self.closure!r}, "
-                f"normalize={self.normalize!r},\n       values={body})")
+        iu, ju = pair_index(len(self.names))
+        nm = np.array(self.names, dtype=object)
+        cols = {"i": iu, "j": ju, "channel_i": nm[iu], "channel_j": nm[ju]}
+        if self.normalize is None:
+            cols["area"] = self.values[iu, ju]
+        else:
+            cols["area"] = self.raw[iu, ju] if self.raw is not None else np.full(iu.size, np.nan)
+            cols["normalized"] = self.values[iu, ju]
+        return pd.DataFrame(cols)
+
+    def _summary_items(self):
+        items = [("names", fmt_names(self.names)), ("closure", repr(self.closure)),
+                 ("normalize", repr(self.normalize))]
+        v = np.where(np.isnan(self.values), 0.0, np.abs(self.values))
+        if v.size and v.max() > 0:
+            i, j = np.unravel_index(int(np.argmax(np.triu(v, 1))), v.shape)
+            a = self.values[i, j]
+            i, j = (i, j) if a >= 0 else (j, i)
+            # the strongest lead: |A[i, j]| with i the leading channel
+            items.append(("max", f"{fmt_number(abs(a), 4)} ({self.names[i]} leads {self.names[j]})"))
+        if self.samples is not None:
+            items.append(("samples", str(self.samples)))
+        if self.units:
+            items.append(("units", repr(dict(self.units))))
+        return items
 
 
 def _pieces_for_norm(sc, closure):
@@ -151,9 +212,8 @@ def _hilbert_energy(x, axis=0):
         return np.zeros(np.delete(x.shape, axis)) if x.ndim > 1 else np.float64(0.0)
     # Each lane is scaled by a power of two (exact) so that the squared Fourier
     # coefficients neither overflow nor underflow; the energy is scaled back.
-    big = np.max(np.abs(x), axis=axis, keepdims=True)
-    ex = np.where(big > 0, np.frexp(big)[1], 0)
-    x = np.ldexp(x, -ex)
+    ex = pow2_exponents(x, axis=axis, keepdims=True)
+    x = pow2_scale(x, -ex)
     xc = x - x.mean(axis=axis, keepdims=True)
     F = np.fft.rfft(xc, axis=axis)
     m = np.arange(F.shape[axis])
@@ -165,8 +225,7 @@ def _hilbert_energy(x, axis=0):
     shape[axis] = -1
     power = F.real ** 2 + F.imag ** 2
     energy = (2.0 / N) * np.sum(power * w.reshape(shape), axis=axis)
-    with np.errstate(over="ignore", under="ignore"):
-        energy = np.ldexp(energy, 2 * np.squeeze(ex, axis=axis))
+    energy = pow2_scale(energy, 2 * np.squeeze(ex, axis=axis))
     if not np.all(np.isfinite(energy)):
         raise ValueError("hilbert_energy: the energy overflows float64 for data this large; "
                          "rescale the data")
@@ -212,8 +271,8 @@ def _normalise(A, data, sc, closure, normalize):
     return out
 
 
-def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, labels=False,
-                tol=None):
+def area_matrix(X, *, times=None, closure="chord", normalize=None, names=None,
+                tol=None) -> AreaMatrix:
     """Oriented areas between every pair of channels, ``A[i, j] = (1/2)∮(x_i dx_j - x_j dx_i)``.
 
     ``A[i, j] > 0`` means channel i leads channel j (the pair turns
@@ -291,16 +350,18 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
         with a :class:`ConstantChannelWarning` naming it.
     names : sequence of str, optional
         Channel names for an array input (DataFrame/Path names are used
-        otherwise; passing different ones is an error).
-    labels : bool
-        Return an :class:`AreaMatrix` (values with names) instead of the
-        plain (n, n) ndarray.
+        otherwise; passing different ones is an error).  Default
+        ``"0", "1", ...``.
     tol : float, optional
         Tolerance of ``closure="require"``.
 
     Returns
     -------
-    ndarray (n, n), or AreaMatrix when ``labels=True``
+    AreaMatrix
+        The (n, n) matrix (``.values``, or ``np.asarray(result)``) with the
+        channel ``names``, ``closure``, ``normalize`` (and the raw areas in
+        ``.raw`` when normalised), ``samples`` and ``units`` (from a
+        DataFrame's ``attrs["units"]``).  ``.to_frame()`` lists the pairs.
 
     Raises
     ------
@@ -318,7 +379,10 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
     >>> import numpy as np
     >>> import wedgepath as wp
     >>> X = np.array([[1.0, 0.0], [0.0, 1.0], [-1.0, 0.0], [0.0, -1.0]])
-    >>> wp.area_matrix(X)
+    >>> A = wp.area_matrix(X)
+    >>> A
+    AreaMatrix(names=['0', '1'], closure='chord', normalize=None, max=2 (0 leads 1), samples=4)
+    >>> A.values
     array([[ 0.,  2.],
            [-2.,  0.]])
 
@@ -329,18 +393,15 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
     >>> round(float(wp.area_matrix(Y, normalize="hilbert")[0, 1]), 10), round(float(np.sin(np.pi / 3)), 10)
     (0.8660254038, 0.8660254038)
 
-    Names travel with ``labels=True``; NaN rows split the data into pieces:
+    Names travel with the result; NaN rows split the data into pieces:
 
-    >>> m = wp.area_matrix({"strain": [0, 1, 1, np.nan, 0, 2], "stress": [0, 0, 1, np.nan, 0, 0]},
-    ...                    labels=True)
+    >>> m = wp.area_matrix({"strain": [0, 1, 1, np.nan, 0, 2], "stress": [0, 0, 1, np.nan, 0, 0]})
     >>> float(m["strain", "stress"])
     0.5
     """
     check_closure(closure)
     if normalize is not None:
         check_choice(normalize, "normalize", NORMALIZATIONS)
-    if not isinstance(labels, bool):
-        raise TypeError(f"labels must be True or False, got {labels!r}")
     if tol is not None:
         if isinstance(tol, (bool, np.bool_)) or not isinstance(tol, (int, float, np.integer,
                                                                      np.floating)):
@@ -348,7 +409,7 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
         if not (np.isfinite(tol) and tol >= 0):
             raise ValueError(f"tol must be a finite number >= 0, got {tol!r}")
     data = signal_input(X, times, names)
-    A = None
+    A = raw = None
     if normalize is None and closure != "require":
         with np.errstate(invalid="ignore", over="ignore", under="ignore"):
             A, sc = closed_area(data, closure, tol)
@@ -361,7 +422,7 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
         if closure == "require":
             e = np.full_like(e, e.max())   # keep the Euclidean gap test meaningful
             if tol is not None and needed:
-                tol = float(np.ldexp(float(tol), -int(e.max())))
+                tol = float(pow2_scale(float(tol), -int(e.max())))
         work = scaled_data(data, e) if needed else data
         with np.errstate(invalid="ignore", over="ignore", under="ignore"):
             A, sc = closed_area(work, closure, tol)
@@ -369,14 +430,14 @@ def area_matrix(X, times=None, closure="chord", normalize=None, *, names=None, l
             A = unscale_pairs(A, e) if needed else A
             if not np.isfinite(A).all():
                 raise overflow_error()
-        elif normalize == "frobenius":
-            if needed:  # the pattern only: a common power of two divides out
-                with np.errstate(under="ignore"):
-                    A = np.ldexp(A, e[:, None] + e[None, :] - 2 * int(e.max()))
+        else:
+            raw = pow2_scale(A, e[:, None] + e[None, :]) if needed else A.copy()
+            if not np.isfinite(raw).all():
+                raw = None              # the raw areas overflow: the normalised ones do not
+            if normalize == "frobenius" and needed:
+                # the pattern only: a common power of two divides out
+                A = pow2_scale(A, e[:, None] + e[None, :] - 2 * int(e.max()))
+            # (per-channel normalisers are invariant to each channel's scale)
             A = _normalise(A, work, sc, closure, normalize)
-        else:  # per-channel normalisers are invariant to each channel's scale
-            A = _normalise(A, work, sc, closure, normalize)
-    if labels:
-        nm = data.names if data.names is not None else tuple(str(k) for k in range(A.shape[0]))
-        return AreaMatrix(A, nm, closure, normalize)
-    return A
+    return AreaMatrix(values=A, names=data.labels, closure=closure, normalize=normalize, raw=raw,
+                      samples=int(data.shape[0]), units=data.units)

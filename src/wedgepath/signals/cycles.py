@@ -2,49 +2,102 @@
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+from dataclasses import dataclass
+from typing import ClassVar
+
 import numpy as np
 
+from .._results import ArrayResult, fmt_number
+from .._scaling import pow2_exponents, pow2_scale
 from .._validation import as_float_array, as_real
 from ._kernel import signal_input
 
 __all__ = ["cycle_areas", "CycleAreas"]
 
 
-class CycleAreas:
-    """Result of :func:`cycle_areas`.
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class CycleAreas(ArrayResult):
+    """Per-cycle loop integrals of one pair of channels: :func:`cycle_areas`.
+
+    Array-like: ``np.asarray(c)`` (or ``c.values``) holds one value per cycle.
 
     Attributes
     ----------
-    areas : ndarray (C,)
-        Oriented area ``A[i, j]`` of each cycle's loop (closed by its chord),
+    values : ndarray (C,)
+        ``∮ x_i dx_j`` over each cycle's loop (closed by its chord), which is
+        ``A[i, j]`` of the cycle: the signed area of the loop drawn with
+        channel i horizontal and j vertical (counter-clockwise positive).
         NaN for a cycle that contains a gap.
-    starts, stops : ndarray (C,)
+    quantity : str
+        Which integral ``values`` hold, in the channels' names, e.g.
+        ``"∮ stress d(strain)"``.
+    names : tuple of str
+        The two channels ``(i, j)``, in that order.
+    start, stop : ndarray (C,)
         Cycle boundaries as fractional sample positions (``12.25`` is a
         quarter of the way from sample 12 to sample 13).
-    start_times, stop_times : ndarray (C,) or None
-        The boundaries in time (linear interpolation), when times were given.
+    start_time, stop_time : ndarray (C,)
+        The boundaries in time (linear interpolation of the times; the
+        sample positions when the input had no times).
+    complete : ndarray of bool (C,)
+        False for a cycle that contains a gap (its value is NaN).
     mean, std : float
         Mean and sample standard deviation (ddof=1) of the complete cycles'
-        areas (NaN when there are too few).
+        values (NaN when there are too few).
     count : int
         Number of complete cycles.
-    pair : tuple of str
-        Channel names (or indices as strings) of ``(i, j)``.
+    reference : str
+        The channel whose upward crossings cut the cycles (None when the
+        boundaries were given).
+    level : float or None
+        The crossing level used (None when the boundaries were given).
+    closure : str
+        ``"chord"``: each cycle's loop is closed by its chord.
+    units : mapping or None
+        Units of the two channels, when the input had them (the values have
+        the unit of x_i times that of x_j).
+
+    ``to_frame()`` has one row per cycle, columns ``cycle`` (0-based),
+    ``start, stop, start_time, stop_time, value, complete``.
     """
 
-    __slots__ = ("areas", "starts", "stops", "start_times", "stop_times", "mean", "std", "count",
-                 "pair")
+    _array_field: ClassVar[str] = "values"
 
-    def __init__(self, **kw):
-        for k in self.__slots__:
-            setattr(self, k, kw[k])
+    values: np.ndarray
+    quantity: str
+    names: tuple
+    start: np.ndarray
+    stop: np.ndarray
+    start_time: np.ndarray
+    stop_time: np.ndarray
+    complete: np.ndarray
+    mean: float
+    std: float
+    count: int
+    reference: str | None = None
+    level: float | None = None
+    closure: str = "chord"
+    units: Mapping | None = None
 
-    def __len__(self):
-        return self.areas.shape[0]
+    def to_frame(self):
+        """One row per cycle: ``cycle, start, stop, start_time, stop_time, value, complete``."""
+        import pandas as pd
 
-    def __repr__(self):
-        return (f"CycleAreas(pair={self.pair}, cycles={len(self)}, complete={self.count}, "
-                f"mean={self.mean:.6g}, std={self.std:.6g})")
+        return pd.DataFrame({"cycle": np.arange(self.values.shape[0]), "start": self.start,
+                             "stop": self.stop, "start_time": self.start_time,
+                             "stop_time": self.stop_time, "value": self.values,
+                             "complete": self.complete})
+
+    def _summary_items(self):
+        return [("quantity", repr(self.quantity)), ("cycles", str(len(self))),
+                ("complete", str(self.count)), ("mean", fmt_number(self.mean)),
+                ("std", fmt_number(self.std, 4))]
+
+
+def quantity_text(x_i, x_j) -> str:
+    """The integral that :func:`cycle_areas` reports for channels ``(i, j)``: ``∮ x_i d(x_j)``."""
+    return f"∮ {x_i} d({x_j})"
 
 
 def _channel(key, names, n, what):
@@ -89,7 +142,7 @@ def _crossings(r, level, hysteresis):
 
 def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boundaries=None,
                 times=None, names=None) -> CycleAreas:
-    """Oriented area of each cycle's loop for one pair of channels.
+    """``∮ x_i dx_j`` over each cycle's loop, for one pair of channels.
 
     The recording is cut at cycle boundaries -- the upward crossings of a
     reference channel through ``level`` (its mean by default), located by
@@ -99,10 +152,19 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
     recording between the first and last boundary; samples before the
     first and after the last boundary are not used.
 
-    For a hysteresis loop with ``i = stress`` and ``j = strain`` the cycle
-    area ``A[stress, strain] = ∮ stress d(strain)`` is the energy dissipated
-    per cycle (per unit volume): positive when stress leads strain, as for
-    any lossy material.
+    The value of a cycle is ``∮ x_i dx_j`` = ``A[i, j]`` of that cycle (as
+    in :func:`area_matrix`): the signed area of the loop drawn with channel
+    i on the horizontal axis and j on the vertical one, counter-clockwise
+    positive.  The result says so in ``.quantity``.  Swapping ``i`` and
+    ``j`` flips the sign (``∮ x_j dx_i = -∮ x_i dx_j`` on a closed loop).
+
+    For a hysteresis loop with ``i = stress`` and ``j = strain`` the value
+    ``∮ stress d(strain)`` is the energy dissipated per cycle (per unit
+    volume): positive when stress leads strain, as for any lossy material.
+    ``wedgepath loop --x strain --y stress`` reports the same number
+    (``--energy y_dx``, its default: ``∮ y dx``, cycles cut by ``--x``), that
+    is ``cycle_areas(X, "stress", "strain", reference="strain")``; see
+    ``docs/conventions.md``.
 
     Parameters
     ----------
@@ -110,7 +172,7 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
         The recording (NaN rows are gaps; a cycle containing one is reported
         as NaN and left out of the mean).
     i, j : int or str
-        The pair of channels (index or name); the result is ``A[i, j]``.
+        The pair of channels (index or name); the result is ``∮ x_i dx_j``.
     reference : int or str, optional
         Channel whose upward crossings delimit the cycles; default ``i``.
     level : float, optional
@@ -126,12 +188,14 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
     times : array_like (T,), optional
         Sample times, used to report the boundaries in time.
     names : sequence of str, optional
-        Channel names for an array input.
+        Channel names for an array input (default ``"0", "1", ...``).
 
     Returns
     -------
     CycleAreas
-        ``.areas`` per cycle, ``.mean``, ``.std``, ``.count``, boundaries.
+        ``.values`` per cycle, ``.quantity``, ``.mean``, ``.std`` (ddof=1),
+        ``.count``, the boundaries (``.start``, ``.stop``, ``.start_time``,
+        ``.stop_time``) and ``.to_frame()``.
 
     Examples
     --------
@@ -144,10 +208,10 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
     >>> t = 2 * np.pi * np.arange(101) / 20 + 0.3
     >>> X = np.column_stack([2.0 * np.sin(t + np.pi / 6), 0.5 * np.sin(t)])
     >>> res = wp.cycle_areas(X, 0, 1, reference=1)
-    >>> len(res), res.count
-    (4, 4)
+    >>> len(res), res.count, res.quantity
+    (4, 4, '∮ 0 d(1)')
     >>> exact = 10 * np.sin(2 * np.pi / 20) * 2.0 * 0.5 * np.sin(np.pi / 6)
-    >>> bool(np.allclose(res.areas, exact, rtol=1e-12))
+    >>> bool(np.allclose(res.values, exact, rtol=1e-12))
     True
     """
     data = signal_input(X, times, names)
@@ -168,6 +232,7 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
         if reference is not None or level is not None:
             raise ValueError("give either boundaries or reference/level, not both")
         pos = as_float_array(boundaries, "boundaries", ndim=1)
+        ref_name, lev = None, None
         if pos.size and (pos[0] < 0 or pos[-1] > T - 1):
             raise ValueError(f"boundaries must lie within [0, {T - 1}] (sample positions)")
         if pos.size > 1 and not np.all(np.diff(pos) > 0):
@@ -188,37 +253,36 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
             raise ValueError("the reference channel is constant, so it has no crossings; "
                              "choose another reference or give boundaries")
         pos = _crossings(r, lev, hysteresis)
-    pair = tuple(nm[k] if nm is not None else str(k) for k in (a, b))
+        ref_name = data.labels[ref]
+    pair = (data.labels[a], data.labels[b])
     C = max(pos.size - 1, 0)
     if C == 0:
-        empty = np.empty(0)
-        return CycleAreas(areas=empty, starts=empty, stops=empty,
-                          start_times=None if data.times is None else empty,
-                          stop_times=None if data.times is None else empty,
-                          mean=np.nan, std=np.nan, count=0, pair=pair)
-    # Each channel is scaled by a power of two (exact) so that no product,
-    # square or sum overflows or underflows; results are scaled back.
-    big = np.fmax.reduce(np.abs(P), axis=0)
-    ex = np.where(big > 0, np.frexp(np.nan_to_num(big))[1], 0)
-    areas = _loop_areas(np.ldexp(P, -ex), pos)
-    good = ~np.isnan(areas)
-    cnt = int(good.sum())
-    mean = areas[good].mean() if cnt else np.nan
-    std = areas[good].std(ddof=1) if cnt > 1 else np.nan
-    k = int(ex.sum())
-    with np.errstate(over="ignore", under="ignore"):
-        areas, mean, std = np.ldexp(areas, k), float(np.ldexp(mean, k)), float(np.ldexp(std, k))
-    if not (np.isfinite(areas[good]).all() and np.isfinite(std if cnt > 1 else 0.0)):
-        raise ValueError("cycle_areas: the areas overflow float64 for data this large; "
-                         "rescale the data (e.g. divide each channel by its largest value)")
-    st, sp = pos[:-1], pos[1:]
-    if data.times is not None:
-        idx = np.arange(T, dtype=np.float64)
-        t_st, t_sp = np.interp(st, idx, data.times), np.interp(sp, idx, data.times)
+        areas = np.empty(0)
+        good = np.zeros(0, dtype=bool)
+        mean = std = float("nan")
     else:
-        t_st = t_sp = None
-    return CycleAreas(areas=areas, starts=st, stops=sp, start_times=t_st, stop_times=t_sp,
-                      mean=mean, std=std, count=cnt, pair=pair)
+        # Each channel is scaled by a power of two (exact) so that no product,
+        # square or sum overflows or underflows; results are scaled back.
+        ex = pow2_exponents(P, axis=0)
+        areas = _loop_areas(pow2_scale(P, -ex), pos)
+        good = ~np.isnan(areas)
+        cnt = int(good.sum())
+        mean = areas[good].mean() if cnt else np.nan
+        std = areas[good].std(ddof=1) if cnt > 1 else np.nan
+        k = int(ex.sum())
+        areas, mean, std = pow2_scale(areas, k), float(pow2_scale(mean, k)), \
+            float(pow2_scale(std, k))
+        if not (np.isfinite(areas[good]).all() and np.isfinite(std if cnt > 1 else 0.0)):
+            raise ValueError("cycle_areas: the areas overflow float64 for data this large; "
+                             "rescale the data (e.g. divide each channel by its largest value)")
+    st, sp = pos[:-1], pos[1:]
+    idx = np.arange(T, dtype=np.float64)
+    tt = data.times if data.times is not None else idx
+    t_st, t_sp = np.interp(st, idx, tt), np.interp(sp, idx, tt)
+    return CycleAreas(values=areas, quantity=quantity_text(*pair), names=pair, start=st, stop=sp,
+                      start_time=t_st, stop_time=t_sp, complete=good, mean=mean, std=std,
+                      count=int(good.sum()), reference=ref_name, level=lev,
+                      units=data.units_of(pair))
 
 
 def _loop_areas(P, pos):

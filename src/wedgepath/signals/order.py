@@ -10,9 +10,13 @@ they are positions in the cycle, not delays (see ``docs/theory.md``, section
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+from dataclasses import dataclass
+
 import numpy as np
 
-from .._validation import as_float_array, as_int
+from .._results import Result, default_names, fmt_names, fmt_number
+from .._validation import as_float_array, as_int, check_names
 from .areas import AreaMatrix
 
 __all__ = ["cyclic_order", "CyclicOrder", "noise_fit_baseline"]
@@ -26,7 +30,8 @@ DENSE_MAX = 256
 N_LEADING = 1
 
 
-class CyclicOrder:
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class CyclicOrder(Result):
     """Result of :func:`cyclic_order`.
 
     Attributes
@@ -51,6 +56,9 @@ class CyclicOrder:
         matrix of size 2 or 3 has rank 2); for more channels, near 1 means one
         cycle explains the lead-lag pattern.  Compare it with
         :func:`noise_fit_baseline`.
+    fit_pvalue : float or None
+        Reserved for a test of the fit against channels without a common
+        cycle; None for now.
     moduli : ndarray of float, shape (n,)
         ``|v_k|`` of the leading eigenvector, scaled so the largest is 1:
         how strongly each channel takes part in the cycle.  Positions of
@@ -60,28 +68,47 @@ class CyclicOrder:
         in decreasing order: all ``floor(n/2)`` of them for up to
         ``DENSE_MAX`` (256) channels; beyond, only the leading one
         (``N_LEADING``), which is all that ``.fit`` needs.
-    names : tuple of str or None
-        Channel names when A carried them.
+    names : tuple of str
+        Channel names (those of the AreaMatrix, or ``"0", "1", ...``).
+    closure, normalize : str or None
+        Conventions of the area matrix the order was computed from (None
+        when it was given as a plain array).
+    units : None
+        Positions are in radians, fit and moduli dimensionless.
+
+    ``to_frame()`` has one row per channel in cycle order, columns ``rank``
+    (0 for the reference channel), ``channel``, ``position_rad`` and
+    ``modulus``.
     """
 
-    __slots__ = ("order", "positions", "fit", "moduli", "eigenvalues", "names")
-
-    def __init__(self, order, positions, fit, moduli, eigenvalues, names):
-        self.order = order
-        self.positions = positions
-        self.fit = fit
-        self.moduli = moduli
-        self.eigenvalues = eigenvalues
-        self.names = names
+    order: np.ndarray
+    positions: np.ndarray
+    fit: float
+    moduli: np.ndarray
+    eigenvalues: np.ndarray
+    names: tuple
+    fit_pvalue: float | None = None
+    closure: str | None = None
+    normalize: str | None = None
+    units: Mapping | None = None
 
     @property
-    def ordered_names(self):
-        """Channel names in cyclic order (None without names)."""
-        return None if self.names is None else [self.names[k] for k in self.order]
+    def ordered_names(self) -> tuple:
+        """Channel names in cyclic order."""
+        return tuple(self.names[k] for k in self.order)
 
-    def __repr__(self):
-        who = self.ordered_names if self.names is not None else self.order.tolist()
-        return f"CyclicOrder(order={who}, fit={self.fit:.3f})"
+    def to_frame(self):
+        """One row per channel in cycle order: ``rank, channel, position_rad, modulus``."""
+        import pandas as pd
+
+        o = np.asarray(self.order)
+        return pd.DataFrame({"rank": np.arange(o.size), "channel": list(self.ordered_names),
+                             "position_rad": self.positions[o], "modulus": self.moduli[o]})
+
+    def _summary_items(self):
+        return [("order", fmt_names(self.ordered_names, 8)), ("fit", fmt_number(self.fit, 3)),
+                ("positions_rad", "[" + ", ".join(f"{p:.3g}" for p in self.positions[
+                    np.asarray(self.order)][:8]) + (", ..." if len(self.order) > 8 else "") + "]")]
 
 
 def _leading_pair(M):
@@ -119,7 +146,7 @@ def _leading_pair(M):
     return e1 + 1j * e2, np.sqrt(w[::2]), lam1 * lam1
 
 
-def noise_fit_baseline(n, *, draws=200, seed=0) -> float:
+def noise_fit_baseline(n, *, n_draws=200, seed=0) -> float:
     """Typical ``fit`` of :func:`cyclic_order` for n channels without a common cycle.
 
     The median fit of skew-symmetric matrices with independent standard
@@ -129,8 +156,8 @@ def noise_fit_baseline(n, *, draws=200, seed=0) -> float:
 
     * n <= 3: 1.0 exactly (every skew-symmetric matrix of size 2 or 3 has
       rank 2, so the fit is always 1: the fit says nothing for n <= 3);
-    * 4 <= n <= 64: the median over ``draws`` seeded simulated matrices,
-      computed in batches (at most ``draws * 64**2`` numbers at once);
+    * 4 <= n <= 64: the median over ``n_draws`` seeded simulated matrices,
+      computed in batches (at most ``n_draws * 64**2`` numbers at once);
     * n > 64: the large-n approximation ``2 lambda_1^2 / ||A||_F^2`` with
       ``||A||_F^2 = n (n - 1)`` and ``lambda_1 = 2 sqrt(n) - 1.80 n^(-1/6)``
       (the edge of the semicircle law plus the median of its Tracy-Widom
@@ -146,7 +173,7 @@ def noise_fit_baseline(n, *, draws=200, seed=0) -> float:
     ----------
     n : int
         Number of channels (>= 2).
-    draws : int
+    n_draws : int
         Simulated matrices (4 <= n <= 64).
     seed : int
         Seed of the simulation (the baseline is reproducible).
@@ -164,11 +191,11 @@ def noise_fit_baseline(n, *, draws=200, seed=0) -> float:
     (0.37, 0.0079)
     """
     n = as_int(n, "n")
-    draws = as_int(draws, "draws")
+    draws = as_int(n_draws, "n_draws")
     if n < 2:
         raise ValueError(f"n must be at least 2 channels, got {n}")
     if draws < 1:
-        raise ValueError(f"draws must be at least 1, got {draws}")
+        raise ValueError(f"n_draws must be at least 1, got {draws}")
     if n <= 3:
         return 1.0
     if n > 64:
@@ -187,7 +214,7 @@ def noise_fit_baseline(n, *, draws=200, seed=0) -> float:
     return float(np.median(fits))
 
 
-def cyclic_order(A, *, start=None) -> CyclicOrder:
+def cyclic_order(A, *, start=None, names=None) -> CyclicOrder:
     """Order channels around the cycle that best explains a skew-symmetric lead matrix.
 
     The chain-of-offsets model (Baryshnikov & Schlafly, "Cyclicity in
@@ -215,11 +242,16 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
     start : int or str, optional
         Channel to start the order at (position 0).  Default: the channel
         taking part most strongly (largest modulus).
+    names : sequence of str, optional
+        Channel names for a plain array ``A`` (an AreaMatrix brings its
+        own); default ``"0", "1", ...``.
 
     Returns
     -------
     CyclicOrder
-        ``.order``, ``.positions``, ``.fit``, ``.moduli``, ``.eigenvalues``.
+        ``.order``, ``.positions`` (radians), ``.fit``, ``.moduli``,
+        ``.eigenvalues``, ``.names``; ``.to_frame()`` lists the channels in
+        cycle order.
 
     Notes
     -----
@@ -265,15 +297,20 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
     >>> res.order.tolist(), np.round(res.positions, 3).tolist()
     ([0, 1, 2], [0.0, 0.894, 1.788])
     """
-    names = None
+    closure = normalize = None
     if isinstance(A, AreaMatrix):
-        names = A.names
+        if names is not None and tuple(names) != A.names:
+            raise ValueError(f"names {list(names)} do not match the AreaMatrix's names "
+                             f"{list(A.names)}")
+        names, closure, normalize = A.names, A.closure, A.normalize
         M = np.array(A.values, dtype=np.float64)
     else:
         M = as_float_array(A, "A", ndim=2, allow_nan=True)
     n = M.shape[0]
     if M.shape != (n, n):
         raise ValueError(f"A must be a square matrix, got shape {M.shape}")
+    if names is not None:
+        names = check_names(names, n)
     if n < 2:
         raise ValueError(f"A has {n} channel(s); a cyclic order needs at least 2")
     if np.isnan(M).any():
@@ -323,4 +360,6 @@ def cyclic_order(A, *, start=None) -> CyclicOrder:
     order = np.argsort(positions, kind="stable")
     if order[0] != ref:  # ties at position 0: put the reference first
         order = np.concatenate(([ref], order[order != ref]))
-    return CyclicOrder(order.astype(np.intp), positions, min(fit, 1.0), mod, lam, names)
+    return CyclicOrder(order=order.astype(np.intp), positions=positions, fit=min(fit, 1.0),
+                       moduli=mod, eigenvalues=lam, names=names or default_names(n),
+                       closure=closure, normalize=normalize)

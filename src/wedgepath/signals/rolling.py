@@ -3,9 +3,13 @@
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
+from dataclasses import dataclass
+from typing import ClassVar
 
 import numpy as np
 
+from .._results import ArrayResult, fmt_names, fmt_number, pair_index
 from .._validation import as_int
 from ._kernel import (channel_exponents, overflow_error, scaled_data, signal_input, skew_half,
                       unscale_pairs, wedge)
@@ -16,53 +20,81 @@ __all__ = ["rolling_area_matrix", "RollingAreas"]
 _BATCH_ELEMENTS = 1 << 22
 
 
-class RollingAreas:
-    """Windowed area matrices with their windows (returned with ``labels=True``).
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class RollingAreas(ArrayResult):
+    """Area matrices of sliding windows, with their windows: :func:`rolling_area_matrix`.
+
+    Array-like: ``np.asarray(r)`` (or ``r.areas``) is the (K, n, n) array,
+    ``r[k]`` the matrix of window ``k``, ``len(r)`` the number of windows.
 
     Attributes
     ----------
     areas : ndarray, shape (K, n, n)
         One chord-closed area matrix per window.
-    start_index, stop_index : ndarray of int, shape (K,)
-        Window ``k`` holds samples ``start_index[k]:stop_index[k]``.
-    start_time, end_time : ndarray of float, shape (K,)
+    start, stop : ndarray of int, shape (K,)
+        Window ``k`` holds samples ``start[k]:stop[k]`` (``stop`` excluded).
+    start_time, stop_time : ndarray of float, shape (K,)
         Time of the first and of the last sample of each window (sample
-        indices when no times were given).
+        positions when the input had no times).
+    window, step : int
+        Samples per window and between window starts.
     names : tuple of str
+    closure : str
+        ``"chord"``: each window is closed by its chord.
+    units : mapping or None
+
+    ``to_frame()`` has one row per window and pair ``i < j``, columns
+    ``window`` (0-based), ``start, stop, start_time, stop_time, i, j,
+    channel_i, channel_j, area``.
     """
 
-    __slots__ = ("areas", "start_index", "stop_index", "start_time", "end_time", "names")
+    _array_field: ClassVar[str] = "areas"
 
-    def __init__(self, areas, start_index, stop_index, start_time, end_time, names):
-        self.areas = areas
-        self.start_index = start_index
-        self.stop_index = stop_index
-        self.start_time = start_time
-        self.end_time = end_time
-        self.names = names
+    areas: np.ndarray
+    start: np.ndarray
+    stop: np.ndarray
+    start_time: np.ndarray
+    stop_time: np.ndarray
+    window: int
+    step: int
+    names: tuple
+    closure: str = "chord"
+    units: Mapping | None = None
 
-    def __array__(self, dtype=None, copy=None):
-        return self.areas if dtype is None else self.areas.astype(dtype)
-
-    def __len__(self):
-        return self.areas.shape[0]
-
-    @property
-    def shape(self):
-        return self.areas.shape
+    def _channel(self, k) -> int:
+        if isinstance(k, str):
+            if k not in self.names:
+                raise KeyError(f"unknown channel {k!r}; channels are {list(self.names)}")
+            return self.names.index(k)
+        return int(k)
 
     def pair(self, i, j) -> np.ndarray:
         """The series ``A[i, j]`` over windows, channels by index or name."""
-        def idx(k):
-            if isinstance(k, str):
-                if k not in self.names:
-                    raise KeyError(f"unknown channel {k!r}; channels are {list(self.names)}")
-                return self.names.index(k)
-            return int(k)
-        return self.areas[:, idx(i), idx(j)]
+        return self.areas[:, self._channel(i), self._channel(j)]
 
-    def __repr__(self):
-        return f"RollingAreas(windows={len(self)}, channels={list(self.names)})"
+    def to_frame(self):
+        """One row per window and pair: ``window, start, stop, start_time, stop_time, i, j, ...``."""
+        import pandas as pd
+
+        K, n = self.areas.shape[0], len(self.names)
+        iu, ju = pair_index(n)
+        P = iu.size
+        k = np.repeat(np.arange(K), P)
+        nm = np.array(self.names, dtype=object)
+        return pd.DataFrame({
+            "window": k, "start": self.start[k], "stop": self.stop[k],
+            "start_time": self.start_time[k], "stop_time": self.stop_time[k],
+            "i": np.tile(iu, K), "j": np.tile(ju, K),
+            "channel_i": np.tile(nm[iu], K), "channel_j": np.tile(nm[ju], K),
+            "area": self.areas[:, iu, ju].reshape(-1)})
+
+    def _summary_items(self):
+        items = [("windows", str(len(self))), ("window", str(self.window)),
+                 ("step", str(self.step)), ("names", fmt_names(self.names))]
+        if len(self):
+            items.append(("span", f"{fmt_number(self.start_time[0])} to "
+                                  f"{fmt_number(self.stop_time[-1])}"))
+        return items
 
 
 def _runs(valid):
@@ -76,7 +108,7 @@ def _runs(valid):
     return s, e
 
 
-def rolling_area_matrix(X, window, step, times=None, *, names=None, labels=False):
+def rolling_area_matrix(X, window, step, *, times=None, names=None) -> RollingAreas:
     """Area matrices of sliding windows, ``(K, n, n)``, at a cost independent of the window.
 
     Window ``k`` holds samples ``k*step : k*step + window``; each window is a
@@ -105,16 +137,15 @@ def rolling_area_matrix(X, window, step, times=None, *, names=None, labels=False
     step : int
         Samples between window starts (at least 1).
     times : array_like (T,), optional
-        Sample times, used only to report the windows' start and end times.
+        Sample times, used only to report the windows' start and stop times.
     names : sequence of str, optional
-        Channel names for an array input.
-    labels : bool
-        Return a :class:`RollingAreas` (areas with window indices, times and
-        names) instead of the plain ndarray.
+        Channel names for an array input (default ``"0", "1", ...``).
 
     Returns
     -------
-    ndarray (K, n, n), or RollingAreas when ``labels=True``
+    RollingAreas
+        The (K, n, n) areas (``np.asarray(result)``) with each window's
+        ``start``/``stop`` sample and ``start_time``/``stop_time``.
 
     Examples
     --------
@@ -126,8 +157,8 @@ def rolling_area_matrix(X, window, step, times=None, *, names=None, labels=False
     (17, 2, 2)
     >>> bool(np.allclose(R[3], wp.area_matrix(X[150:350]), rtol=1e-10, atol=0))
     True
-    >>> r = wp.rolling_area_matrix(X, 200, 50, times=np.arange(1000) * 0.01, labels=True)
-    >>> float(r.start_time[1]), float(r.end_time[1])
+    >>> r = wp.rolling_area_matrix(X, 200, 50, times=np.arange(1000) * 0.01)
+    >>> float(r.start_time[1]), float(r.stop_time[1])
     (0.5, 2.49)
     """
     data = signal_input(X, times, names)
@@ -140,8 +171,6 @@ def rolling_area_matrix(X, window, step, times=None, *, names=None, labels=False
         raise ValueError(f"window={w} is longer than the data ({T} samples)")
     if s < 1:
         raise ValueError(f"step must be at least 1, got {s}")
-    if not isinstance(labels, bool):
-        raise TypeError(f"labels must be True or False, got {labels!r}")
     with np.errstate(over="ignore", invalid="ignore", under="ignore"):
         areas = _rolling(data, w, s)
     if areas.size and not (np.isfinite(areas).all() and np.max(np.abs(areas)) >= 2.0 ** -800):
@@ -154,13 +183,12 @@ def rolling_area_matrix(X, window, step, times=None, *, names=None, labels=False
                                       "rolling_area_matrix")
         if not np.isfinite(areas).all():
             raise overflow_error("rolling_area_matrix")
-    if not labels:
-        return areas
     K = areas.shape[0]
     u = np.arange(K, dtype=np.int64) * s
     t = data.times if data.times is not None else np.arange(T, dtype=np.float64)
-    nm = data.names if data.names is not None else tuple(str(k) for k in range(n))
-    return RollingAreas(areas, u, u + w, t[u], t[u + w - 1], nm)
+    return RollingAreas(areas=areas, start=u, stop=u + w, start_time=t[u],
+                        stop_time=t[u + w - 1], window=w, step=s, names=data.labels,
+                        units=data.units)
 
 
 def _rolling(data, w, step):

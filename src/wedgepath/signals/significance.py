@@ -2,9 +2,14 @@
 
 from __future__ import annotations
 
+from collections.abc import Mapping
+from dataclasses import dataclass
+
 import numpy as np
 
-from .._progress import Progress
+from .._bars import check_progress, progress_bar
+from .._results import Result, fmt_names, fmt_number, pair_index
+from .._scaling import pow2_exponents, pow2_scale
 from .._validation import as_float_array, as_int, as_real, as_rng, check_bool, check_choice
 from ._kernel import signal_input, skew_half, unscale_pairs
 
@@ -30,16 +35,11 @@ def _gap_free(X, times, names, what="X", min_channels=2):
     # before centring, so that the mean of values near the float64 limit cannot
     # overflow, and again after it, so that small deviations from a large mean keep
     # their full range
-    ex = _pow2_exponents(Y)
-    Y = np.ldexp(Y, -ex)
+    ex = pow2_exponents(Y, axis=0)
+    Y = pow2_scale(Y, -ex)
     Y -= Y.mean(axis=0)
-    ex2 = _pow2_exponents(Y)
-    return np.ldexp(Y, -ex2), data.names, ex + ex2
-
-
-def _pow2_exponents(Y):
-    big = np.max(np.abs(Y), axis=0) if Y.shape[0] else np.zeros(Y.shape[1])
-    return np.where(big > 0, np.frexp(big)[1], 0).astype(np.int64)
+    ex2 = pow2_exponents(Y, axis=0)
+    return pow2_scale(Y, -ex2), data, ex + ex2
 
 
 def _cyclic_area(Y):
@@ -232,7 +232,19 @@ def _rounding_tolerance(Y, method):
     return tol
 
 
-class SurrogateResult:
+def _pair_frame(names, area, **extra):
+    """The tidy per-pair table shared by the significance results."""
+    import pandas as pd
+
+    iu, ju = pair_index(len(names))
+    nm = np.array(names, dtype=object)
+    cols = {"i": iu, "j": ju, "channel_i": nm[iu], "channel_j": nm[ju], "area": area[iu, ju]}
+    cols.update({k: v[iu, ju] for k, v in extra.items()})
+    return pd.DataFrame(cols)
+
+
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class SurrogateResult(Result):
     """Result of :func:`surrogate_test`.
 
     Attributes
@@ -251,27 +263,50 @@ class SurrogateResult:
     method : str
     n_surrogates : int
         Surrogates per pair.
+    seed
+        The seed given.
     min_shift : int or None
         Smallest relative circular shift (samples) between two channels of a
         shift surrogate; None for phase surrogates.
-    seed
-    names : tuple of str or None
+    names : tuple of str
+    closure : str
+        ``"chord"`` (the statistic is the chord-closed area).
+    units : mapping or None
+
+    ``to_frame()`` has one row per pair ``i < j``, columns ``i, j,
+    channel_i, channel_j, area, p, q, null_mean, null_std``.
     """
 
-    __slots__ = ("observed", "pvalues", "qvalues", "null_mean", "null_std", "method",
-                 "n_surrogates", "min_shift", "seed", "names")
-
-    def __init__(self, **kw):
-        for k in self.__slots__:
-            setattr(self, k, kw[k])
+    observed: np.ndarray
+    pvalues: np.ndarray
+    qvalues: np.ndarray
+    null_mean: np.ndarray
+    null_std: np.ndarray
+    method: str
+    n_surrogates: int
+    seed: object
+    names: tuple
+    min_shift: int | None = None
+    closure: str = "chord"
+    units: Mapping | None = None
 
     def significant(self, alpha=0.05) -> np.ndarray:
         """Boolean (n, n) matrix of pairs with ``qvalue <= alpha``."""
         return np.nan_to_num(self.qvalues, nan=np.inf) <= alpha
 
-    def __repr__(self):
-        return (f"SurrogateResult(method={self.method!r}, n_surrogates={self.n_surrogates}, "
-                f"significant pairs at 5% FDR={int(self.significant().sum() // 2)})")
+    def to_frame(self):
+        """One row per pair: ``i, j, channel_i, channel_j, area, p, q, null_mean, null_std``."""
+        return _pair_frame(self.names, self.observed, p=self.pvalues, q=self.qvalues,
+                           null_mean=self.null_mean, null_std=self.null_std)
+
+    def _summary_items(self):
+        items = [("method", repr(self.method)), ("n_surrogates", str(self.n_surrogates))]
+        if self.min_shift is not None:
+            items.append(("min_shift", str(self.min_shift)))
+        m = len(self.names) * (len(self.names) - 1) // 2
+        items += [("significant", f"{int(self.significant().sum() // 2)} of {m} pairs at q<=0.05"),
+                  ("names", fmt_names(self.names))]
+        return items
 
 
 def _resolve_min_shift(min_shift, method, Y):
@@ -374,8 +409,8 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
     times, names
         As for :func:`area_matrix` (times are not used by the statistic).
     progress : bool or None
-        Progress indicator on stderr: None shows it only for runs longer
-        than a few seconds, False never, True always.
+        Progress bar on standard error: None (default) only on a terminal
+        and for runs longer than a few seconds, False never, True always.
 
     Returns
     -------
@@ -416,11 +451,12 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
     (True, False)
     """
     check_choice(method, "method", SURROGATE_METHODS)
+    check_progress(progress)
     B = as_int(n_surrogates, "n_surrogates")
     if B < 1:
         raise ValueError(f"n_surrogates must be at least 1, got {B}")
     rng = as_rng(seed)
-    Y, nm, ex = _gap_free(X, times, names)
+    Y, data, ex = _gap_free(X, times, names)
     T, n = Y.shape
     m = _resolve_min_shift(min_shift, method, Y)
     obs = _cyclic_area(Y)
@@ -441,7 +477,7 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
         keep = (T - 2 * m + 1) / T if m > 0 else 1.0   # share of relative shifts allowed
     offdiag = ~np.eye(n, dtype=bool)
     per_batch = max(1, min(256, (1 << 21) // (T * n)))   # surrogates per batch (memory bound)
-    with Progress(B, "surrogates", enabled=progress) as bar:
+    with progress_bar(B, "surrogates", progress) as bar:
         done = 0
         while done < B:
             k = int(min(per_batch, np.ceil((B - done) / keep) + (0 if method == "phase" else 2)))
@@ -476,10 +512,12 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
     return SurrogateResult(observed=unscale_pairs(obs, ex, what), pvalues=p, qvalues=q,
                            null_mean=unscale_pairs(mean, ex, what),
                            null_std=unscale_pairs(np.sqrt(var), ex, what), method=method,
-                           n_surrogates=B, min_shift=m, seed=seed, names=nm)
+                           n_surrogates=B, min_shift=m, seed=seed, names=data.labels,
+                           units=data.units)
 
 
-class BootstrapResult:
+@dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
+class BootstrapResult(Result):
     """Result of :func:`bootstrap_area`.
 
     Attributes
@@ -487,27 +525,47 @@ class BootstrapResult:
     estimate : ndarray (n, n)
         The chord-closed area matrix of the data.
     low, high : ndarray (n, n)
-        Studentized (bootstrap-t) confidence limits at ``level``.
+        Studentized (bootstrap-t) confidence limits at level ``confidence``.
     std : ndarray (n, n)
         Bootstrap standard error (standard deviation of the replicates).
-    level : float
+    confidence : float
+        Confidence level of the interval, in (0, 1).
     block : int
         Block length (samples).
     n_boot : int
-    names : tuple of str or None
+    seed
+        The seed given.
     replicates : ndarray (n_boot, n, n) or None
         Kept when asked for (``keep=True``).
+    names : tuple of str
+    closure : str
+        ``"chord"``.
+    units : mapping or None
+
+    ``to_frame()`` has one row per pair ``i < j``, columns ``i, j,
+    channel_i, channel_j, area, low, high, std``.
     """
 
-    __slots__ = ("estimate", "low", "high", "std", "level", "block", "n_boot", "names",
-                 "replicates")
+    estimate: np.ndarray
+    low: np.ndarray
+    high: np.ndarray
+    std: np.ndarray
+    confidence: float
+    block: int
+    n_boot: int
+    names: tuple
+    seed: object = None
+    replicates: np.ndarray | None = None
+    closure: str = "chord"
+    units: Mapping | None = None
 
-    def __init__(self, **kw):
-        for k in self.__slots__:
-            setattr(self, k, kw[k])
+    def to_frame(self):
+        """One row per pair: ``i, j, channel_i, channel_j, area, low, high, std``."""
+        return _pair_frame(self.names, self.estimate, low=self.low, high=self.high, std=self.std)
 
-    def __repr__(self):
-        return f"BootstrapResult(level={self.level}, block={self.block}, n_boot={self.n_boot})"
+    def _summary_items(self):
+        return [("confidence", fmt_number(self.confidence)), ("block", str(self.block)),
+                ("n_boot", str(self.n_boot)), ("names", fmt_names(self.names))]
 
 
 #: at most this many pairs feed the automatic block length (spread over the matrix)
@@ -577,7 +635,7 @@ def _block_sums(Y, D, starts, length):
     return out
 
 
-def bootstrap_area(X, *, block="auto", n_boot=999, level=0.95, seed=None, times=None,
+def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, times=None,
                    names=None, keep=False, progress=None) -> BootstrapResult:
     """Block-bootstrap confidence intervals for every ``A[i, j]``.
 
@@ -595,7 +653,7 @@ def bootstrap_area(X, *, block="auto", n_boot=999, level=0.95, seed=None, times=
     The interval is studentized (bootstrap-t): each replicate's
     ``t* = (A* - A) / s*``, with ``s*`` the standard error computed from the
     spread of that replicate's own blocks, gives the quantiles ``q``, and
-    ``[A - q_(1+level)/2 s, A - q_(1-level)/2 s]``, ``s`` the same standard
+    ``[A - q_(1+confidence)/2 s, A - q_(1-confidence)/2 s]``, ``s`` the same standard
     error from all blocks of the data (the studentized block bootstrap of
     F. Götze and H. R. Künsch, "Second-order correctness of the blockwise
     bootstrap for stationary observations", Annals of Statistics 24, 1996).
@@ -617,14 +675,17 @@ def bootstrap_area(X, *, block="auto", n_boot=999, level=0.95, seed=None, times=
         Block length in samples (2 to ``T // 4``).
     n_boot : int
         Number of bootstrap replicates (at least 2).
-    level : float
+    confidence : float
         Confidence level of the interval, in (0, 1).
     seed : int, Generator or None
         Random seed (reproducible).
+    times, names
+        As for :func:`area_matrix` (times are not used).
     keep : bool
         Keep the replicates in the result.
     progress : bool or None
-        Progress indicator on stderr (None: only for long runs).
+        Progress bar on standard error: None (default) only on a terminal
+        and for runs longer than a few seconds, False never, True always.
 
     Returns
     -------
@@ -652,7 +713,8 @@ def bootstrap_area(X, *, block="auto", n_boot=999, level=0.95, seed=None, times=
     >>> bool(ci.low[0, 1] < ci.estimate[0, 1] < ci.high[0, 1]), bool(ci.low[0, 1] > 0)
     (True, True)
     """
-    Y, nm, ex = _gap_free(X, times, names)
+    check_progress(progress)
+    Y, data, ex = _gap_free(X, times, names)
     T, n = Y.shape
     if T < 8:
         raise ValueError(f"the bootstrap needs at least 8 samples, got {T}")
@@ -669,9 +731,9 @@ def bootstrap_area(X, *, block="auto", n_boot=999, level=0.95, seed=None, times=
     R = as_int(n_boot, "n_boot")
     if R < 2:
         raise ValueError(f"n_boot must be at least 2, got {R}")
-    level = as_real(level, "level")
+    level = as_real(confidence, "confidence")
     if not 0.0 < level < 1.0:
-        raise ValueError(f"level must lie strictly between 0 and 1, got {level}")
+        raise ValueError(f"confidence must lie strictly between 0 and 1, got {level}")
     keep = check_bool(keep, "keep")
     rng = as_rng(seed)
     k, r = divmod(T, ell)
@@ -694,7 +756,7 @@ def bootstrap_area(X, *, block="auto", n_boot=999, level=0.95, seed=None, times=
     reps = np.empty((R, nn))
     tstar = np.empty((R, nn))
     per = max(1, min(R, _BOOT_ELEMENTS // max(S + nn * 4, 1)))
-    with Progress(R, "bootstrap", enabled=progress) as bar:
+    with progress_bar(R, "bootstrap", progress) as bar:
         for r0 in range(0, R, per):
             r1 = min(R, r0 + per)
             idx = rng.integers(0, S, size=(r1 - r0, k))
@@ -723,5 +785,6 @@ def bootstrap_area(X, *, block="auto", n_boot=999, level=0.95, seed=None, times=
     what = "bootstrap_area"
     return BootstrapResult(estimate=unscale_pairs(estimate, ex, what),
                            low=unscale_pairs(low, ex, what), high=unscale_pairs(high, ex, what),
-                           std=unscale_pairs(std, ex, what), level=level, block=ell, n_boot=R,
-                           names=nm, replicates=unscale_pairs(reps, ex, what) if keep else None)
+                           std=unscale_pairs(std, ex, what), confidence=level, block=ell,
+                           n_boot=R, seed=seed, names=data.labels, units=data.units,
+                           replicates=unscale_pairs(reps, ex, what) if keep else None)

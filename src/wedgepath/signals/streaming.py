@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from .._results import default_names
 from .._validation import as_float_array, as_int, check_bool
 from ._kernel import check_names, scan, skew_half, wedge
 from .areas import AreaMatrix
@@ -68,7 +69,7 @@ class AreaAccumulator:
 
     __slots__ = tuple(k for k in _STATE_KEYS if k != "area") + ("_area", "_comp")
 
-    def __init__(self, n, names=None):
+    def __init__(self, n, *, names=None):
         n = as_int(n, "n")
         if n < 2:
             raise ValueError(f"n={n}: lead-lag needs at least 2 channels")
@@ -106,22 +107,20 @@ class AreaAccumulator:
         """``last - first`` (NaN where either is a gap row)."""
         return self.last - self.first
 
-    def result(self, labels=False):
-        """The area matrix of everything fed so far (chord closure), a copy.
+    def result(self) -> AreaMatrix:
+        """The area matrix of everything fed so far (chord closure).
 
-        With ``labels=True`` an :class:`AreaMatrix` with the names.
+        An :class:`AreaMatrix` with the accumulator's names (``"0", "1", ...``
+        when it has none) and ``samples`` = the rows fed.
         """
-        labels = check_bool(labels, "labels")
         if self.count < 2:
             raise ValueError(f"the accumulator has seen {self.count} sample(s); at least 2 are needed")
         if not np.isfinite(self.area).all():
             raise ValueError("AreaAccumulator: the areas overflow float64 for data this large; "
                              "rescale the data (e.g. divide each channel by its largest value)")
-        A = self.area.copy()
-        if labels:
-            nm = self.names if self.names is not None else tuple(str(k) for k in range(self.n))
-            return AreaMatrix(A, nm, "chord", None)
-        return A
+        nm = self.names if self.names is not None else default_names(self.n)
+        return AreaMatrix(values=self.area.copy(), names=nm, closure="chord", normalize=None,
+                          samples=int(self.count))
 
     def copy(self) -> "AreaAccumulator":
         """An independent copy of the state."""
@@ -145,7 +144,7 @@ class AreaAccumulator:
         missing = [k for k in _STATE_KEYS if k not in state]
         if missing:
             raise ValueError(f"state is missing {missing}")
-        self = cls(state["n"], state["names"])
+        self = cls(state["n"], names=state["names"])
         n = self.n
         count = as_int(state["count"], "count")
         if count < 0:
