@@ -147,7 +147,7 @@ CLASSES = {
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "TableError",
-                                "ChunkError")},
+                                "ChunkError", "ArrangementTooLarge")},
 }
 
 
