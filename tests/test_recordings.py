@@ -166,3 +166,137 @@ class TestShapeAndDtypes:
         X = np.array([[0, 0], [1, 0], [1, 1], [0, 1]], dtype=np.int16)
         df = pd.DataFrame(X, columns=["a", "b"])
         assert float(wp.area_matrix(df)["a", "b"]) == 1.0
+
+
+# --------------------------------------------------------------------------- trials
+def _trials(seed, lead=2, N=10, L=100, noise=1.2, nan_rows=True):
+    """N short trials of a smoothed noise drive: channel 0 leads channel 1 by ``lead`` samples,
+    channel 2 is unrelated.  Invented data (a test model)."""
+    rng = np.random.default_rng(seed)
+    parts, labels = [], []
+    for k in range(N):
+        d = np.convolve(rng.standard_normal(L + 20), np.ones(8) / 8, mode="same")
+        other = np.convolve(rng.standard_normal(L + 20), np.ones(8) / 8, mode="same")
+        X = np.column_stack([d[10:10 + L], d[10 - lead:10 - lead + L], other[10:10 + L]])
+        X += noise * 0.3 * rng.standard_normal(X.shape)
+        parts.append(X)
+        labels += [f"run{k}"] * L
+        if nan_rows and k < N - 1:
+            parts.append(np.full((1, 3), np.nan))
+            labels.append(f"run{k}")
+    return np.vstack(parts), np.array(labels)
+
+
+class TestTrials:
+    def test_area_matrix_per_trial_and_pooled(self):
+        X, lab = _trials(0, nan_rows=False)
+        m = wp.area_matrix(X, trials=lab)
+        per = [wp.area_matrix(X[k * 100:(k + 1) * 100]).values for k in range(10)]
+        np.testing.assert_allclose(m.trial_values, np.array(per), rtol=1e-12, atol=1e-12)
+        np.testing.assert_allclose(m.values, np.sum(per, axis=0), rtol=1e-12, atol=1e-12)
+        assert m.trials == tuple(f"run{k}" for k in range(10))
+        assert m.trial_start.tolist() == list(range(0, 1000, 100))
+        f = m.to_frame()
+        assert f["trial"].tolist()[:3] == ["pooled"] * 3 and len(f) == 33
+        assert f.loc[f.trial == "run3", "area"].tolist() == per[3][np.triu_indices(3, 1)].tolist()
+
+    def test_trial_column_and_gaps_agree(self):
+        X, lab = _trials(1, nan_rows=True)
+        df = pd.DataFrame(X, columns=["a", "b", "c"])
+        df["run"] = lab
+        by_col = wp.area_matrix(df, trials="run", normalize="hilbert")
+        by_gaps = wp.area_matrix(X, trials="gaps", normalize="hilbert")
+        plain = wp.area_matrix(X, normalize="hilbert")       # NaN rows: the same pieces
+        assert by_col.names == ("a", "b", "c")
+        np.testing.assert_allclose(by_col.values, plain.values, rtol=1e-12)
+        np.testing.assert_allclose(by_gaps.values, plain.values, rtol=1e-12)
+        np.testing.assert_allclose(by_col.trial_values, by_gaps.trial_values, rtol=1e-12)
+
+    def test_trial_errors(self):
+        X = np.random.default_rng(0).standard_normal((30, 2))
+        with pytest.raises(ValueError, match="trial 'a' comes back at row 21"):
+            wp.area_matrix(X, trials=["a"] * 10 + ["b"] * 10 + ["a"] * 10)
+        with pytest.raises(ValueError, match="no label at row 4"):
+            wp.area_matrix(X, trials=["a"] * 3 + [None] + ["b"] * 26)
+        with pytest.raises(ValueError, match="29 labels but the data have 30 rows"):
+            wp.area_matrix(X, trials=["a"] * 29)
+        with pytest.raises(ValueError, match="not a column"):
+            wp.area_matrix(pd.DataFrame(X, columns=["x", "y"]), trials="run")
+
+    def test_ten_short_trials_find_the_lead_the_longest_piece_misses(self):
+        # the issue's case: 10 trials of 100 samples separated by NaN rows.  The old
+        # command line tested only the longest gap-free stretch (rows 1-100)
+        X, _ = _trials(3)
+        pooled = wp.surrogate_test(X, n_surrogates=199, seed=1)
+        longest = wp.surrogate_test(X[:100], n_surrogates=199, seed=1)
+        assert pooled.trials == 10 and "within each piece" in pooled.design
+        assert pooled.pvalues[0, 1] == 1 / 200           # no surrogate reaches the data
+        assert longest.pvalues[0, 1] > 0.05
+        assert pooled.pvalues[0, 2] > 0.05                # the unrelated channel
+        np.testing.assert_allclose(pooled.observed, wp.area_matrix(X).values, rtol=1e-10)
+
+    @pytest.mark.slow
+    def test_pooled_surrogates_power_and_size(self):
+        hits_pooled = hits_longest = 0
+        for seed in range(20):
+            X, _ = _trials(seed)
+            hits_pooled += wp.surrogate_test(X, n_surrogates=99, seed=1).qvalues[0, 1] <= 0.05
+            hits_longest += wp.surrogate_test(X[:100], n_surrogates=99,
+                                              seed=1).qvalues[0, 1] <= 0.05
+        assert hits_pooled >= 15 and hits_longest <= 5      # measured: 17 and 2
+        # size: unrelated channels, nominal 5 %; P(Binomial(100, 0.05) > 12) < 0.002
+        false = sum(wp.surrogate_test(_trials(100 + s)[0][:, [0, 2]], n_surrogates=99,
+                                      seed=s).pvalues[0, 1] <= 0.05 for s in range(100))
+        assert false <= 12                                   # measured: 3
+
+    @pytest.mark.slow
+    def test_pooled_bootstrap_coverage(self):
+        # the unrelated pair has expected area 0: nominal 95 % intervals should cover it
+        cover = {"trials": 0, "blocks": 0}
+        for seed in range(100):
+            X, _ = _trials(200 + seed)
+            for how in cover:
+                r = wp.bootstrap_area(X, n_boot=299, seed=seed, resample=how)
+                cover[how] += r.low[0, 2] <= 0 <= r.high[0, 2]
+        # measured: 94 and 91 (blocks of ~24 samples in trials of 100 run a little short)
+        assert cover["trials"] >= 88 and cover["blocks"] >= 85
+
+    def test_surrogates_of_a_trial_column_stay_within_trials(self):
+        X, lab = _trials(4, nan_rows=False)
+        df = pd.DataFrame(X, columns=["a", "b", "c"])
+        df["run"] = lab
+        res = wp.surrogate_test(df, trials="run", n_surrogates=99, seed=0, method="phase")
+        assert res.trials == 10 and res.pvalues[0, 1] <= 0.05
+        # the same trials marked by NaN rows instead of a column: the same pieces, the same test
+        gapped = np.vstack([np.vstack([X[k * 100:(k + 1) * 100], np.full((1, 3), np.nan)])
+                            for k in range(10)])
+        again = wp.surrogate_test(gapped, n_surrogates=99, seed=0, method="phase")
+        np.testing.assert_array_equal(again.pvalues, res.pvalues)
+        shift = wp.surrogate_test(df, trials="run", n_surrogates=99, seed=0)
+        assert shift.pvalues[0, 1] == 0.01
+        # one series without gaps and without trials: the classic test, unchanged
+        one = wp.surrogate_test(X, n_surrogates=99, seed=0, method="phase")
+        assert one.trials == 1 and one.design == "Fourier phase randomisation of each channel"
+
+    def test_bootstrap_resamples_trials_or_blocks_and_says_so(self):
+        X, _ = _trials(5)
+        t = wp.bootstrap_area(X, n_boot=499, seed=0)
+        assert t.resample == "trials" and t.trials == 10 and t.block is None
+        assert "resample='trials'" in repr(t)
+        b = wp.bootstrap_area(X, n_boot=499, seed=0, resample="blocks")
+        assert b.resample == "blocks" and b.trials == 10 and b.block >= 2
+        for r in (t, b):
+            np.testing.assert_allclose(r.estimate, wp.area_matrix(X).values, rtol=1e-10)
+            assert r.low[0, 1] > 0                          # the lead is found
+        few = wp.bootstrap_area(np.vstack([X[:303], X[-100:]]), n_boot=99, seed=0)
+        assert few.resample == "blocks"                     # 4 trials: too few to resample
+        with pytest.raises(ValueError, match="needs several trials"):
+            wp.bootstrap_area(X[:100], resample="trials")
+
+    def test_trial_bootstrap_matches_a_direct_resampling(self):
+        # the replicates are sums of trials drawn with replacement: redo them by hand
+        X, _ = _trials(6)
+        r = wp.bootstrap_area(X, n_boot=50, seed=7, resample="trials", keep=True)
+        At = np.array([wp.area_matrix(X[k * 101:k * 101 + 100]).values for k in range(10)])
+        draws = np.random.default_rng(7).integers(0, 10, size=(50, 10))
+        np.testing.assert_allclose(r.replicates, At[draws].sum(axis=1), rtol=1e-10, atol=1e-10)
