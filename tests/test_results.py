@@ -146,7 +146,7 @@ CLASSES = {
                             "TwoForm", "SimplicialChain", "SimplicialComplex", "WhitneyForm")},
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
-                                "ConstantChannelWarning", "SurrogateWarning", "TableError",
+                                "ConstantChannelWarning", "SurrogateWarning", "ShapeWarning", "TableError",
                                 "ChunkError")},
 }
 
