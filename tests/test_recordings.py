@@ -300,3 +300,28 @@ class TestTrials:
         At = np.array([wp.area_matrix(X[k * 101:k * 101 + 100]).values for k in range(10)])
         draws = np.random.default_rng(7).integers(0, 10, size=(50, 10))
         np.testing.assert_allclose(r.replicates, At[draws].sum(axis=1), rtol=1e-10, atol=1e-10)
+
+
+# --------------------------------------------------------------------------- files
+class TestTrialColumnInFiles:
+    def test_read_labels_csv_and_parquet(self, tmp_path):
+        from wedgepath import io as wio
+
+        df = pd.DataFrame({"t": np.arange(6.0), "a": np.arange(6.0) ** 2,
+                           "trial": ["r1", "r1", "r1", "r 2", "r 2", "r 2"],
+                           "b": [1, 2, 3, 4, 5, 6.0]})
+        p = tmp_path / "x.csv"
+        p.write_text("# a preamble line\n" + df.to_csv(index=False))
+        assert wio.read_labels(p, "trial").tolist() == ["r1"] * 3 + ["r 2"] * 3
+        assert wio.read_table(p, columns="a,b", time_column="t").values.shape == (6, 2)
+        q = tmp_path / "x.parquet"
+        df.assign(trial=[1, 1, 1, 2, 2, 2]).to_parquet(q)
+        assert wio.read_labels(q, "trial").tolist() == ["1"] * 3 + ["2"] * 3
+        with pytest.raises(wio.TableError, match="no column 'nope'"):
+            wio.read_labels(p, "nope")
+        df.loc[3, "trial"] = None
+        df.to_csv(p, index=False)
+        with pytest.raises(wio.TableError, match="empty at data row 4"):
+            wio.read_labels(p, "trial")
+        with pytest.raises(wio.TableError, match="standard input"):
+            wio.read_labels("-", "trial")
