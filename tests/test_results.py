@@ -146,8 +146,8 @@ CLASSES = {
                             "TwoForm", "SimplicialChain", "SimplicialComplex", "WhitneyForm")},
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
-                                "ConstantChannelWarning", "SurrogateWarning", "ShapeWarning", "TableError",
-                                "ChunkError")},
+                                "ConstantChannelWarning", "SurrogateWarning", "ShapeWarning",
+                                "TableError", "ChunkError", "ArrangementTooLarge")},
 }
 
 
