@@ -325,3 +325,82 @@ class TestTrialColumnInFiles:
             wio.read_labels(p, "trial")
         with pytest.raises(wio.TableError, match="standard input"):
             wio.read_labels("-", "trial")
+
+
+# --------------------------------------------------------------------------- report and CLI
+class TestReportAndCommandLine:
+    def test_report_pools_trials_instead_of_the_longest_stretch(self):
+        from wedgepath import report
+
+        X, _ = _trials(3)
+        r = report.leadlag(X, n_surrogates=99, n_boot=99, names=["a", "b", "c"])
+        assert r.significance.trials == 10 and r.bootstrap.resample == "trials"
+        text = "\n".join(r.summary())
+        assert "longest gap-free" not in text
+        assert "within each piece; area summed over 10 pieces" in text
+        assert "resampling 10 whole trials" in text
+        d = r.to_dict()
+        assert d["significance"]["pieces"] == 10 and d["bootstrap"]["resample"] == "trials"
+        assert d["bootstrap"]["block"] is None
+        assert r.significant_pairs() == [(0, 1)]
+
+    def test_report_datetimes_round_trip_to_json_and_csv(self):
+        from wedgepath import report
+
+        X, lab = _trials(3, nan_rows=False)
+        t = pd.date_range("2024-05-01", periods=1000, freq="10ms", tz="UTC")
+        r = report.leadlag(pd.DataFrame(X, columns=["a", "b", "c"], index=t), trials=lab,
+                           window=100, step=100)
+        d = r.to_dict()
+        assert d["time_unit"] == "ISO-8601" and d["rolling"]["time_unit"] == "ISO-8601"
+        assert d["rolling"]["start_time"][:2] == ["2024-05-01T00:00:00Z", "2024-05-01T00:00:01Z"]
+        tables = r.tables()
+        assert tables["rolling.csv"]["end_time"].iloc[0] == "2024-05-01T00:00:00.990Z"
+        assert list(tables["trials.csv"]["trial"].unique()[:3]) == ["pooled", "run0", "run1"]
+        assert d["trials"]["first_row"][:2] == [1, 101]
+        assert "trials.csv" in r.planned_files()
+
+    def test_cli_trial_column_and_iso_times(self, tmp_path):
+        from wedgepath.cli import main
+
+        X, lab = _trials(3, nan_rows=False)
+        df = pd.DataFrame(X, columns=["a", "b", "c"])
+        df.insert(0, "time", pd.date_range("2024-05-01T08:00", periods=1000, freq="10ms")
+                  .strftime("%Y-%m-%dT%H:%M:%S.%f"))
+        df["run"] = lab
+        path = tmp_path / "trials.csv"
+        df.to_csv(path, index=False)
+        out = tmp_path / "out"
+        code = main([ "leadlag", str(path), "--time", "time", "--trial", "run",
+                     "--surrogates", "99", "--window", "200", "--out", str(out),
+                     "--no-figures", "--quiet"])
+        assert code == 0
+        res = json_load(out / "result.json")
+        assert res["input"]["trial_column"] == "run"
+        assert res["significance"]["pieces"] == 10
+        assert res["channels"] == ["a", "b", "c"]
+        assert res["rolling"]["start_time"][1] == "2024-05-01T08:00:00.500"
+        trials = pd.read_csv(out / "trials.csv")
+        assert len(trials) == 33 and trials["trial"].iloc[3] == "run0"
+
+    def test_cli_trial_errors(self, tmp_path, capsys):
+        from wedgepath.cli import main
+
+        path = tmp_path / "t.csv"
+        pd.DataFrame({"a": [1.0, 2, 3, 4], "b": [2.0, 1, 4, 3], "run": [1, 1, 2, 2]}).to_csv(
+            path, index=False)
+        assert main(["leadlag", str(path), "--trial", "nope", "--no-figures", "--quiet",
+                     "--out", str(tmp_path / "o")]) == 2
+        assert "no column 'nope' (--trial)" in capsys.readouterr().err
+        assert main(["leadlag", str(path), "--trial", "run", "--columns", "a,run",
+                     "--no-figures", "--quiet", "--out", str(tmp_path / "o")]) == 2
+        assert "also listed in --columns" in capsys.readouterr().err
+        assert main(["leadlag", str(path), "--trial", "run", "--stream", "--no-figures",
+                     "--quiet", "--out", str(tmp_path / "o")]) == 2
+
+
+def json_load(path):
+    import json
+
+    with open(path) as fh:
+        return json.load(fh)

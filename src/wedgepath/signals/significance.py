@@ -864,8 +864,10 @@ def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, t
     gap-free piece and sums the pieces' replicates (for a few long
     trials).  ``"auto"`` takes trials when there are at least 10 of them,
     blocks otherwise (a common rule of thumb, no source: fewer than about
-    10 trials give too coarse a trial bootstrap).  The result says which
-    (``.resample``).
+    10 trials give too coarse a trial bootstrap), unless pieces shorter
+    than 8 samples hold more than a tenth of the samples (then trials).
+    With blocks, a piece shorter than 8 samples enters every replicate
+    unchanged.  The result says which (``.resample``).
 
     Parameters
     ----------
@@ -1057,7 +1059,10 @@ def _pooled_bootstrap(pieces, owner, data, ex, tr, block, R, level, seed, keep, 
     nn = n * n
     N = int(np.unique(owner).size)         # trials with a piece that has an area
     if resample == "auto":
-        resample = "trials" if N >= 10 else "blocks"
+        lengths = np.array([P.shape[0] for P in pieces])
+        # blocks need pieces of 8 samples or more; shorter ones would enter unchanged
+        blocks_ok = lengths[lengths >= 8].sum() >= 0.9 * lengths.sum()
+        resample = "trials" if N >= 10 or (not blocks_ok and N >= 2) else "blocks"
     rng = as_rng(seed)
     if resample == "trials":
         if N < 2:
@@ -1081,10 +1086,10 @@ def _pooled_bootstrap(pieces, owner, data, ex, tr, block, R, level, seed, keep, 
         ell = None
         count = N
     else:
-        lengths = [P.shape[0] for P in pieces]
-        if min(lengths) < 8:
-            raise ValueError(f"resampling blocks needs at least 8 samples in every trial piece; "
-                             f"the shortest has {min(lengths)} (use resample='trials')")
+        lengths = [P.shape[0] for P in pieces if P.shape[0] >= 8]
+        if not lengths:
+            raise ValueError("resampling blocks needs a trial piece of at least 8 samples "
+                             "(use resample='trials')")
         est = np.zeros(nn)
         se2 = np.zeros(nn)
         reps = np.zeros((R, nn))
@@ -1093,6 +1098,12 @@ def _pooled_bootstrap(pieces, owner, data, ex, tr, block, R, level, seed, keep, 
         with progress_bar(R * len(pieces), "bootstrap", progress) as bar:
             for P in pieces:
                 L = P.shape[0]
+                if L < 8:       # too short to cut into blocks: enters every replicate as is
+                    a = _cyclic_area(P).reshape(nn)
+                    est += a
+                    reps += a
+                    bar.update(R)
+                    continue
                 if isinstance(block, str):
                     if block != "auto":
                         raise ValueError(f"block must be 'auto' or a number of samples, got "
