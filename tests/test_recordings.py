@@ -404,3 +404,37 @@ def json_load(path):
 
     with open(path) as fh:
         return json.load(fh)
+
+
+class TestCommandLineTimesAndColumns:
+    def test_loop_cycles_in_dates(self, tmp_path):
+        from wedgepath.cli import main
+
+        T = 300
+        x = np.arange(T) * 0.2
+        path = tmp_path / "loop.csv"
+        pd.DataFrame({"date": pd.date_range("2020-01-01", periods=T, freq="D")
+                      .strftime("%Y-%m-%d"), "strain": np.sin(x), "stress": np.sin(x + 0.5)}
+                     ).to_csv(path, index=False)
+        assert main(["loop", str(path), "--x", "strain", "--y", "stress", "--time", "date",
+                     "--out", str(tmp_path / "o"), "--no-figures", "--quiet"]) == 0
+        res = json_load(tmp_path / "o" / "result.json")
+        assert res["cycles"]["time_unit"] == "ISO-8601"
+        assert all(s.startswith("2020-") for s in res["cycles"]["start"][:3])
+        cyc = pd.read_csv(tmp_path / "o" / "cycles.csv")
+        assert cyc["start"].iloc[0] == res["cycles"]["start"][0]
+
+    def test_clock_column_is_named_in_the_summary(self, tmp_path, capsys):
+        from wedgepath.cli import main
+
+        T = 300
+        t = np.arange(T) * 0.01
+        path = tmp_path / "clock.csv"
+        pd.DataFrame({"t": t, "a": np.sin(7 * t), "b": np.cos(7 * t)}).to_csv(path, index=False)
+        assert main(["leadlag", str(path), "--out", str(tmp_path / "o"), "--no-figures",
+                     "--quiet"]) == 0
+        out = capsys.readouterr().out
+        assert "column 't' increases in near-constant steps, like a clock" in out
+        assert main(["leadlag", str(path), "--time", "t", "--out", str(tmp_path / "o2"),
+                     "--no-figures", "--quiet"]) == 0
+        assert "like a clock" not in capsys.readouterr().out
