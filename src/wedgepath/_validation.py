@@ -250,7 +250,9 @@ def check_time_axis(times, T: int, what: str = "times"):
             times = times.to_numpy(dtype=np.float64, na_value=np.nan) \
                 if getattr(times.dtype, "kind", "f") in "iufb" or \
                 str(times.dtype) in ("Int64", "Float64") else times.to_numpy()
-        t = as_float_array(times, what, ndim=1, allow_nan=True)
+        # a masked entry is refused by as_float_array itself (naming its index)
+        t = as_float_array(times, what, ndim=1,
+                           allow_nan=not isinstance(times, np.ma.MaskedArray))
         if np.isnan(t).any():
             k = int(np.flatnonzero(np.isnan(t))[0])
             raise ValueError(f"{what}[{k}] is missing (NaN); every sample needs a time")
