@@ -360,6 +360,16 @@ class TestReportAndCommandLine:
         assert d["trials"]["first_row"][:2] == [1, 101]
         assert "trials.csv" in r.planned_files()
 
+    def test_report_takes_a_dataframe_trial_column(self):
+        from wedgepath import report
+
+        X, lab = _trials(3, nan_rows=False)
+        df = pd.DataFrame(X, columns=["a", "b", "c"])
+        df["run"] = lab
+        r = report.leadlag(df, trials="run", n_surrogates=19, seed=0)
+        assert r.names == ("a", "b", "c") and r.trials.trials[0] == "run0"
+        assert r.significance.trials == 10
+
     def test_cli_trial_column_and_iso_times(self, tmp_path):
         from wedgepath.cli import main
 

@@ -737,8 +737,9 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         (:func:`~wedgepath.bootstrap_area`, ``confidence``, ``seed``; whole
         trials when there are at least 10, blocks otherwise) and give each
         channel's position in the cycle an interval.
-    trials : array_like (T,), optional
-        The trial of each row (e.g. a trial column): the report then holds
+    trials : array_like (T,) or str, optional
+        The trial of each row, or the name of a DataFrame column holding it
+        (that column is then not a channel): the report then holds
         the area matrix of every trial (``.trials``, ``trials.csv``), and
         the surrogates and the bootstrap stay within trials.
     top : int
@@ -766,6 +767,9 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     """
     from .signals import area_matrix, bootstrap_area, rolling_area_matrix
 
+    if isinstance(trials, str) and trials != "gaps":      # a DataFrame's trial column
+        from .signals.trials import split_trial_column
+        data, (_, trials) = split_trial_column(data, trials)
     values, times, names = _unpack(data, times, names)
     n = values.shape[1]
     if n < 2:
