@@ -28,8 +28,8 @@ def _gap_free(X, times, names, what="X", min_channels=2):
     if bad.any():
         r, c = (int(v) for v in np.argwhere(bad)[0])
         kind = "NaN (a gap)" if np.isnan(Y[r, c]) else "an infinite value"
-        raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; surrogates and the "
-                         "bootstrap need gap-free data (split the recording at its gaps)")
+        raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; the decorrelation "
+                         "lag needs gap-free data (split the recording at its gaps)")
     # each channel scaled by a power of two (exact): no sum, product or square of
     # areas overflows or underflows; areas are scaled back by unscale_pairs.  Scaled
     # before centring, so that the mean of values near the float64 limit cannot
