@@ -60,7 +60,7 @@ else:
                     suppress_health_check=_HEALTH)
 
 DOCUMENTED_WARNINGS = (wp.ConstantChannelWarning, wp.DecompositionWarning,
-                       wp.IntegrationWarning, wp.SurrogateWarning)
+                       wp.IntegrationWarning, wp.SurrogateWarning, wp.ShapeWarning)
 
 # --------------------------------------------------------------------------- values
 SPECIAL = [0.0, -0.0, 1.0, -1.0, 0.5, 2.0, 3.0, 1e-300, -1e-300, 5e-324, 1e300, -1e300,

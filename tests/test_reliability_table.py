@@ -183,13 +183,14 @@ row("wp.Path(points, times)", "times", "decreasing times",
 row("wp.Path(points, times)", "times", "a repeated time stamp",
     lambda: wp.Path(loop(2), times=np.r_[0.0, T8[:-1]]), ValueError, "strictly increasing")
 row("wp.Path(points, times)", "nan", "a NaN time", lambda: wp.Path(loop(2), times=np.r_[nan, T8[1:]]),
-    ValueError, "times contains NaN")
+    ValueError, "times[0] is missing (NaN)")
 row("wp.Path(points, times)", "inf", "an infinite time",
     lambda: wp.Path(loop(2), times=np.r_[T8[:-1], inf]), ValueError, "times contains an infinite")
 row("wp.Path(points, times)", "ndim", "times of shape (8, 2)",
     lambda: wp.Path(loop(2), times=np.c_[T8, T8]), ValueError, "times must be 1-dimensional")
-row("wp.Path(points, times)", "text", "times as strings",
-    lambda: wp.Path(loop(2), times=["a"] * 8), TypeError, "times holds text")
+row("wp.Path(points, times)", "text", "times as text that is not a date",
+    lambda: wp.Path(loop(2), times=["a"] * 8), ValueError,
+    "times[0] = 'a' is not an ISO-8601 date/time")
 row("wp.Path(points, times)", "complex", "complex times",
     lambda: wp.Path(loop(2), times=T8 + 1j), TypeError, "times has complex")
 row("wp.Path(points, names)", "length", "1 name for 2 channels",
@@ -811,9 +812,11 @@ for name, fn in (("wp.surrogate_test(X)", lambda X, **k: wp.surrogate_test(X, n_
                                                                            **k))):
     array_rows(name, fn, 3, ndim=(ValueError, "must be 2-dimensional"),
                empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
-               allnan=(ValueError, "contains NaN (a gap)"))
-    row(name, "nan", "one NaN row (a gap)", lambda fn=fn: fn(np.r_[loop(3), [[nan] * 3]]),
-        ValueError, "need gap-free data")
+               allnan=(ValueError, "no complete sample"))
+    # gaps separate trials (pooled); pieces of fewer than 3 samples have no area
+    row(name, "nan", "gaps leave no piece of 3 samples",
+        lambda fn=fn: fn(np.r_[loop(3)[:2], [[nan] * 3], loop(3)[:2]]),
+        ValueError, "no trial piece of at least 3")
     row(name, "option", "seed='abc'", lambda name=name: (
         wp.surrogate_test(loop(3), n_surrogates=3, seed="abc") if "surrogate" in name else
         wp.bootstrap_area(loop(3), n_boot=3, seed="abc")), TypeError,

@@ -134,10 +134,16 @@ class TestLoopReport:
 class TestRowNumbersCountFromOne:
     def test_gap_free_stretch_rows_in_json_and_text(self):
         X, names = ring(3, T=200)
+        X[0:3, 0] = np.nan                          # data rows 1-3 (from 1) are gaps
+        r = report.leadlag(X, names=names, n_surrogates=9, progress=False)
+        assert r.to_dict()["significance"]["rows"] == [4, 200]
+        # a gap inside: both pieces are used (pooled within pieces), rows 1 to 200
+        X[0:3, 0] = X[3, 0]
         X[10:13, 0] = np.nan                        # data rows 11-13 (from 1) are gaps
         r = report.leadlag(X, names=names, n_surrogates=9, progress=False)
-        assert r.to_dict()["significance"]["rows"] == [14, 200]
-        assert any("rows 14-200 of 200" in n for n in r.notes)
+        assert r.to_dict()["significance"]["rows"] == [1, 200]
+        assert r.to_dict()["significance"]["pieces"] == 2
+        assert any("pool 2 gap-free pieces" in n for n in r.notes)
 
     def test_windows_and_cycles_without_times(self):
         X, names = ring(3, T=400)

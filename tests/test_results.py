@@ -46,6 +46,16 @@ def _csv():
     return io.StringIO("t,a,b\n0,0,0\n1,1,0\n2,1,1\n3,0,1\n")
 
 
+def _labels():
+    import tempfile
+
+    folder = tempfile.mkdtemp()
+    path = f"{folder}/trials.csv"
+    with open(path, "w") as fh:
+        fh.write("a,b,run\n0,0,r1\n1,1,r1\n2,1,r2\n")
+    return wio.read_labels(path, "run")
+
+
 def _surrogates():
     return wp.surrogate_test(WAVES, n_surrogates=9, seed=0, progress=False)
 
@@ -123,6 +133,7 @@ CALLS = {
     "wedgepath.io.iter_table_chunks": ("results", lambda: list(wio.iter_table_chunks(
         _csv(), time_column="t", chunk_rows=3))),
     "wedgepath.io.table_columns": ("names", lambda: wio.table_columns(_csv())),
+    "wedgepath.io.read_labels": ("array", _labels),
     "wedgepath.io.stream_area_matrix": ("result", lambda: wio.stream_area_matrix(
         _csv(), time_column="t", chunk_rows=2, progress=False)),
     "wedgepath.dask.area_matrix": ("result", lambda: wdask.area_matrix(
@@ -146,8 +157,8 @@ CLASSES = {
                             "TwoForm", "SimplicialChain", "SimplicialComplex", "WhitneyForm")},
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
-                                "ConstantChannelWarning", "SurrogateWarning", "TableError",
-                                "ChunkError", "ArrangementTooLarge")},
+                                "ConstantChannelWarning", "SurrogateWarning", "ShapeWarning",
+                                "TableError", "ChunkError", "ArrangementTooLarge")},
 }
 
 

@@ -335,8 +335,10 @@ class TestSurrogates:
         with pytest.raises(ValueError, match="n_surrogates must be at least 1"):
             wp.surrogate_test(X, n_surrogates=0)
         Y = X.copy()
-        Y[4, 1] = np.nan
-        with pytest.raises(ValueError, match="gap-free"):
+        Y[4, 1] = np.nan          # a gap: the pieces before and after it are two trials
+        assert wp.surrogate_test(Y, n_surrogates=5, seed=0).trials == 2
+        Y[4, 1] = np.inf
+        with pytest.raises(ValueError, match="infinite value at row 4, channel 1"):
             wp.surrogate_test(Y)
         before = X.copy()
         X.flags.writeable = False

@@ -496,6 +496,30 @@ class TimeAxis:
             return np.array(e, dtype=np.float64)
         return format_iso(e, self._origin, self._tz, self._dates)
 
+    def elapsed_of(self, when, name="time"):
+        """Elapsed seconds of one instant on a datetime axis (a number is returned as is).
+
+        ``when`` is a datetime (numpy, pandas, Python) or ISO-8601 text, in
+        the same zoned/naive form as the axis.
+
+        >>> ax = TimeAxis.from_iso(["2020-01-01T00:00", "2020-01-01T01:00"])
+        >>> ax.elapsed_of("2020-01-01T00:30")
+        1800.0
+        """
+        if isinstance(when, numbers.Real) and not isinstance(when, bool):
+            return float(when)
+        if self._kind != "datetime":
+            raise TypeError(f"{name} must be a number on a numeric time axis, got {_show(when)}")
+        other = as_time_axis([when], name=name)
+        if other.kind != "datetime":
+            raise TypeError(f"{name} must be a datetime or ISO-8601 text, got {_show(when)}")
+        if (other.tz is None) != (self._tz is None):
+            raise ValueError(f"{name} = {_show(when)} is " + (
+                "naive but the times have a zone" if other.tz is None else
+                "zoned but the times are naive"))
+        return float(elapsed_seconds(np.array([other.origin]).astype("datetime64[ns]"),
+                                     self._origin.astype("datetime64[ns]"))[0])
+
     def to_datetime64(self, elapsed=None):
         """Instants ``origin + elapsed`` as datetime64[ns] (UTC for zoned axes)."""
         if self._kind != "datetime":

@@ -196,21 +196,95 @@ def check_names(names, n: int, what: str = "names") -> tuple:
     return names
 
 
-def check_times(times, T: int, what: str = "times") -> np.ndarray:
-    """``times`` as a fresh float64 array of ``T`` finite, strictly increasing values."""
-    if hasattr(times, "to_numpy") and not isinstance(times, np.ndarray):
-        times = times.to_numpy()
-    t = as_float_array(times, what, ndim=1)
+def _is_datetime_like(times) -> bool:
+    """True when ``times`` holds datetimes, timedeltas or text (not plain numbers)."""
+    from ._time import TimeAxis
+
+    if isinstance(times, TimeAxis):
+        return True
+    kind = getattr(getattr(times, "dtype", None), "kind", None)
+    if kind is not None:
+        if kind in "mMUS":
+            return True
+        if kind != "O":
+            return False
+    if isinstance(times, (str, bytes)):
+        return False
+    mod = type(times).__module__.split(".")[0]
+    if mod == "pandas" and type(times).__name__ in ("DatetimeIndex", "TimedeltaIndex",
+                                                    "Timestamp"):
+        return True
+    try:
+        first = next(iter(times))
+    except (TypeError, StopIteration):
+        return False
+    import datetime as _dt
+
+    return isinstance(first, (str, np.datetime64, np.timedelta64, _dt.date, _dt.timedelta)) \
+        or type(first).__name__ in ("Timestamp", "Timedelta")
+
+
+def check_time_axis(times, T: int, what: str = "times"):
+    """``times`` as a :class:`~wedgepath._time.TimeAxis` of ``T`` strictly increasing values.
+
+    Numbers (kept as given), ``datetime64``/pandas/Python datetimes and ISO
+    text (elapsed seconds from the first sample), timedeltas (seconds).  A
+    missing, repeated or decreasing time is an error naming its position.
+    """
+    from ._time import TimeAxis, as_time_axis
+
+    if isinstance(times, TimeAxis):
+        ax = times
+    elif _is_datetime_like(times):
+        if isinstance(times, list) and times and isinstance(times[0], _timedelta_type()):
+            times = np.array(times, dtype="timedelta64[us]")
+        elif type(times).__name__ == "Series" and getattr(times.dtype, "kind", "") == "m":
+            times = times.to_numpy()
+        try:
+            ax = as_time_axis(times, name=what)
+        except ValueError as exc:
+            msg = str(exc)
+            raise ValueError(msg if msg.startswith(what) else f"{what}: {msg}") from None
+    else:
+        if hasattr(times, "to_numpy") and not isinstance(times, np.ndarray):
+            times = times.to_numpy(dtype=np.float64, na_value=np.nan) \
+                if getattr(times.dtype, "kind", "f") in "iufb" or \
+                str(times.dtype) in ("Int64", "Float64") else times.to_numpy()
+        # a masked entry is refused by as_float_array itself (naming its index)
+        t = as_float_array(times, what, ndim=1,
+                           allow_nan=not isinstance(times, np.ma.MaskedArray))
+        if np.isnan(t).any():
+            k = int(np.flatnonzero(np.isnan(t))[0])
+            raise ValueError(f"{what}[{k}] is missing (NaN); every sample needs a time")
+        ax = TimeAxis(t, "number", None)
+    t = ax.values
     if t.shape[0] != T:
         raise ValueError(f"{what} has {t.shape[0]} entries but the data have {T} samples")
     if T > 1:
         d = np.diff(t)
         if not np.all(d > 0):
             k = int(np.flatnonzero(~(d > 0))[0])
-            raise ValueError(f"{what} must be strictly increasing; "
-                             f"{what}[{k + 1}]={float(t[k + 1])!r} "
-                             f"does not exceed {what}[{k}]={float(t[k])!r}")
-    return t
+            shown = ax.format(t[k:k + 2]).tolist()
+            how = "repeats" if d[k] == 0 else "comes before"
+            raise ValueError(f"{what} must be strictly increasing; {what}[{k + 1}]="
+                             f"{shown[1]!r} {how} {what}[{k}]={shown[0]!r} (sort the rows by "
+                             "time, or drop the duplicated ones, first)")
+    return ax
+
+
+def _timedelta_type():
+    import datetime as _dt
+
+    return _dt.timedelta
+
+
+def check_times(times, T: int, what: str = "times") -> np.ndarray:
+    """``times`` as a fresh float64 array of ``T`` finite, strictly increasing values.
+
+    Datetimes become elapsed seconds from the first sample (see
+    :func:`check_time_axis`, which keeps what they were).
+    """
+    return np.array(check_time_axis(times, T, what).values, dtype=np.float64)
 
 
 def check_values(vals, m: int, label: str, where) -> np.ndarray:

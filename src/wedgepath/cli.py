@@ -154,7 +154,11 @@ def build_parser():
                         description="Area matrix A[i, j] = (1/2)∮(x_i dx_j - x_j dx_i) of the "
                         "channels of a table: A[i, j] > 0 means channel i leads channel j.")
     _add_table(ll)
-    ll.add_argument("--columns", metavar="A,B,...", help="channels to use (default: all but --time)")
+    ll.add_argument("--columns", metavar="A,B,...",
+                    help="channels to use (default: all but --time and --trial)")
+    ll.add_argument("--trial", metavar="COL",
+                    help="column naming each row's trial (repeated trials, epochs): per-trial "
+                    "area matrices (trials.csv), surrogates and bootstrap within trials")
     ll.add_argument("--closure", default="chord", choices=["chord", "none", "detrend", "require"],
                     help="how each gap-free piece is closed (default: chord)")
     _add_tol(ll)
@@ -186,7 +190,8 @@ def build_parser():
     ll.add_argument("--confidence", type=_fraction, default=0.95, metavar="C",
                     help="confidence level of the bootstrap intervals (default 0.95)")
     _add_common(ll, ["result.json", "area_matrix.csv", "pairs.csv", "rolling.csv (--window)",
-                     "pvalues.csv and qvalues.csv (--surrogates)", "positions.png",
+                     "pvalues.csv and qvalues.csv (--surrogates)", "trials.csv (--trial)",
+                     "positions.png",
                      "pairs.png", "rolling.png (--window)"])
     ll.set_defaults(func=_cmd_leadlag)
 
@@ -325,6 +330,25 @@ def _table_label(path):
 
 
 # --------------------------------------------------------------------------- leadlag
+def _trial_labels(args):
+    """``(channel columns, trial labels)`` for ``--trial COL``: the column is not a channel."""
+    from .io import read_labels, table_columns
+
+    if args.trial == args.time:
+        raise CLIError("--trial and --time name the same column")
+    if args.columns is None:
+        header = table_columns(args.table, args.delimiter)
+        if args.trial not in header:
+            raise CLIError(f"{args.table}: no column {args.trial!r} (--trial)")
+        columns = [c for c in header if c not in (args.trial, args.time)]
+    else:
+        columns = [c.strip() for c in args.columns.split(",")] \
+            if isinstance(args.columns, str) else list(args.columns)
+        if args.trial in columns:
+            raise CLIError(f"--trial column {args.trial!r} is also listed in --columns")
+    return columns, read_labels(args.table, args.trial, delimiter=args.delimiter)
+
+
 def _cmd_leadlag(args):
     from . import report
 
@@ -333,6 +357,7 @@ def _cmd_leadlag(args):
         raise CLIError("--step needs --window")
     if args.stream:
         clash = [flag for flag, val in (("--window", args.window),
+                                         ("--trial", args.trial),
                                          ("--surrogates", args.surrogates),
                                          ("--bootstrap", args.bootstrap),
                                          ("--normalize", args.normalize)) if val]
@@ -342,7 +367,8 @@ def _cmd_leadlag(args):
             raise CLIError("--stream supports --closure chord only")
     figures = _want_figures(args)
     plan = _plan(args, report.leadlag_files(figures, window=bool(args.window),
-                                            significance=bool(args.surrogates)), "leadlag")
+                                            significance=bool(args.surrogates),
+                                            trials=bool(args.trial)), "leadlag")
     source = {"table": _table_label(args.table), "time_column": args.time}
     if args.stream:
         rep = report.leadlag_stream(args.table, columns=args.columns, time_column=args.time,
@@ -351,10 +377,18 @@ def _cmd_leadlag(args):
                                     units=args.units, table_label=source["table"])
         _check_units(args, list(rep.names) + ([args.time] if args.time else []))
         return _emit(args, rep, plan, figures)
-    tab = _load(args, args.columns)
+    columns, labels = args.columns, None
+    if args.trial is not None:
+        columns, labels = _trial_labels(args)
+    tab = _load(args, columns)
     _check_units(args, list(tab.names) + ([args.time] if args.time else []))
     _check_complete_rows(args.table, tab.values, tab.names)
-    rep = report.leadlag(tab, closure=args.closure, normalize=args.normalize,
+    if labels is not None and labels.shape[0] != tab.values.shape[0]:
+        raise CLIError(f"{args.table}: the trial column has {labels.shape[0]} rows but the "
+                       f"table {tab.values.shape[0]}")
+    if labels is not None:
+        source["trial_column"] = args.trial
+    rep = report.leadlag(tab, closure=args.closure, normalize=args.normalize, trials=labels,
                          window=args.window, step=args.step, n_surrogates=args.surrogates,
                          surrogate_method=args.surrogate_method, seed=args.seed,
                          n_boot=args.bootstrap, confidence=args.confidence, top=args.top,

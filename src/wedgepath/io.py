@@ -93,7 +93,7 @@ import numpy as np
 from ._bars import check_progress, progress_bar
 from ._results import Result, fmt_names
 
-__all__ = ["TableError", "Table", "read_table", "iter_table_chunks", "table_columns",
+__all__ = ["TableError", "Table", "read_table", "iter_table_chunks", "table_columns", "read_labels",
            "stream_area_matrix", "GAP_TOKENS", "MAX_LINE_BYTES"]
 
 #: cells read as gaps (NaN), exactly as written here (no surrounding spaces); "" is an empty cell
@@ -1189,6 +1189,72 @@ def _chunk(parts, tparts, names, name, first_row, axis):
         t_axis = axis.with_values(times)
     return Table(values=vals, times=times, names=tuple(names),
                  source=f"{name}:row {first_row + 1}", time_axis=t_axis)
+
+
+def read_labels(source, column, *, delimiter=None):
+    """One column of a table as text labels, one per data row (e.g. a trial column).
+
+    Parameters
+    ----------
+    source : str or path-like
+        A ``.csv``/``.tsv``/``.tab`` or ``.parquet``/``.pq`` file (a path: the
+        table is read a second time for the labels, so standard input and
+        pipes are refused).
+    column : str
+        The column to read.
+    delimiter : str, optional
+        As for :func:`read_table`.
+
+    Returns
+    -------
+    numpy.ndarray of object (str)
+        The labels as text (numbers as written in the file; a Parquet
+        integer column as its decimal digits).
+
+    Raises
+    ------
+    TableError
+        A missing column, an empty cell (naming its row, 1-based among the
+        data rows), or a source that cannot be read twice.
+    """
+    import pyarrow as pa
+
+    name = _name_of(source)
+    if not isinstance(source, (str, os.PathLike)) or (isinstance(source, str) and source == "-"):
+        raise TableError(f"{name}: a trial column needs a file path (the table is read "
+                         "twice), not standard input or a stream")
+    if _is_parquet_name(source):
+        pf = _parquet_file(source, name)
+        if column not in _parquet_header(pf.schema_arrow):
+            raise TableError(f"{name}: no column {column!r}")
+        arr = pf.read(columns=[column]).column(0)
+    else:
+        import pyarrow.csv as pcsv
+
+        inp = _Input(source)
+        try:
+            header, delim, lineno = _read_header(_Lines(inp), _delimiter_for(source, delimiter))
+        finally:
+            inp.close()
+        if column not in header:
+            raise TableError(f"{name}: no column {column!r}; columns are {_few(header)}")
+        read = pcsv.ReadOptions(skip_rows=lineno, column_names=header)
+        parse = pcsv.ParseOptions(delimiter=delim, quote_char='"', double_quote=True,
+                                  ignore_empty_lines=True)
+        convert = pcsv.ConvertOptions(include_columns=[column],
+                                      column_types={column: pa.string()},
+                                      null_values=list(GAP_TOKENS), strings_can_be_null=True)
+        try:
+            arr = pcsv.read_csv(os.fspath(source), read_options=read, parse_options=parse,
+                                convert_options=convert).column(0)
+        except (pa.ArrowInvalid, OSError) as exc:
+            raise TableError(f"{name}: cannot read column {column!r} ({exc})") from None
+    values = arr.cast(pa.string()).to_pylist()
+    missing = [k for k, v in enumerate(values) if v is None or not v.strip()]
+    if missing:
+        raise TableError(f"{name}: column {column!r} is empty at data row {missing[0] + 1}; "
+                         "every row needs its trial")
+    return np.array([v.strip() for v in values], dtype=object)
 
 
 def read_table(source, *, columns=None, time_column=None, delimiter=None, min_rows=2):

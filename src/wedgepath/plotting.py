@@ -396,10 +396,15 @@ def rolling_pairs(rolling, *, names=None, pairs=None, top=6, xlabel="window cent
     if rows:
         a = np.asarray(rolling.start, dtype=float) + 1
         b = np.asarray(rolling.stop, dtype=float)
+    elif getattr(rolling, "time_unit", None) == "ISO-8601":
+        # datetimes: ISO text back to instants (UTC for zoned times); a datetime axis
+        from ._time import parse_iso
+        a = parse_iso(list(rolling.start_time), name="start_time")[0].astype("datetime64[us]")
+        b = parse_iso(list(rolling.stop_time), name="stop_time")[0].astype("datetime64[us]")
     else:
         a = np.asarray(rolling.start_time, dtype=float)
         b = np.asarray(rolling.stop_time, dtype=float)
-    t = 0.5 * (a + b)
+    t = a + (b - a) / 2
     if pairs is None:
         strength = np.nanmean(np.abs(R), axis=0) if K else np.zeros((n, n))
         cand = sorted(((strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)),

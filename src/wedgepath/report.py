@@ -66,7 +66,7 @@ LISTED_PAIRS = 10
 
 # =========================================================================== file names
 def leadlag_files(figures: bool = False, *, window: bool = False, significance: bool = False,
-                  json_name: str = "result.json") -> list:
+                  json_name: str = "result.json", trials: bool = False) -> list:
     """The files a lead-lag report gives with these options (``manifest.json`` not included).
 
     Examples
@@ -81,6 +81,8 @@ def leadlag_files(figures: bool = False, *, window: bool = False, significance: 
         names.append("rolling.csv")
     if significance:
         names += ["pvalues.csv", "qvalues.csv"]
+    if trials:
+        names.append("trials.csv")
     if figures:
         names += ["positions.png", "pairs.png"] + (["rolling.png"] if window else [])
     return names
@@ -99,11 +101,20 @@ def loop_files(figures: bool = False, *, json_name: str = "result.json") -> list
 
 
 # =========================================================================== fields
+def _time_values(t):
+    """Times as reported: ISO-8601 text stays text, numbers become float."""
+    t = np.asarray(t)
+    return t if t.dtype.kind in "UO" else t.astype(float)
+
+
 def _rolling_parts(r):
-    """(areas, first row, last row, start time, stop time) of a RollingAreas (rows from 1)."""
+    """(areas, first row, last row, start time, stop time) of a RollingAreas (rows from 1).
+
+    The times are in the input's form: ISO-8601 text for datetimes, numbers otherwise.
+    """
     return (np.asarray(r.areas, dtype=float), np.asarray(r.start, dtype=np.int64) + 1,
-            np.asarray(r.stop, dtype=np.int64), np.asarray(r.start_time, dtype=float),
-            np.asarray(r.stop_time, dtype=float))
+            np.asarray(r.stop, dtype=np.int64), _time_values(r.start_time),
+            _time_values(r.stop_time))
 
 
 def _cycle_parts(c):
@@ -114,21 +125,29 @@ def _cycle_parts(c):
 
 # =========================================================================== input
 def _unpack(data, times, names, what="data"):
-    """``(values (T, n) float, times or None, names tuple of str)`` of a report's input.
+    """``(values (T, n) float, times (a TimeAxis) or None, names tuple of str)`` of an input.
 
     ``data``: an :class:`~wedgepath.io.Table` (its times and names are used), a pandas
-    DataFrame (its columns name the channels), a :class:`~wedgepath.Path`, or an array
-    (T, n).  The caller's arrays are never changed.
+    DataFrame (its columns name the channels; a DatetimeIndex, TimedeltaIndex or numeric
+    index other than the row numbers is its time axis), a :class:`~wedgepath.Path`, or an
+    array (T, n).  Times may be numbers, datetimes (numpy, pandas, ISO text) or
+    timedeltas; they are kept as a :class:`~wedgepath._time.TimeAxis`, so that results
+    report them in the input's form.  The caller's arrays are never changed.
     """
     from .calculus import Path
     from .io import Table
+    from ._validation import check_time_axis
+    from .signals._kernel import index_time_axis
 
     if isinstance(data, Table):
-        values, t, nm = data.values, data.times, data.names
+        values, nm = data.values, data.names
+        t = data.time_axis if data.time_axis is not None else data.times
     elif isinstance(data, Path):
-        values, t, nm = data.points, data.times, data.names
+        values, t, nm = data.points, data.time_axis, data.names
     elif hasattr(data, "columns") and hasattr(data, "to_numpy"):   # a pandas DataFrame
-        values, t, nm = data.to_numpy(dtype=float), None, [str(c) for c in data.columns]
+        from .signals._kernel import _frame_values
+        values, nm = _frame_values(data, what)
+        t = index_time_axis(data, what) if times is None else None
     else:
         values, t, nm = data, None, None
     from ._validation import as_float_array
@@ -136,9 +155,10 @@ def _unpack(data, times, names, what="data"):
     if times is not None:
         t = times
     if t is not None:
-        t = as_float_array(t, "times", ndim=1)
-        if t.shape[0] != values.shape[0]:
-            raise ValueError(f"times has {t.shape[0]} entries for {values.shape[0]} samples")
+        nt = len(t)
+        if nt != values.shape[0]:
+            raise ValueError(f"times has {nt} entries for {values.shape[0]} samples")
+        t = check_time_axis(t, values.shape[0])
     if names is not None:
         nm = names
     if nm is None:
@@ -149,17 +169,6 @@ def _unpack(data, times, names, what="data"):
     if len(set(nm)) != len(nm):
         raise ValueError(f"names repeat: {list(nm)}")
     return values, t, nm
-
-
-def _longest_gap_free(values):
-    """Row range [a, b) (from 0) of the longest run without NaN."""
-    good = ~np.isnan(values).any(axis=1)
-    edges = np.flatnonzero(np.diff(np.concatenate(([0], good.view(np.int8), [0]))))
-    if edges.size == 0:
-        return 0, 0
-    starts, stops = edges[0::2], edges[1::2]
-    k = int(np.argmax(stops - starts))
-    return int(starts[k]), int(stops[k])
 
 
 # =========================================================================== text helpers
@@ -284,11 +293,16 @@ class LeadLagReport(_Report):
     rolling : RollingAreas or None
         Raw areas over sliding windows (``window``, ``step`` samples).
     significance : SurrogateResult or None
-        Surrogate test of every pair, on the longest gap-free stretch
-        ``significance_rows`` (first and last data row, from 1).
+        Surrogate test of every pair, pooled over the trials (the pieces
+        between gaps, or ``trials``): its ``design`` says how.
+        ``significance_rows`` is the first and last data row used (from 1).
     bootstrap : BootstrapResult or None
-        Block bootstrap of the area matrix on the same stretch (replicates
-        kept), which gives the intervals of the positions.
+        Bootstrap of the area matrix over the same trials (replicates kept;
+        blocks or whole trials, its ``resample`` says which), which gives
+        the intervals of the positions.
+    trials : AreaMatrix or None
+        With a trial column: the raw area matrix of every trial and pooled
+        (``trials.csv``, the JSON's ``trials``).
     position_low, position_high : numpy.ndarray (n,) or None
         Percentile interval (radians, at the bootstrap's confidence) of each
         channel's position in the cycle, from the cyclic orders of the
@@ -327,6 +341,8 @@ class LeadLagReport(_Report):
     position_low: np.ndarray | None = None
     position_high: np.ndarray | None = None
     notes: tuple = ()
+    trials: object = None
+    time_unit: str | None = None
     times_given: bool = False
     time_name: str | None = None
     units: Mapping = field(default_factory=dict)
@@ -420,7 +436,7 @@ class LeadLagReport(_Report):
         """The names of the files of this report (as :func:`leadlag_files` gives them)."""
         return leadlag_files(figures, window=self.rolling is not None,
                              significance=self.significance is not None,
-                             json_name=self.json_name)
+                             json_name=self.json_name, trials=self.trials is not None)
 
     # ------------------------------------------------------------------ the JSON
     def to_dict(self) -> dict:
@@ -465,13 +481,15 @@ class LeadLagReport(_Report):
                             "first_row": r0, "last_row": r1,
                             "start_time": t0 if self.times_given else r0.astype(float),
                             "end_time": t1 if self.times_given else r1.astype(float),
+                            "time_unit": self.rolling.time_unit if self.times_given
+                            else "row",
                             "areas": areas}
         if self.significance is not None:
             s = self.significance
             d["significance"] = {
                 "rows": list(self.significance_rows),
                 "method": s.method, "n_surrogates": int(s.n_surrogates),
-                "seed": s.seed,
+                "seed": s.seed, "pieces": int(s.trials), "design": s.design,
                 "pvalues": np.asarray(s.pvalues, dtype=float),
                 "qvalues": np.asarray(s.qvalues, dtype=float),
                 "significant_pairs": [[names[i], names[j]] for i, j in self.significant_pairs()],
@@ -479,10 +497,23 @@ class LeadLagReport(_Report):
         if self.bootstrap is not None:
             b = self.bootstrap
             d["bootstrap"] = {"rows": list(self.significance_rows),
-                              "n_boot": int(b.n_boot), "block": int(b.block),
+                              "n_boot": int(b.n_boot),
+                              "block": None if b.block is None else int(b.block),
+                              "resample": b.resample, "units_resampled": int(b.trials),
                               "confidence": float(b.confidence),
                               "low": np.asarray(b.low, dtype=float),
                               "high": np.asarray(b.high, dtype=float)}
+        if self.trials is not None:
+            tr = self.trials
+            d["trials"] = {
+                "labels": list(tr.trials),
+                "first_row": np.asarray(tr.trial_start, dtype=np.int64) + 1,
+                "last_row": np.asarray(tr.trial_stop, dtype=np.int64),
+                "raw_area_matrices": {lab: np.asarray(tr.trial_values[k], dtype=float)
+                                      for k, lab in enumerate(tr.trials)},
+                "pooled_raw_area_matrix": np.asarray(tr.values, dtype=float)}
+        if self.times_given:
+            d["time_unit"] = self.time_unit
         if self.streamed:
             d["streamed"] = True
             d["chunk_rows"] = self.chunk_rows
@@ -520,6 +551,8 @@ class LeadLagReport(_Report):
         if self.significance is not None:
             out["pvalues.csv"] = matrix(self.significance.pvalues)
             out["qvalues.csv"] = matrix(self.significance.qvalues)
+        if self.trials is not None:
+            out["trials.csv"] = self.trials.to_frame()
         return out
 
     # ------------------------------------------------------------------ text
@@ -554,9 +587,12 @@ class LeadLagReport(_Report):
                          "the order, not the delays): " + shown)
             if self.position_low is not None:
                 wraps = bool(np.any(self.position_low > self.position_high))
-                lines.append(f"  [low, high]: {100 * float(self.bootstrap.confidence):.0f}% "
-                             f"interval from {self.bootstrap.n_boot} block-bootstrap replicates "
-                             f"(blocks of {self.bootstrap.block} samples)"
+                b = self.bootstrap
+                how = (f"resampling {b.trials} whole trials" if b.resample == "trials" else
+                       f"blocks of {b.block} samples" + (f" within {b.trials} trial pieces"
+                                                         if b.trials > 1 else ""))
+                lines.append(f"  [low, high]: {100 * float(b.confidence):.0f}% "
+                             f"interval from {b.n_boot} bootstrap replicates ({how})"
                              + ("; low > high: the interval wraps past 2π" if wraps else ""))
             fit, base = float(co.fit), self.fit_baseline
             verdict = ("well above" if fit >= base + 0.5 * (1 - base) else
@@ -586,6 +622,8 @@ class LeadLagReport(_Report):
             elif pairs:
                 head += ":"
             lines.append(head)
+            if getattr(s, "trials", 1) > 1:
+                lines.append(f"  surrogates: {s.design}")
             for i, j in pairs[:LISTED_PAIRS]:
                 a, b = (i, j) if M[i, j] > 0 else (j, i)
                 lines.append(f"  {names[a]} leads {names[b]}: A = {abs(M[i, j]):.4g}, "
@@ -621,6 +659,11 @@ class LeadLagReport(_Report):
                           if self.times_given and tcol else
                           "window centre, time" if self.times_given else
                           "window centre (data row)")
+                if self.time_unit == "ISO-8601" and self.rolling.start_time.size and \
+                        not str(self.rolling.start_time[0]).endswith("Z") and \
+                        ("+" in str(self.rolling.start_time[0])[10:]
+                         or "-" in str(self.rolling.start_time[0])[10:]):
+                    xlabel += " (UTC)"       # zoned times are drawn as UTC instants
                 out["rolling.png"] = plotting.rolling_pairs(
                     self.rolling, names=self.names, xlabel=xlabel,
                     rows=not self.times_given,
@@ -669,7 +712,7 @@ def _position_intervals(order, boot, confidence):
 def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, window=None,
             step=None, n_surrogates=None, surrogate_method="shift", seed=0, n_boot=None,
             confidence=0.95, top=3, progress=None, tol=None, time_name=None, units=None,
-            source=None) -> LeadLagReport:
+            source=None, trials=None) -> LeadLagReport:
     """The lead-lag report of a recording.
 
     Parameters
@@ -687,11 +730,18 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         samples (``step`` defaults to ``window // 4``).
     n_surrogates : int, optional
         Test every pair against this many surrogates
-        (:func:`~wedgepath.surrogate_test`, ``surrogate_method``, ``seed``).
+        (:func:`~wedgepath.surrogate_test`, ``surrogate_method``, ``seed``),
+        pooled over the trials: the pieces between gaps, or ``trials``.
     n_boot : int, optional
-        Block-bootstrap the area matrix this many times
-        (:func:`~wedgepath.bootstrap_area`, ``confidence``, ``seed``) and give
-        each channel's position in the cycle an interval.
+        Bootstrap the area matrix this many times
+        (:func:`~wedgepath.bootstrap_area`, ``confidence``, ``seed``; whole
+        trials when there are at least 10, blocks otherwise) and give each
+        channel's position in the cycle an interval.
+    trials : array_like (T,) or str, optional
+        The trial of each row, or the name of a DataFrame column holding it
+        (that column is then not a channel): the report then holds
+        the area matrix of every trial (``.trials``, ``trials.csv``), and
+        the surrogates and the bootstrap stay within trials.
     top : int
         Leaders and laggers listed.
     progress : bool or None
@@ -717,6 +767,9 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     """
     from .signals import area_matrix, bootstrap_area, rolling_area_matrix
 
+    if isinstance(trials, str) and trials != "gaps":      # a DataFrame's trial column
+        from .signals.trials import split_trial_column
+        data, (_, trials) = split_trial_column(data, trials)
     values, times, names = _unpack(data, times, names)
     n = values.shape[1]
     if n < 2:
@@ -746,26 +799,45 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         if normalize is not None:
             notes.append("rolling windows hold raw areas A[i, j]; the normalisation applies "
                          "to the whole-recording matrix only")
+    if trials is not None:
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            kw["trials"] = area_matrix(values, times=times, closure=closure, names=list(names),
+                                       tol=tol, trials=trials)
+        notes += [str(w.message) for w in caught if str(w.message) not in notes]
+    kw["time_unit"] = None if times is None else (
+        "ISO-8601" if times.kind == "datetime" else times.unit)
     if n_surrogates is not None or n_boot is not None:
-        a, b = _longest_gap_free(values)
-        if b - a < (8 if n_boot is not None else 4):
-            raise ValueError("significance needs a gap-free stretch of at least "
-                             f"{8 if n_boot is not None else 4} samples")
-        if (a, b) != (0, values.shape[0]):
-            notes.append(f"surrogates and the bootstrap use the longest gap-free stretch, "
-                         f"rows {a + 1}-{b} of {values.shape[0]}")
+        # every gap-free piece of every trial counts (the pieces between gaps are trials
+        # when no trial column is given); the statistics are pooled over them
+        from .signals._kernel import SignalData
+        from .signals.trials import resolve_trials
+        tr = resolve_trials(trials, SignalData(values, None, None), default_gaps=True)
+        usable = (tr.piece_stop - tr.piece_start) >= 3
+        if not usable.any():
+            raise ValueError("significance needs a gap-free stretch of at least 3 samples")
+        a, b = int(tr.piece_start[usable][0]), int(tr.piece_stop[usable][-1])
         kw["significance_rows"] = (a + 1, b)
-        part = values[a:b]
-        tpart = None if times is None else times[a:b]
-        if n_surrogates is not None:
-            from .signals import surrogate_test
-            kw["significance"] = surrogate_test(part, method=surrogate_method,
-                                                n_surrogates=n_surrogates, seed=seed,
-                                                times=tpart, progress=progress,
-                                                names=list(names))
+        if int(usable.sum()) > 1:
+            notes.append(f"surrogates and the bootstrap pool {int(usable.sum())} gap-free "
+                         f"pieces ({tr.describe()}); nothing is shuffled across a trial or a "
+                         "gap")
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            if n_surrogates is not None:
+                from .signals import surrogate_test
+                kw["significance"] = surrogate_test(values, method=surrogate_method,
+                                                    n_surrogates=n_surrogates, seed=seed,
+                                                    progress=progress, names=list(names),
+                                                    trials=trials)
+            if n_boot is not None:
+                boot = bootstrap_area(values, n_boot=n_boot, confidence=confidence,
+                                      seed=seed, keep=True, progress=progress,
+                                      names=list(names), trials=trials)
+        for w in caught:      # said once (the shape checks repeat what area_matrix said)
+            if str(w.message) not in notes:
+                notes.append(str(w.message))
         if n_boot is not None:
-            boot = bootstrap_area(part, n_boot=n_boot, confidence=confidence, seed=seed,
-                                  keep=True, progress=progress, names=list(names))
             kw["bootstrap"] = boot
             if order is not None:
                 kw["position_low"], kw["position_high"] = _position_intervals(order, boot,
@@ -969,7 +1041,7 @@ class LoopReport(_Report):
             return np.zeros(0), np.zeros(0)
         _, s0, s1, t0, t1 = _cycle_parts(self.cycles)
         if self.times_given and t0 is not None:
-            return np.asarray(t0, dtype=float), np.asarray(t1, dtype=float)
+            return _time_values(t0), _time_values(t1)     # ISO text for datetimes
         return s0 + 1.0, s1 + 1.0
 
     def to_frame(self):
@@ -1034,6 +1106,8 @@ class LoopReport(_Report):
                        "energy": self.energy, "count": count, "values": values,
                        "start": start, "stop": stop,
                        "bounds": "time" if self.times_given else "row",
+                       "time_unit": (self.cycles.time_unit if self.cycles is not None
+                                     else None) if self.times_given else "row",
                        "mean": mean, "std": std, "ddof": 1},
         }
         if self.weighted is not None:

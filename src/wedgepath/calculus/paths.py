@@ -22,7 +22,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .._validation import as_float_array, check_choice, check_names, check_times
+from .._validation import as_float_array, check_choice, check_names, check_time_axis
 
 __all__ = ["Path", "CLOSURES", "as_path"]
 
@@ -66,7 +66,7 @@ class Path:
     [1, 2]
     """
 
-    __slots__ = ("_points", "_times", "_names", "_gap_rows", "_pieces")
+    __slots__ = ("_points", "_times", "_names", "_gap_rows", "_pieces", "_time_axis")
 
     def __init__(self, points, *, times=None, names=None):
         if names is None and hasattr(points, "columns") and not isinstance(points, np.ndarray):
@@ -86,7 +86,12 @@ class Path:
             raise ValueError("points has no complete sample: every row contains NaN")
         self._points = _readonly(pts)
         self._gap_rows = _readonly(gap_rows) if gap_rows.any() else None
-        self._times = None if times is None else _readonly(check_times(times, T))
+        if times is None:
+            self._times = self._time_axis = None
+        else:
+            ax = check_time_axis(times, T)
+            self._times = _readonly(np.array(ax.values))
+            self._time_axis = ax if ax.kind == "datetime" or ax.unit else None
         self._names = None if names is None else check_names(names, n)
         self._pieces = None
 
@@ -98,8 +103,28 @@ class Path:
 
     @property
     def times(self):
-        """Sample times, shape (T,), read-only float64, or None."""
+        """Sample times, shape (T,), read-only float64, or None.
+
+        Datetime times (``datetime64``, pandas, ISO text) are held as seconds
+        elapsed since the first sample of the input; :attr:`time_axis` keeps
+        what they were.
+        """
         return self._times
+
+    @property
+    def time_axis(self):
+        """The times with what they were (a :class:`wedgepath._time.TimeAxis`), or None.
+
+        Its :meth:`~wedgepath._time.TimeAxis.format` gives times back in the
+        input's form (ISO-8601 text for datetimes, numbers otherwise).
+        """
+        if self._times is None:
+            return None
+        from .._time import TimeAxis
+
+        if self._time_axis is None:
+            return TimeAxis(self._times, "number", None)
+        return self._time_axis.with_values(self._times)
 
     @property
     def names(self):
@@ -151,10 +176,10 @@ class Path:
     def _slice(self, a: int, b: int) -> "Path":
         return Path._trusted(self._points[a:b],
                              None if self._times is None else self._times[a:b],
-                             self._names)
+                             self._names, time_axis=self._time_axis)
 
     @classmethod
-    def _trusted(cls, points, times, names, gap_rows="compute") -> "Path":
+    def _trusted(cls, points, times, names, gap_rows="compute", time_axis=None) -> "Path":
         """Build a path from arrays that are already checked (no copy)."""
         self = object.__new__(cls)
         pts = np.asarray(points, dtype=np.float64)
@@ -170,6 +195,7 @@ class Path:
             if times.flags.writeable:
                 times = _readonly(times)
         self._times = times
+        self._time_axis = time_axis if times is not None else None
         self._names = names
         self._pieces = None
         return self
@@ -232,7 +258,8 @@ class Path:
         if len(set(idx)) != len(idx):
             raise ValueError(f"channels selected twice: {list(keys)}")
         names = None if self._names is None else tuple(self._names[i] for i in idx)
-        return Path._trusted(self._points[:, idx].copy(), self._times, names)
+        return Path._trusted(self._points[:, idx].copy(), self._times, names,
+                             time_axis=self._time_axis)
 
     def plane(self, i, j) -> "Path":
         """The planar path of channels ``i`` and ``j`` (index or name).
@@ -259,13 +286,17 @@ class Path:
             hi = T if stop is None else _index_bound(stop, "stop", T)
         else:
             t = self._times
+            ax = self._time_axis
+            if ax is not None and ax.kind == "datetime":   # datetimes or ISO text
+                start = None if start is None else ax.elapsed_of(start, "start")
+                stop = None if stop is None else ax.elapsed_of(stop, "stop")
             lo = 0 if start is None else int(np.searchsorted(t, _real(start, "start"), "left"))
             hi = T if stop is None else int(np.searchsorted(t, _real(stop, "stop"), "left"))
         if hi - lo < 2:
             raise ValueError(f"window [{start}, {stop}) holds {max(hi - lo, 0)} samples; "
                              "a path needs at least 2")
         return Path._trusted(self._points[lo:hi], None if self._times is None else self._times[lo:hi],
-                             self._names)
+                             self._names, time_axis=self._time_axis)
 
     # ----------------------------------------------------------- operations
     def reversed(self) -> "Path":

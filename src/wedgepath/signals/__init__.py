@@ -12,7 +12,7 @@ labelled value with ``to_frame()`` (see ``docs/conventions.md``).  See
 ``docs/signals.md``.
 """
 
-from ._kernel import ConstantChannelWarning
+from ._kernel import ConstantChannelWarning, ShapeWarning
 from .align import align
 from .areas import NORMALIZATIONS, AreaMatrix, area_matrix, hilbert_energy
 from .cycles import CycleAreas, cycle_areas
@@ -27,7 +27,7 @@ from .streaming import AreaAccumulator
 __all__ = [
     # the area matrix
     "area_matrix", "AreaMatrix", "NORMALIZATIONS", "hilbert_energy", "ConstantChannelWarning",
-    "align",
+    "ShapeWarning", "align",
     # structure
     "cyclic_order", "CyclicOrder", "noise_fit_baseline",
     # over time

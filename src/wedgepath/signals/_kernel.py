@@ -30,7 +30,8 @@ import numpy as np
 
 from .._scaling import pow2_exponents, pow2_scale
 from .._results import default_names
-from .._validation import as_float_array, check_choice, check_names, check_times  # noqa: F401 (re-exported)
+from .._validation import (as_float_array, check_choice, check_names, check_time_axis,  # noqa: F401
+                           check_times)
 from ..calculus.paths import CLOSURES, Path
 
 __all__ = []  # internal module
@@ -75,13 +76,32 @@ class SignalData:
     from a DataFrame's ``attrs["units"]`` when it has one.
     """
 
-    __slots__ = ("values", "times", "names", "units")
+    __slots__ = ("values", "times", "names", "units", "time_axis")
 
-    def __init__(self, values, times, names, units=None):
+    def __init__(self, values, times, names, units=None, time_axis=None):
         self.values = values
         self.times = times
         self.names = names
         self.units = units
+        self.time_axis = time_axis
+
+    def report_times(self, positions):
+        """Times of (fractional) sample ``positions`` in the input's form, and their unit.
+
+        Returns ``(times, unit)``: ISO-8601 text with ``unit="ISO-8601"`` for
+        datetime input; numbers with the input's unit (``"s"`` for
+        timedeltas, None when the numbers came without one) otherwise; the
+        positions themselves with ``unit="sample"`` when there were no times.
+        """
+        pos = np.asarray(positions, dtype=np.float64)
+        if self.times is None:
+            return pos.copy(), "sample"
+        idx = np.arange(self.times.shape[0], dtype=np.float64)
+        t = np.interp(pos, idx, self.times) if pos.size else pos.copy()
+        ax = self.time_axis
+        if ax is None or ax.kind != "datetime":
+            return t, (None if ax is None else ax.unit)
+        return ax.format(t), "ISO-8601"
 
     @property
     def shape(self):
@@ -132,6 +152,10 @@ def _frame_values(df, what):
         if dt is None:
             raise ValueError(f"{what} has repeated column label {c!r}")
         kind = getattr(dt, "kind", "O")
+        if kind == "b":
+            raise TypeError(f"{what} column {c!r} is boolean (dtype {dt}); wedgepath does not "
+                            "guess whether True/False mean 1/0: convert it (e.g. "
+                            ".astype(float)) or drop it")
         if kind not in "iuf":
             raise TypeError(f"{what} column {c!r} is not numeric (dtype {dt}); "
                             "drop it or convert it to numbers")
@@ -149,7 +173,8 @@ def is_async_times(times) -> bool:
     return False
 
 
-def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_samples=2):
+def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_samples=2,
+                 warn_shape=True):
     """Check and unpack the data argument of a signals function.
 
     Accepts a (T, n) array-like, a pandas DataFrame (column labels become
@@ -188,7 +213,7 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
         if names is not None and X.names is not None and tuple(names) != X.names:
             raise ValueError(f"names {list(names)} do not match the Path's names {list(X.names)}")
         values = X.points
-        times = X.times if times is None else times
+        times = X.time_axis if times is None else times
         names = X.names if names is None else names
     elif _is_dataframe(X):
         values, df_names = _frame_values(X, what)
@@ -196,6 +221,8 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
             raise ValueError(f"names {list(names)} do not match the DataFrame columns {df_names}")
         names = df_names
         units = _frame_units(X, df_names)
+        if times is None:
+            times = index_time_axis(X, what)
     else:
         if isinstance(X, np.ma.MaskedArray):
             # masked entries are gaps: a NaN copy (np.asarray would drop the mask)
@@ -225,11 +252,70 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
                          f"{min_channels}")
     if T < min_samples:
         raise ValueError(f"{what} has {T} sample{'s' if T != 1 else ''}; at least {min_samples} are needed")
+    axis = None
     if times is not None:
-        times = check_times(times, T)
+        axis = check_time_axis(times, T)
+        times = np.array(axis.values)
     if names is not None:
         names = check_names(names, n)
-    return SignalData(values, times, names, units)
+    if T < n and warn_shape:
+        warnings.warn(f"{what} has {T} samples (rows) and {n} channels (columns): it looks "
+                      "transposed; samples go in rows, channels in columns (pass X.T if the "
+                      "rows are the channels)", ShapeWarning, stacklevel=3)
+    if times is None and warn_shape:
+        _warn_clock_columns(values, names, what)
+    return SignalData(values, times, names, units, axis)
+
+
+class ShapeWarning(UserWarning):
+    """The input looks transposed, or a column looks like a clock used as a channel."""
+
+
+def _looks_like_clock(col) -> bool:
+    """Strictly increasing with near-constant steps (within 1 % of the median step)."""
+    d = np.diff(col)
+    if d.size < 3 or not np.all(d > 0):
+        return False
+    med = float(np.median(d))
+    return bool(np.all(np.abs(d - med) <= 0.01 * med))
+
+
+def _warn_clock_columns(values, names, what):
+    T, n = values.shape
+    if T < 8:
+        return
+    head = np.asarray(values[:min(T, 256)], dtype=np.float64)
+    for c in range(n):
+        # cheap test on the first rows; the whole column only for a candidate
+        if _looks_like_clock(head[:, c]) and _looks_like_clock(
+                np.asarray(values[:, c], dtype=np.float64)):
+            label = names[c] if names is not None else str(c)
+            warnings.warn(f"{what} column {label!r} increases in near-constant steps, like a "
+                          "clock, and is used as a channel because no times were given; pass "
+                          "it as times= (or --time on the command line) if it is the time",
+                          ShapeWarning, stacklevel=4)
+
+
+def index_time_axis(df, what="X"):
+    """A DataFrame's index as its time axis, or None when the index is not a time.
+
+    DatetimeIndex (zoned or naive), TimedeltaIndex and numeric indexes other
+    than the row numbers ``0..T-1`` (any RangeIndex counts as row numbers)
+    are times; anything else is not.
+    """
+    idx = getattr(df, "index", None)
+    if idx is None:
+        return None
+    kind = getattr(getattr(idx, "dtype", None), "kind", None)
+    name = type(idx).__name__
+    if name in ("DatetimeIndex", "TimedeltaIndex") or kind in ("M", "m"):
+        return check_time_axis(idx, len(idx), f"{what}.index")
+    if name == "RangeIndex" or kind not in ("i", "u", "f"):
+        return None
+    v = np.asarray(idx.to_numpy(), dtype=np.float64)
+    if np.array_equal(v, np.arange(v.shape[0], dtype=np.float64)):
+        return None
+    return check_time_axis(v, v.shape[0], f"{what}.index")
 
 
 def check_closure(closure):
@@ -424,7 +510,7 @@ def channel_exponents(data: SignalData):
 def scaled_data(data: SignalData, e) -> SignalData:
     """``data`` with channel k multiplied by ``2**-e[k]`` (exact; a float64 copy)."""
     values = pow2_scale(np.asarray(data.values, dtype=np.float64), -np.asarray(e)[None, :])
-    return SignalData(values, data.times, data.names, data.units)
+    return SignalData(values, data.times, data.names, data.units, data.time_axis)
 
 
 def unscale_pairs(A, e, what="area_matrix"):

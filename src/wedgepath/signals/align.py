@@ -6,18 +6,49 @@ from collections.abc import Mapping
 
 import numpy as np
 
-from .._validation import as_float_array, check_names
+from .._validation import as_float_array, check_names, check_time_axis
 from ..calculus.paths import Path
 
 __all__ = ["align"]
 
 
 def _series_parts(s, label):
-    t = s.index.to_numpy()
-    if t.dtype.kind in "mM":
-        raise TypeError(f"channel {label!r} is indexed by datetimes; convert the index to "
-                        "numbers first (e.g. seconds since the start)")
-    return t, s.to_numpy()
+    idx = s.index
+    t = idx if getattr(idx.dtype, "kind", "") in "mM" else idx.to_numpy()
+    return t, s.to_numpy(dtype=np.float64, na_value=np.nan) \
+        if getattr(s.dtype, "kind", "") in "iuf" else s.to_numpy()
+
+
+def _common_axis(axes, labels):
+    """Put per-channel time axes on one clock: elapsed seconds from the earliest first time.
+
+    Returns the per-channel float arrays and a template axis (None for numbers).
+    """
+    from .._time import TimeAxis, elapsed_seconds
+
+    kinds = {a.kind for a in axes}
+    if len(kinds) > 1:
+        k = next(i for i, a in enumerate(axes) if a.kind != axes[0].kind)
+        raise ValueError(f"times of channel {labels[k]!r} are {axes[k].kind}s but those of "
+                         f"channel {labels[0]!r} are {axes[0].kind}s; give all channels the "
+                         "same kind of time")
+    if axes[0].kind == "number":
+        units = {a.unit for a in axes}
+        unit = units.pop() if len(units) == 1 else None
+        if unit is None and any(a.unit for a in axes):
+            raise ValueError("some channels have timedelta times and others plain numbers")
+        return [a.values for a in axes], (TimeAxis([0.0], "number", unit) if unit else None)
+    zoned = [a.tz is not None for a in axes]
+    if any(zoned) and not all(zoned):
+        k = zoned.index(not zoned[0])
+        raise ValueError(f"times of channel {labels[k]!r} are " + (
+            "naive but those of the first channel have a zone" if zoned[0] else
+            "zoned but those of the first channel are naive"))
+    inst = [a.to_datetime64() for a in axes]
+    origin = min(i[0] for i in inst)
+    vals = [elapsed_seconds(i, origin) for i in inst]
+    return vals, TimeAxis([0.0], "datetime", "s", origin, axes[0].tz,
+                          all(a.dates for a in axes))
 
 
 def align(channels, *, times=None, names=None) -> Path:
@@ -38,10 +69,12 @@ def align(channels, *, times=None, names=None) -> Path:
     ----------
     channels : sequence of 1-D arrays, or mapping name -> 1-D array / pandas Series
         The values of each channel.  A pandas Series carries its own time
-        stamps in its (numeric) index.
+        stamps in its index (numbers, a DatetimeIndex or a TimedeltaIndex).
     times : sequence of 1-D arrays, optional
         One strictly increasing time array per channel (required unless the
-        channels are Series).
+        channels are Series): numbers, or datetimes (``datetime64``, pandas,
+        ISO text), which are put on one clock in seconds from the earliest
+        first time; the result's ``time_axis`` reports them as datetimes.
     names : sequence of str, optional
         Channel names (taken from the mapping keys or Series names otherwise).
 
@@ -98,22 +131,20 @@ def align(channels, *, times=None, names=None) -> Path:
         for s in items:
             xs.append(s.to_numpy() if hasattr(s, "to_numpy") and not isinstance(s, np.ndarray) else s)
         ts = list(times)
-    T_list, X_list = [], []
+    A_list, X_list = [], []
+    shown = []
     for k in range(n):
         label = labels[k] if labels else k
+        shown.append(label)
         x = as_float_array(xs[k], f"channel {label!r}", ndim=1, allow_nan=True)
-        t = as_float_array(ts[k], f"times of channel {label!r}", ndim=1)
-        if t.shape[0] != x.shape[0]:
-            raise ValueError(f"channel {label!r} has {x.shape[0]} samples but {t.shape[0]} times")
         if x.shape[0] < 2:
             raise ValueError(f"channel {label!r} has {x.shape[0]} sample(s); at least 2 are needed")
-        d = np.diff(t)
-        if not np.all(d > 0):
-            j = int(np.flatnonzero(~(d > 0))[0])
-            raise ValueError(f"times of channel {label!r} must be strictly increasing; "
-                             f"t[{j + 1}]={float(t[j + 1])!r} does not exceed t[{j}]={float(t[j])!r}")
-        T_list.append(t)
+        nt = len(ts[k]) if hasattr(ts[k], "__len__") else -1
+        if nt >= 0 and nt != x.shape[0]:
+            raise ValueError(f"channel {label!r} has {x.shape[0]} samples but {nt} times")
+        A_list.append(check_time_axis(ts[k], x.shape[0], f"times of channel {label!r}"))
         X_list.append(x)
+    T_list, template = _common_axis(A_list, shown)
     lo = max(t[0] for t in T_list)
     hi = min(t[-1] for t in T_list)
     if not lo < hi:
@@ -123,6 +154,8 @@ def align(channels, *, times=None, names=None) -> Path:
     out = np.empty((grid.shape[0], n))
     for k in range(n):
         out[:, k] = _interp_with_gaps(grid, T_list[k], X_list[k])
+    if template is not None:
+        grid = template.with_values(grid)
     return Path(out, times=grid, names=labels)
 
 

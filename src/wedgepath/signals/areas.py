@@ -67,10 +67,22 @@ class AreaMatrix(ArrayResult):
     units : mapping or None
         Channel name -> unit text, where the input had units; a raw area of
         channels i and j has the unit of x_i times that of x_j.
+    trials : tuple of str or None
+        Trial labels when the matrix was computed with ``trials=`` (then
+        ``values`` is the pooled matrix, the sum of the trials' raw areas,
+        normalised as a whole).
+    trial_values : ndarray (N, n, n) or None
+        One matrix per trial (normalised each on its own when ``normalize``
+        is set).
+    trial_start, trial_stop : ndarray of int (N,) or None
+        Trial t holds rows ``trial_start[t]:trial_stop[t]`` (0-based, stop
+        excluded).
 
     ``to_frame()`` has one row per pair ``i < j``, columns ``i, j,
     channel_i, channel_j, area`` (plus ``normalized`` when ``normalize`` is
-    set; ``area`` is then the raw area, NaN where it is not known).
+    set; ``area`` is then the raw area, NaN where it is not known).  With
+    trials it also has a ``trial`` column: ``"pooled"`` for the pooled
+    rows, then the rows of each trial under its label.
 
     Examples
     --------
@@ -92,6 +104,11 @@ class AreaMatrix(ArrayResult):
     raw: np.ndarray | None = None
     samples: int | None = None
     units: Mapping | None = None
+    trials: tuple | None = None
+    trial_values: np.ndarray | None = None
+    trial_raw: np.ndarray | None = None
+    trial_start: np.ndarray | None = None
+    trial_stop: np.ndarray | None = None
 
     def index(self, key) -> int:
         """Position of a channel given by name or index."""
@@ -119,18 +136,31 @@ class AreaMatrix(ArrayResult):
         return self.values[key]
 
     def to_frame(self):
-        """One row per pair ``i < j``: ``i, j, channel_i, channel_j, area`` (+ ``normalized``)."""
+        """One row per pair ``i < j``: ``i, j, channel_i, channel_j, area`` (+ ``normalized``).
+
+        With trials, a first column ``trial`` ("pooled", then each trial's label).
+        """
         import pandas as pd
 
         iu, ju = pair_index(len(self.names))
         nm = np.array(self.names, dtype=object)
-        cols = {"i": iu, "j": ju, "channel_i": nm[iu], "channel_j": nm[ju]}
-        if self.normalize is None:
-            cols["area"] = self.values[iu, ju]
-        else:
-            cols["area"] = self.raw[iu, ju] if self.raw is not None else np.full(iu.size, np.nan)
-            cols["normalized"] = self.values[iu, ju]
-        return pd.DataFrame(cols)
+
+        def rows(values, raw):
+            cols = {"i": iu, "j": ju, "channel_i": nm[iu], "channel_j": nm[ju]}
+            if self.normalize is None:
+                cols["area"] = values[iu, ju]
+            else:
+                cols["area"] = raw[iu, ju] if raw is not None else np.full(iu.size, np.nan)
+                cols["normalized"] = values[iu, ju]
+            return cols
+
+        if self.trials is None:
+            return pd.DataFrame(rows(self.values, self.raw))
+        parts = [pd.DataFrame({"trial": "pooled", **rows(self.values, self.raw)})]
+        for t, label in enumerate(self.trials):
+            raw = None if self.trial_raw is None else self.trial_raw[t]
+            parts.append(pd.DataFrame({"trial": label, **rows(self.trial_values[t], raw)}))
+        return pd.concat(parts, ignore_index=True)
 
     def _summary_items(self):
         items = [("names", fmt_names(self.names)), ("closure", repr(self.closure)),
@@ -144,6 +174,8 @@ class AreaMatrix(ArrayResult):
             items.append(("max", f"{fmt_number(abs(a), 4)} ({self.names[i]} leads {self.names[j]})"))
         if self.samples is not None:
             items.append(("samples", str(self.samples)))
+        if self.trials is not None:
+            items.append(("trials", str(len(self.trials))))
         if self.units:
             items.append(("units", repr(dict(self.units))))
         return items
@@ -272,7 +304,7 @@ def _normalise(A, data, sc, closure, normalize):
 
 
 def area_matrix(X, *, times=None, closure="chord", normalize=None, names=None,
-                tol=None) -> AreaMatrix:
+                tol=None, trials=None) -> AreaMatrix:
     """Oriented areas between every pair of channels, ``A[i, j] = (1/2)∮(x_i dx_j - x_j dx_i)``.
 
     ``A[i, j] > 0`` means channel i leads channel j (the pair turns
@@ -354,6 +386,13 @@ def area_matrix(X, *, times=None, closure="chord", normalize=None, names=None,
         ``"0", "1", ...``.
     tol : float, optional
         Tolerance of ``closure="require"``.
+    trials : str, array_like or None
+        Repeated trials in one table: the name of a DataFrame column holding
+        each row's trial (the column is not a channel), one label per row,
+        or ``"gaps"`` (the pieces between NaN rows).  Each trial is closed
+        on its own; the result holds one matrix per trial
+        (``trial_values``) and the pooled matrix (``values``: the sum of
+        the trials' raw areas; normalised over all trials' samples).
 
     Returns
     -------
@@ -408,6 +447,8 @@ def area_matrix(X, *, times=None, closure="chord", normalize=None, names=None,
             raise TypeError(f"tol must be a number, got {tol!r}")
         if not (np.isfinite(tol) and tol >= 0):
             raise ValueError(f"tol must be a finite number >= 0, got {tol!r}")
+    if trials is not None:
+        return _area_matrix_trials(X, times, closure, normalize, names, tol, trials)
     data = signal_input(X, times, names)
     A = raw = None
     if normalize is None and closure != "require":
@@ -441,3 +482,48 @@ def area_matrix(X, *, times=None, closure="chord", normalize=None, names=None,
             A = _normalise(A, work, sc, closure, normalize)
     return AreaMatrix(values=A, names=data.labels, closure=closure, normalize=normalize, raw=raw,
                       samples=int(data.shape[0]), units=data.units)
+
+
+def _area_matrix_trials(X, times, closure, normalize, names, tol, trials):
+    """``area_matrix`` per trial and pooled (see its ``trials`` parameter)."""
+    import warnings
+
+    from ._kernel import ScanResult, ShapeWarning
+    from .trials import resolve_trials, split_trial_column
+
+    X, trials = split_trial_column(X, trials)
+    data = signal_input(X, times, names)
+    tr = resolve_trials(trials, data)
+    N, n = len(tr), data.shape[1]
+    vals = np.full((N, n, n), np.nan)
+    raws = np.full((N, n, n), np.nan) if normalize is not None else None
+    pooled_raw = np.zeros((n, n))
+    for t, (a, b) in enumerate(zip(tr.start.tolist(), tr.stop.tolist())):
+        rows = np.asarray(data.values[a:b], dtype=np.float64)
+        if b - a < 2 or np.isnan(rows).any(axis=1).all():
+            vals[t] = 0.0 if normalize is None else np.nan   # no segment: no area
+            if raws is not None:
+                raws[t] = 0.0
+            continue
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", ShapeWarning)      # said once for the whole input
+            sub = area_matrix(rows, times=None if data.times is None else data.times[a:b],
+                              closure=closure, normalize=normalize, tol=tol)
+        vals[t] = sub.values
+        r = sub.values if normalize is None else sub.raw
+        if raws is not None:
+            raws[t] = np.nan if r is None else r
+        if r is None:
+            raise overflow_error()
+        pooled_raw += r
+    if normalize is None:
+        pooled = pooled_raw
+    elif normalize == "frobenius":
+        pooled = _normalise(pooled_raw, data, None, closure, normalize)
+    else:
+        sc = ScanResult(None, tr.piece_start, tr.piece_stop)
+        pooled = _normalise(pooled_raw, data, sc, closure, normalize)
+    return AreaMatrix(values=pooled, names=data.labels, closure=closure, normalize=normalize,
+                      raw=None if normalize is None else pooled_raw, samples=int(data.shape[0]),
+                      units=data.units, trials=tr.labels, trial_values=vals, trial_raw=raws,
+                      trial_start=tr.start, trial_stop=tr.stop)

@@ -39,7 +39,11 @@ class CycleAreas(ArrayResult):
         quarter of the way from sample 12 to sample 13).
     start_time, stop_time : ndarray (C,)
         The boundaries in time (linear interpolation of the times; the
-        sample positions when the input had no times).
+        sample positions when the input had no times), in the input's form:
+        ISO-8601 text for datetime times.
+    time_unit : str or None
+        What the boundary times are: ``"ISO-8601"``, ``"sample"`` (no
+        times), ``"s"`` (timedeltas) or None (numbers without a unit).
     complete : ndarray of bool (C,)
         False for a cycle that contains a gap (its value is NaN).
     mean, std : float
@@ -79,6 +83,7 @@ class CycleAreas(ArrayResult):
     level: float | None = None
     closure: str = "chord"
     units: Mapping | None = None
+    time_unit: str | None = "sample"
 
     def to_frame(self):
         """One row per cycle: ``cycle, start, stop, start_time, stop_time, value, complete``."""
@@ -276,13 +281,12 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
             raise ValueError("cycle_areas: the areas overflow float64 for data this large; "
                              "rescale the data (e.g. divide each channel by its largest value)")
     st, sp = pos[:-1], pos[1:]
-    idx = np.arange(T, dtype=np.float64)
-    tt = data.times if data.times is not None else idx
-    t_st, t_sp = np.interp(st, idx, tt), np.interp(sp, idx, tt)
+    t_st, time_unit = data.report_times(st)      # in the input's form (ISO text for datetimes)
+    t_sp, _ = data.report_times(sp)
     return CycleAreas(values=areas, quantity=quantity_text(*pair), names=pair, start=st, stop=sp,
                       start_time=t_st, stop_time=t_sp, complete=good, mean=mean, std=std,
                       count=int(good.sum()), reference=ref_name, level=lev,
-                      units=data.units_of(pair))
+                      units=data.units_of(pair), time_unit=time_unit)
 
 
 def _loop_areas(P, pos):

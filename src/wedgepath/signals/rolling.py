@@ -33,9 +33,14 @@ class RollingAreas(ArrayResult):
         One chord-closed area matrix per window.
     start, stop : ndarray of int, shape (K,)
         Window ``k`` holds samples ``start[k]:stop[k]`` (``stop`` excluded).
-    start_time, stop_time : ndarray of float, shape (K,)
-        Time of the first and of the last sample of each window (sample
-        positions when the input had no times).
+    start_time, stop_time : ndarray, shape (K,)
+        Time of the first and of the last sample of each window, in the
+        input's form: ISO-8601 text for datetime times, the numbers for
+        numeric times, sample positions when the input had no times.
+    time_unit : str or None
+        What ``start_time``/``stop_time`` are: ``"ISO-8601"``, ``"sample"``
+        (no times given), ``"s"`` (timedeltas), or None (numbers given
+        without a unit).
     window, step : int
         Samples per window and between window starts.
     names : tuple of str
@@ -60,6 +65,7 @@ class RollingAreas(ArrayResult):
     names: tuple
     closure: str = "chord"
     units: Mapping | None = None
+    time_unit: str | None = "sample"
 
     def _channel(self, k) -> int:
         if isinstance(k, str):
@@ -92,8 +98,12 @@ class RollingAreas(ArrayResult):
         items = [("windows", str(len(self))), ("window", str(self.window)),
                  ("step", str(self.step)), ("names", fmt_names(self.names))]
         if len(self):
-            items.append(("span", f"{fmt_number(self.start_time[0])} to "
-                                  f"{fmt_number(self.stop_time[-1])}"))
+            a, b = self.start_time[0], self.stop_time[-1]
+            span = (f"{a} to {b}" if isinstance(a, str) else
+                    f"{fmt_number(a)} to {fmt_number(b)}")
+            if self.time_unit not in (None, "ISO-8601"):
+                span += f" ({self.time_unit})"
+            items.append(("span", span))
         return items
 
 
@@ -185,10 +195,10 @@ def rolling_area_matrix(X, window, step, *, times=None, names=None) -> RollingAr
             raise overflow_error("rolling_area_matrix")
     K = areas.shape[0]
     u = np.arange(K, dtype=np.int64) * s
-    t = data.times if data.times is not None else np.arange(T, dtype=np.float64)
-    return RollingAreas(areas=areas, start=u, stop=u + w, start_time=t[u],
-                        stop_time=t[u + w - 1], window=w, step=s, names=data.labels,
-                        units=data.units)
+    t0, unit = data.report_times(u)
+    t1, _ = data.report_times(u + w - 1)
+    return RollingAreas(areas=areas, start=u, stop=u + w, start_time=t0, stop_time=t1,
+                        window=w, step=s, names=data.labels, units=data.units, time_unit=unit)
 
 
 def _rolling(data, w, step):

@@ -28,8 +28,8 @@ def _gap_free(X, times, names, what="X", min_channels=2):
     if bad.any():
         r, c = (int(v) for v in np.argwhere(bad)[0])
         kind = "NaN (a gap)" if np.isnan(Y[r, c]) else "an infinite value"
-        raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; surrogates and the "
-                         "bootstrap need gap-free data (split the recording at its gaps)")
+        raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; the decorrelation "
+                         "lag needs gap-free data (split the recording at its gaps)")
     # each channel scaled by a power of two (exact): no sum, product or square of
     # areas overflows or underflows; areas are scaled back by unscale_pairs.  Scaled
     # before centring, so that the mean of values near the float64 limit cannot
@@ -40,6 +40,47 @@ def _gap_free(X, times, names, what="X", min_channels=2):
     Y -= Y.mean(axis=0)
     ex2 = pow2_exponents(Y, axis=0)
     return pow2_scale(Y, -ex2), data, ex + ex2
+
+
+def _trial_pieces(X, times, names, trials, what="X", min_len=3):
+    """Gap-free pieces of the trials of ``X``, centred and scaled as in :func:`_gap_free`.
+
+    Returns ``(pieces, data, ex, tr)``: a list of (L_p, n) arrays (each
+    centred on its own mean; pieces shorter than ``min_len`` rows, whose
+    chord-closed area is zero, are left out), the checked input, the
+    per-channel power-of-two exponents (common to all pieces, so that their
+    areas add) and the :class:`~wedgepath.signals.trials.Trials`.
+    """
+    from .trials import resolve_trials, split_trial_column
+
+    X, trials = split_trial_column(X, trials)
+    data = signal_input(X, times, names, what=what)
+    Y = np.array(data.values, dtype=np.float64)
+    if np.isinf(Y).any():
+        r, c = (int(v) for v in np.argwhere(np.isinf(Y))[0])
+        raise ValueError(f"{what} contains an infinite value at row {r}, channel {c}")
+    tr = resolve_trials(trials, data, default_gaps=True)
+    ex = pow2_exponents(Y, axis=0)
+    Y = pow2_scale(Y, -ex)
+    keep = (tr.piece_stop - tr.piece_start) >= min_len
+    pieces, owner = [], []
+    for a, b, t in zip(tr.piece_start[keep].tolist(), tr.piece_stop[keep].tolist(),
+                       tr.piece_trial[keep].tolist()):
+        P = Y[a:b].copy()
+        P -= P.mean(axis=0)
+        pieces.append(P)
+        owner.append(t)
+    if not pieces:
+        raise ValueError(f"{what} has no trial piece of at least {min_len} gap-free samples")
+    ex2 = pow2_exponents(np.concatenate(pieces, axis=0), axis=0)
+    pieces = [pow2_scale(P, -ex2) for P in pieces]
+    return pieces, np.asarray(owner, dtype=np.int64), data, ex + ex2, tr
+
+
+def _is_single(tr, T):
+    """True when the trials are one gap-free piece covering every row (the classic case)."""
+    return len(tr) == 1 and tr.piece_start.size == 1 and tr.piece_start[0] == 0 \
+        and tr.piece_stop[0] == T
 
 
 def _cyclic_area(Y):
@@ -272,6 +313,11 @@ class SurrogateResult(Result):
     closure : str
         ``"chord"`` (the statistic is the chord-closed area).
     units : mapping or None
+    trials : int
+        Number of gap-free pieces (trials, or the parts of a trial between
+        its gaps) the statistic was pooled over; 1 for one gap-free series.
+    design : str
+        How the surrogates were made, in words (shown in the summary).
 
     ``to_frame()`` has one row per pair ``i < j``, columns ``i, j,
     channel_i, channel_j, area, p, q, null_mean, null_std``.
@@ -289,6 +335,8 @@ class SurrogateResult(Result):
     min_shift: int | None = None
     closure: str = "chord"
     units: Mapping | None = None
+    trials: int = 1
+    design: str = ""
 
     def significant(self, alpha=0.05) -> np.ndarray:
         """Boolean (n, n) matrix of pairs with ``qvalue <= alpha``."""
@@ -306,6 +354,8 @@ class SurrogateResult(Result):
         m = len(self.names) * (len(self.names) - 1) // 2
         items += [("significant", f"{int(self.significant().sum() // 2)} of {m} pairs at q<=0.05"),
                   ("names", fmt_names(self.names))]
+        if self.trials > 1:
+            items.append(("trials", str(self.trials)))
         return items
 
 
@@ -360,7 +410,7 @@ def _merge_moments(count, mean, m2, values, use):
 
 
 def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", seed=None,
-                   times=None, names=None, progress=None) -> SurrogateResult:
+                   times=None, names=None, progress=None, trials=None) -> SurrogateResult:
     """Test every pair's area against surrogates that break the lead-lag but keep each signal.
 
     ``method="shift"``
@@ -389,10 +439,20 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
     extreme (a bound on the rounding error decides, see Notes).  They are
     adjusted over the pairs by :func:`benjamini_hochberg`.
 
+    Trials.  Repeated trials (a trial column, labels, or the pieces between
+    NaN rows, which are trials by default) are tested together: the
+    statistic is the pooled area (the sum of every gap-free piece's
+    chord-closed area, as :func:`area_matrix` gives it), and each surrogate
+    shifts (or phase-randomises) every channel *within each piece* on its
+    own, so that no sample moves to another trial; the surrogate areas of
+    the pieces are summed like the data's.  ``min_shift`` then applies
+    within each piece (at most a quarter of the shortest piece).  Pieces of
+    fewer than 3 samples have no area and are left out.
+
     Parameters
     ----------
     X : array_like (T, n), DataFrame or Path
-        Gap-free samples (NaN raises; split at gaps first).
+        Samples; NaN rows are gaps between trials (see Trials above).
     method : {"shift", "phase"}
     n_surrogates : int
         Number of surrogates per pair (the smallest attainable p-value is
@@ -411,10 +471,14 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
     progress : bool or None
         Progress bar on standard error: None (default) only on a terminal
         and for runs longer than a few seconds, False never, True always.
+    trials : str, array_like or None
+        A DataFrame column holding each row's trial, or one label per row;
+        None (default): the pieces between NaN rows are the trials.
 
     Returns
     -------
     SurrogateResult
+        ``.trials`` and ``.design`` say what was pooled and how.
 
     Notes
     -----
@@ -456,7 +520,11 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
     if B < 1:
         raise ValueError(f"n_surrogates must be at least 1, got {B}")
     rng = as_rng(seed)
-    Y, data, ex = _gap_free(X, times, names)
+    pieces, _, data, ex, tr = _trial_pieces(X, times, names, trials)
+    if not _is_single(tr, data.shape[0]):
+        return _pooled_surrogates(pieces, data, ex, tr, method, B, min_shift, seed, rng,
+                                  progress)
+    Y = pieces[0]
     T, n = Y.shape
     m = _resolve_min_shift(min_shift, method, Y)
     obs = _cyclic_area(Y)
@@ -513,7 +581,111 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
                            null_mean=unscale_pairs(mean, ex, what),
                            null_std=unscale_pairs(np.sqrt(var), ex, what), method=method,
                            n_surrogates=B, min_shift=m, seed=seed, names=data.labels,
-                           units=data.units)
+                           units=data.units, trials=1,
+                           design=("circular shifts of each channel" if method == "shift"
+                                   else "Fourier phase randomisation of each channel"))
+
+
+def _pooled_surrogates(pieces, data, ex, tr, method, B, min_shift, seed, rng, progress):
+    """Surrogate test of the pooled area of several pieces (trials), shuffled within each."""
+    n = pieces[0].shape[1]
+    P = len(pieces)
+    lengths = np.array([Pc.shape[0] for Pc in pieces])
+    cap = int(lengths.min()) // 4
+    if method == "shift":
+        if isinstance(min_shift, str):
+            if min_shift != "auto":
+                raise ValueError(f"min_shift must be 'auto' or a number of samples, got "
+                                 f"{min_shift!r}")
+            if cap < 2:
+                m = cap
+            else:
+                # the decorrelation lag of the longest piece (the best estimate available)
+                mhat, _, _ = _flat_top_lags(pieces[int(np.argmax(lengths))])
+                m = int(2 * max(int(mhat.max()), 1))
+                if m > cap:
+                    import warnings
+                    warnings.warn(f"surrogate_test: the channels stay correlated over {m} "
+                                  f"samples, more than a quarter of the shortest trial piece "
+                                  f"({int(lengths.min())} samples); shifts of at least {cap} "
+                                  "samples are used and may keep part of a lead",
+                                  SurrogateWarning, stacklevel=3)
+                    m = cap
+        else:
+            m = as_int(min_shift, "min_shift")
+            if not 0 <= m <= cap:
+                raise ValueError(f"min_shift must be between 0 and a quarter of the shortest "
+                                 f"trial piece ({cap}), got {m}")
+    else:
+        if not (isinstance(min_shift, str) and min_shift == "auto"):
+            raise ValueError("min_shift applies to method='shift' only; leave it at 'auto' for "
+                             f"method={method!r}")
+        m = None
+    obs = np.zeros((n, n))
+    tol = np.zeros((n, n))
+    for Pc in pieces:
+        obs += _cyclic_area(Pc)
+        tol += _rounding_tolerance(Pc, method)
+    threshold = np.abs(obs) - 2.0 * tol
+    offdiag = ~np.eye(n, dtype=bool)
+    S = np.zeros((B, n, n))            # surrogate b of every pair: sum over the pieces
+    with progress_bar(B * P, "surrogates", progress) as bar:
+        for Pc in pieces:
+            L = Pc.shape[0]
+            count = np.zeros((n, n), dtype=np.int64)
+            per_batch = max(1, min(256, (1 << 21) // (L * n)))
+            if method == "phase":
+                F = np.fft.rfft(Pc, axis=0)
+                M = F.shape[0]
+                free = np.arange(M)
+                free = (free > 0) & ~((L % 2 == 0) & (free == M - 1))
+                nfree = int(free.sum())
+            while True:
+                need = int(B - count[offdiag].min())
+                if need <= 0:
+                    break
+                if method == "shift":
+                    keep = (L - 2 * m + 1) / L if m > 0 else 1.0
+                    k = int(min(per_batch, np.ceil(need / max(keep, 1e-3)) + 2))
+                    shifts = rng.integers(0, L, size=(k, n))
+                    rows = (np.arange(L)[None, :, None] + shifts[:, None, :]) % L
+                    Ys = np.take_along_axis(np.broadcast_to(Pc, (k, L, n)), rows, axis=1)
+                    d = np.abs(shifts[:, :, None] - shifts[:, None, :])
+                    valid = np.minimum(d, L - d) >= m
+                else:
+                    k = int(min(per_batch, need))
+                    Fs = np.broadcast_to(F, (k,) + F.shape).copy()
+                    Fs[:, free] *= np.exp(1j * rng.uniform(0.0, 2.0 * np.pi,
+                                                           size=(k, nfree, n)))
+                    Ys = np.fft.irfft(Fs, n=L, axis=1)
+                    valid = np.ones((k, n, n), dtype=bool)
+                valid &= offdiag
+                rank = count + np.cumsum(valid, axis=0) - 1     # slot of each valid draw
+                use = valid & (rank < B)
+                A = _cyclic_area(Ys)
+                kk, ii, jj = np.nonzero(use)
+                S[rank[kk, ii, jj], ii, jj] += A[kk, ii, jj]
+                before = int(count[offdiag].min())
+                count += use.sum(axis=0)
+                bar.update(int(count[offdiag].min()) - before)
+    exceed = np.sum(np.abs(S) >= threshold, axis=0).astype(np.float64)
+    p = (1.0 + exceed) / (B + 1.0)
+    np.fill_diagonal(p, np.nan)
+    iu = np.triu_indices(n, 1)
+    q = np.full((n, n), np.nan)
+    q[iu] = benjamini_hochberg(p[iu])
+    q.T[iu] = q[iu]
+    mean = S.mean(axis=0)
+    std = S.std(axis=0, ddof=1) if B > 1 else np.zeros((n, n))
+    what = "surrogate_test"
+    how = ("circular shifts of each channel within each piece" if method == "shift"
+           else "Fourier phase randomisation of each channel within each piece")
+    design = f"{how}; area summed over {P} pieces of {tr.describe()}"
+    return SurrogateResult(observed=unscale_pairs(obs, ex, what), pvalues=p, qvalues=q,
+                           null_mean=unscale_pairs(mean, ex, what),
+                           null_std=unscale_pairs(std, ex, what), method=method,
+                           n_surrogates=B, min_shift=m, seed=seed, names=data.labels,
+                           units=data.units, trials=P, design=design)
 
 
 @dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
@@ -530,8 +702,16 @@ class BootstrapResult(Result):
         Bootstrap standard error (standard deviation of the replicates).
     confidence : float
         Confidence level of the interval, in (0, 1).
-    block : int
-        Block length (samples).
+    block : int or None
+        Block length (samples; the largest over the trial pieces when
+        blocks are resampled within several pieces); None when whole trials
+        are resampled.
+    resample : str
+        ``"blocks"`` (circular blocks within each gap-free piece) or
+        ``"trials"`` (whole trials, drawn with replacement).
+    trials : int
+        Number of trials (``resample="trials"``) or of gap-free pieces
+        (``"blocks"``) pooled.
     n_boot : int
     seed
         The seed given.
@@ -551,21 +731,28 @@ class BootstrapResult(Result):
     high: np.ndarray
     std: np.ndarray
     confidence: float
-    block: int
+    block: int | None
     n_boot: int
     names: tuple
     seed: object = None
     replicates: np.ndarray | None = None
     closure: str = "chord"
     units: Mapping | None = None
+    resample: str = "blocks"
+    trials: int = 1
 
     def to_frame(self):
         """One row per pair: ``i, j, channel_i, channel_j, area, low, high, std``."""
         return _pair_frame(self.names, self.estimate, low=self.low, high=self.high, std=self.std)
 
     def _summary_items(self):
-        return [("confidence", fmt_number(self.confidence)), ("block", str(self.block)),
-                ("n_boot", str(self.n_boot)), ("names", fmt_names(self.names))]
+        items = [("confidence", fmt_number(self.confidence)), ("resample", repr(self.resample))]
+        if self.block is not None:
+            items.append(("block", str(self.block)))
+        items += [("n_boot", str(self.n_boot)), ("names", fmt_names(self.names))]
+        if self.trials > 1:
+            items.append(("trials", str(self.trials)))
+        return items
 
 
 #: at most this many pairs feed the automatic block length (spread over the matrix)
@@ -636,7 +823,8 @@ def _block_sums(Y, D, starts, length):
 
 
 def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, times=None,
-                   names=None, keep=False, progress=None) -> BootstrapResult:
+                   names=None, keep=False, progress=None, trials=None,
+                   resample="auto") -> BootstrapResult:
     """Block-bootstrap confidence intervals for every ``A[i, j]``.
 
     The chord-closed area of centred data is a sum of local terms,
@@ -667,10 +855,25 @@ def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, t
     ``docs/signals.md``: the MSE-optimal ``b_PW`` alone is too short when the
     terms carry a weak but long correlation (coverage 0.89 there).
 
+    Trials.  With repeated trials (a trial column, labels, or the pieces
+    between NaN rows, which are trials by default) the estimate is the
+    pooled area (the sum over trials) and ``resample`` chooses the design:
+    ``"trials"`` draws whole trials with replacement (the standard design
+    when trials are independent; studentized with the spread of the
+    trials' areas), ``"blocks"`` resamples circular blocks within each
+    gap-free piece and sums the pieces' replicates (for a few long
+    trials).  ``"auto"`` takes trials when there are at least 10 of them,
+    blocks otherwise (a common rule of thumb, no source: fewer than about
+    10 trials give too coarse a trial bootstrap), unless pieces shorter
+    than 8 samples hold more than a tenth of the samples (then trials).
+    With blocks, a piece shorter than 8 samples enters every replicate
+    unchanged.  The result says which (``.resample``).
+
     Parameters
     ----------
     X : array_like (T, n), DataFrame or Path
-        Gap-free samples (at least 8).
+        Samples (at least 8 per piece for blocks); NaN rows are gaps
+        between trials.
     block : "auto" or int
         Block length in samples (2 to ``T // 4``).
     n_boot : int
@@ -686,6 +889,11 @@ def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, t
     progress : bool or None
         Progress bar on standard error: None (default) only on a terminal
         and for runs longer than a few seconds, False never, True always.
+    trials : str, array_like or None
+        A DataFrame column holding each row's trial, or one label per row;
+        None (default): the pieces between NaN rows are the trials.
+    resample : {"auto", "trials", "blocks"}
+        What is resampled (see Trials above).
 
     Returns
     -------
@@ -714,7 +922,22 @@ def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, t
     (True, True)
     """
     check_progress(progress)
-    Y, data, ex = _gap_free(X, times, names)
+    check_choice(resample, "resample", ("auto", "trials", "blocks"))
+    R = as_int(n_boot, "n_boot")
+    if R < 2:
+        raise ValueError(f"n_boot must be at least 2, got {R}")
+    level = as_real(confidence, "confidence")
+    if not 0.0 < level < 1.0:
+        raise ValueError(f"confidence must lie strictly between 0 and 1, got {level}")
+    keep = check_bool(keep, "keep")
+    pieces, owner, data, ex, tr = _trial_pieces(X, times, names, trials)
+    if not _is_single(tr, data.shape[0]):
+        return _pooled_bootstrap(pieces, owner, data, ex, tr, block, R, level, seed, keep,
+                                 progress, resample)
+    if resample == "trials":
+        raise ValueError("resample='trials' needs several trials; these data are one gap-free "
+                         "series (give trials=, or use resample='blocks')")
+    Y = pieces[0]
     T, n = Y.shape
     if T < 8:
         raise ValueError(f"the bootstrap needs at least 8 samples, got {T}")
@@ -728,13 +951,6 @@ def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, t
         if not 2 <= ell <= T // 4:
             raise ValueError(f"block must be between 2 and a quarter of the samples ({T // 4}), "
                              f"got {ell}")
-    R = as_int(n_boot, "n_boot")
-    if R < 2:
-        raise ValueError(f"n_boot must be at least 2, got {R}")
-    level = as_real(confidence, "confidence")
-    if not 0.0 < level < 1.0:
-        raise ValueError(f"confidence must lie strictly between 0 and 1, got {level}")
-    keep = check_bool(keep, "keep")
     rng = as_rng(seed)
     k, r = divmod(T, ell)
     nn = n * n
@@ -788,3 +1004,134 @@ def bootstrap_area(X, *, block="auto", n_boot=999, confidence=0.95, seed=None, t
                            std=unscale_pairs(std, ex, what), confidence=level, block=ell,
                            n_boot=R, seed=seed, names=data.labels, units=data.units,
                            replicates=unscale_pairs(reps, ex, what) if keep else None)
+
+
+def _piece_block_replicates(Y, ell, R, rng):
+    """Circular block bootstrap of one centred piece: (estimate, se^2, replicates, var*).
+
+    The same computation as the single-series path of :func:`bootstrap_area`
+    (see there), returning per replicate its total and its own variance
+    estimate (scaled to the piece's length), for pooling over pieces.
+    """
+    T, n = Y.shape
+    D = _local_terms(Y)
+    k, r = divmod(T, ell)
+    nn = n * n
+    stride = max(1, int(np.ceil(T * nn / _BOOT_ELEMENTS)))
+    starts = np.arange(0, T, stride)
+    S = starts.size
+    W = _block_sums(Y, D, starts, ell)
+    Wr = _block_sums(Y, D, starts, r) if r else None
+    est = skew_half(Y.T @ D).reshape(nn)
+    Wmean = W.mean(axis=0)
+    Wc = W - Wmean
+    Wc2 = Wc * Wc
+    se2 = np.mean(Wc2, axis=0) * (T / ell)
+    idx = rng.integers(0, S, size=(R, k))
+    counts = np.zeros((R, S))
+    np.add.at(counts, (np.arange(R)[:, None], idx), 1.0)
+    totc = counts @ Wc
+    mb = totc / k
+    var_b = np.maximum(counts @ Wc2 - k * mb * mb, 0.0) / max(k - 1, 1)
+    tot = totc + k * Wmean
+    if Wr is not None:
+        tot += Wr[rng.integers(0, S, size=R)]
+    return est, se2, tot, var_b * (T / ell)
+
+
+def _studentized(est, se, reps, sd, level, n):
+    """Bootstrap-t limits from replicates ``reps`` with their own standard errors ``sd``."""
+    dev = reps - est
+    with np.errstate(divide="ignore", invalid="ignore"):
+        tstar = np.where(sd > 0, dev / np.where(sd > 0, sd, 1.0),
+                         np.where(dev == 0, 0.0, np.sign(dev) * np.inf))
+    alpha = 1.0 - level
+    q_lo, q_hi = np.quantile(tstar, [alpha / 2, 1 - alpha / 2], axis=0, method="inverted_cdf")
+    low = np.triu((est - q_hi * se).reshape(n, n), 1)
+    high = np.triu((est - q_lo * se).reshape(n, n), 1)
+    return low - high.T, high - low.T      # A[j, i] = -A[i, j]: mirrored intervals
+
+
+def _pooled_bootstrap(pieces, owner, data, ex, tr, block, R, level, seed, keep, progress,
+                      resample):
+    """Bootstrap of the pooled area of several trials (see :func:`bootstrap_area`)."""
+    n = pieces[0].shape[1]
+    nn = n * n
+    N = int(np.unique(owner).size)         # trials with a piece that has an area
+    if resample == "auto":
+        lengths = np.array([P.shape[0] for P in pieces])
+        # blocks need pieces of 8 samples or more; shorter ones would enter unchanged
+        blocks_ok = lengths[lengths >= 8].sum() >= 0.9 * lengths.sum()
+        resample = "trials" if N >= 10 or (not blocks_ok and N >= 2) else "blocks"
+    rng = as_rng(seed)
+    if resample == "trials":
+        if N < 2:
+            raise ValueError("resample='trials' needs at least 2 trials with samples")
+        At = np.zeros((N, nn))
+        _, slot = np.unique(owner, return_inverse=True)
+        for P, t in zip(pieces, slot.tolist()):
+            At[t] += _cyclic_area(P).reshape(nn)
+        est = At.sum(axis=0)
+        se = np.sqrt(N * At.var(axis=0, ddof=1))
+        reps = np.empty((R, nn))
+        sd = np.empty((R, nn))
+        per = max(1, _BOOT_ELEMENTS // max(N * nn, 1))
+        with progress_bar(R, "bootstrap", progress) as bar:
+            for r0 in range(0, R, per):
+                r1 = min(R, r0 + per)
+                draw = At[rng.integers(0, N, size=(r1 - r0, N))]      # (r, N, nn)
+                reps[r0:r1] = draw.sum(axis=1)
+                sd[r0:r1] = np.sqrt(N * draw.var(axis=1, ddof=1))
+                bar.update(r1 - r0)
+        ell = None
+        count = N
+    else:
+        lengths = [P.shape[0] for P in pieces if P.shape[0] >= 8]
+        if not lengths:
+            raise ValueError("resampling blocks needs a trial piece of at least 8 samples "
+                             "(use resample='trials')")
+        est = np.zeros(nn)
+        se2 = np.zeros(nn)
+        reps = np.zeros((R, nn))
+        var = np.zeros((R, nn))
+        used = []
+        with progress_bar(R * len(pieces), "bootstrap", progress) as bar:
+            for P in pieces:
+                L = P.shape[0]
+                if L < 8:       # too short to cut into blocks: enters every replicate as is
+                    a = _cyclic_area(P).reshape(nn)
+                    est += a
+                    reps += a
+                    bar.update(R)
+                    continue
+                if isinstance(block, str):
+                    if block != "auto":
+                        raise ValueError(f"block must be 'auto' or a number of samples, got "
+                                         f"{block!r}")
+                    ell = _auto_block(P, _local_terms(P))
+                else:
+                    ell = as_int(block, "block")
+                    if not 2 <= ell <= L // 4:
+                        raise ValueError(f"block must be between 2 and a quarter of the "
+                                         f"shortest trial piece ({min(lengths) // 4}), got {ell}")
+                used.append(ell)
+                e, s2, tot, v = _piece_block_replicates(P, ell, R, rng)
+                est += e
+                se2 += s2
+                reps += tot
+                var += v
+                bar.update(R)
+        se = np.sqrt(se2)
+        sd = np.sqrt(var)
+        ell = int(max(used))
+        count = len(pieces)
+    low, high = _studentized(est, se, reps, sd, level, n)
+    estimate = skew_half(est.reshape(n, n))
+    std = reps.std(axis=0, ddof=1).reshape(n, n)
+    what = "bootstrap_area"
+    return BootstrapResult(estimate=unscale_pairs(estimate, ex, what),
+                           low=unscale_pairs(low, ex, what), high=unscale_pairs(high, ex, what),
+                           std=unscale_pairs(std, ex, what), confidence=level, block=ell,
+                           n_boot=R, seed=seed, names=data.labels, units=data.units,
+                           replicates=unscale_pairs(reps.reshape(R, n, n), ex, what)
+                           if keep else None, resample=resample, trials=count)

@@ -187,7 +187,8 @@ class AreaAccumulator:
             arr = chunk.reshape(1, -1)
         elif isinstance(chunk, (list, tuple)) and chunk and np.ndim(chunk) == 1:
             arr = np.asarray(chunk).reshape(1, -1)
-        data = signal_input(arr, None, None, what="chunk", min_channels=1, min_samples=1)
+        data = signal_input(arr, None, None, what="chunk", min_channels=1, min_samples=1,
+                                warn_shape=False)
         T, n = data.shape
         if n != self.n:
             raise ValueError(f"chunk has {n} channels but the accumulator was made for {self.n}")
