@@ -25,8 +25,7 @@ from .significance import (SURROGATE_METHODS, BootstrapResult, SurrogateResult,
 from .streaming import AreaAccumulator
 from . import filters
 from .lags import ReferenceLags, reference_lags
-from .verdicts import (DriftCheck, DriftWarning, FitTest, antiphase_channels, drift_check,
-                       fit_test, structure_kind)
+from .verdicts import DriftCheck, DriftWarning, FitTest, drift_check, fit_test
 
 __all__ = [
     # the area matrix
@@ -44,6 +43,6 @@ __all__ = [
     # the table of pairs
     "pair_table",
     # calibrated verdicts and honest reading (docs/signals.md, "reading lead-lag honestly")
-    "fit_test", "FitTest", "drift_check", "DriftCheck", "DriftWarning", "antiphase_channels",
-    "structure_kind", "reference_lags", "ReferenceLags", "filters",
+    "fit_test", "FitTest", "drift_check", "DriftCheck", "DriftWarning", "reference_lags",
+    "ReferenceLags", "filters",
 ]
