@@ -157,8 +157,7 @@ CLASSES = {
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "DriftWarning",
-                                "TableError",
-                                "ChunkError")},
+                                "TableError", "ChunkError", "ArrangementTooLarge")},
 }
 
 
