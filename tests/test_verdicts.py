@@ -199,7 +199,7 @@ def test_drift_check_flags_drifting_walks_and_warns():
     # with drift 0.85, random walks 0.50, AR(1) phi = 0.9 0.04
     rng = np.random.default_rng(4)
     walks = np.cumsum(rng.standard_normal((1000, 4)) + [0.1, 0.2, -0.1, 0.15], axis=0)
-    with pytest.warns(wp.DriftWarning, match="closure='detrend'.*--difference.*--bandpass"):
+    with pytest.warns(wp.DriftWarning, match="closure='detrend'.*difference=True.*bandpass="):
         chk = wp.drift_check(walks)
     assert chk.dominated and chk.overall > 0.6
     from scipy.signal import lfilter
@@ -218,7 +218,7 @@ def test_drift_check_flags_drifting_walks_and_warns():
 # --------------------------------------------------------------------------- anti-phase
 def test_antiphase_channel_is_found_and_inverting_restores_the_order():
     rng = np.random.default_rng(5)
-    X = _delayed(rng, 2000, 4, 2, 0.2)
+    X = _delayed(rng, 2000, 4, 1, 0.2)
     X[:, 2] = -X[:, 2]                                   # a countercyclical sensor
     names = ["a", "b", "c", "d"]
     found = antiphase_channels(X, names=names)
@@ -229,6 +229,9 @@ def test_antiphase_channel_is_found_and_inverting_restores_the_order():
     assert list(order.ordered_names) == names
     noise = rng.standard_normal((500, 4))
     assert antiphase_channels(noise) == []               # no common factor: nothing said
+    t = 2 * np.pi * np.arange(1000) / 100                 # a ring: opposite signs are positions
+    ring = np.column_stack([np.sin(t - d) for d in np.arange(6) * np.pi / 3])
+    assert antiphase_channels(ring) == []
 
 
 # --------------------------------------------------------------------------- chain or ring

@@ -296,8 +296,8 @@ class DriftWarning(UserWarning):
 #: ``DriftCheck.dominated`` when the drift's share of the areas exceeds this
 DRIFT_SHARE_LIMIT = 0.5
 
-DRIFT_REMEDIES = ("closure='detrend' (--closure detrend), differencing (--difference), or a "
-                  "band-pass / high-pass filter (--bandpass LOW,HIGH / --highpass P)")
+DRIFT_REMEDIES = ("closure='detrend', differencing (difference=True) or a zero-phase "
+                  "band-pass / high-pass filter (bandpass=(LOW, HIGH) / highpass=P)")
 
 
 @dataclass(frozen=True, slots=True, repr=False, eq=False, kw_only=True)
@@ -425,7 +425,9 @@ def antiphase_channels(X, *, times=None, names=None, min_share=0.4):
 
     The leading principal component of the correlation matrix is oriented so
     that most channels load positively; when it explains at least
-    ``min_share`` of the total variance (a common factor exists), channels
+    ``min_share`` of the total variance and at least twice the second one (a
+    dominant common factor; a ring of channels spread round a cycle has two
+    components of equal weight and is left alone), channels
     with a negative loading move against it and may be anti-phase
     (countercyclical).  Their areas then have the sign of the opposite lead:
     flip them with ``invert=`` before reading leaders and laggers.
@@ -457,7 +459,9 @@ def antiphase_channels(X, *, times=None, names=None, min_share=0.4):
     C = (Z.T @ Z) / Z.shape[0]
     w, V = np.linalg.eigh(C)
     v = V[:, -1]
-    if w[-1] / w.sum() < min_share:
+    if w[-1] / w.sum() < min_share or w[-1] < 2 * w[-2]:
+        # no dominant common factor; or two of equal weight -- channels spread round a
+        # cycle (a ring), where opposite signs are positions, not anti-phase
         return []
     if np.sum(np.sign(v)) < 0 or (np.sum(np.sign(v)) == 0 and v.sum() < 0):
         v = -v
