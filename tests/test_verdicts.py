@@ -289,3 +289,21 @@ def test_reference_lags_broadband_says_no_lag():
     assert np.isnan(res.lags).all()
     with pytest.raises(ValueError, match="unknown channel"):
         wp.reference_lags(X, "nope")
+
+
+def test_drift_part_equals_the_area_of_the_detrended_data():
+    from wedgepath.signals.verdicts import _base, _detrended, _drift_core
+
+    rng = np.random.default_rng(9)
+    X = np.cumsum(rng.standard_normal((500, 4)), axis=0) * [1, 5, 0.2, 3]
+    t = np.cumsum(rng.uniform(0.5, 1.5, 500))
+    Y, data, s = _base(X, t, None)
+    chk = _drift_core(Y, s, data.labels)
+    A, Ad = _cyclic_area(Y), _cyclic_area(_detrended(Y, s))
+    D = A - Ad
+    np.fill_diagonal(D, 1.0)                          # (the diagonal is 0 / 0: left out)
+    want = np.abs(D) / (np.abs(D) + np.abs(Ad))
+    np.fill_diagonal(want, 0.0)
+    assert np.allclose(chk.share, want, atol=1e-9)
+    # and the public function on the raw data agrees
+    assert np.allclose(wp.drift_check(X, times=t, warn=False).share, want, atol=1e-9)

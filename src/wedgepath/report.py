@@ -932,9 +932,10 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
 
     Computed on the longest gap-free stretch; adds to ``notes`` what a reader must know.
     """
-    from .signals import drift_check, fit_test, reference_lags
-    from .signals.verdicts import (FIT_TEST_MAX_CHANNELS, DriftWarning, antiphase_channels,
-                                   structure_kind)
+    from .signals import FitTest, reference_lags
+    from .signals.verdicts import (FIT_TEST_MAX_CHANNELS, DriftWarning, _antiphase_core, _base,
+                                   _detrended, _drift_core, _fit_core, structure_kind)
+    from ._validation import as_rng
     out = {}
     n = values.shape[1]
     a, b = _longest_gap_free(values)
@@ -948,19 +949,21 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
     if (a, b) != (0, values.shape[0]):
         notes.append(f"the verdict, the drift check and the lags use the longest gap-free "
                      f"stretch, rows {a + 1}-{b} of {values.shape[0]}")
+    Y, data, ramp = _base(part, tpart, list(names))      # one prepared copy for all checks
     if verdict_surrogates is not None:
         if n > FIT_TEST_MAX_CHANNELS:
             notes.append(f"no calibrated verdict for more than {FIT_TEST_MAX_CHANNELS} channels")
         else:
-            out["verdict"] = fit_test(part, n_surrogates=verdict_surrogates, seed=seed,
-                                      names=list(names))
-    chk = drift_check(part, names=list(names), warn=False)
+            core = _fit_core(_detrended(Y, ramp), int(verdict_surrogates), 512, as_rng(seed))
+            out["verdict"] = FitTest(**core, seed=seed, names=names, closure="detrend")
+    chk = _drift_core(Y, ramp, names)
     out["drift"] = chk
     if chk.dominated and closure not in ("detrend",):
         import warnings as _w
         _w.warn(chk.message(), DriftWarning, stacklevel=3)
         notes.append(chk.message())
-    out["antiphase"] = tuple(antiphase_channels(part, names=list(names)))
+    out["antiphase"] = tuple(_antiphase_core(Y, names))
+    del Y
     if order is not None and n >= 3:
         out["structure"] = structure_kind(order)
     if reference is not None:

@@ -119,16 +119,24 @@ class FitTest(Result):
                 ("n_surrogates", str(self.n_surrogates)), ("names", fmt_names(self.names))]
 
 
-def _spectral_weights(Y):
-    """``a_i(k)`` and ``phi_i(k)`` for ``0 < k < T/2`` of centred data ``Y`` (T, n)."""
+def _spectral_amplitudes(Y):
+    """``a_i(k)`` for ``0 < k < T/2`` of centred data ``Y`` (T, n)."""
     T = Y.shape[0]
     F = np.fft.rfft(Y, axis=0)
     k = np.arange(F.shape[0])
-    s = np.sin(2.0 * np.pi * k / T)
     keep = (k > 0) & (2 * k < T)
-    F = F[keep]
-    a = np.sqrt(2.0 * s[keep] / T)[:, None] * np.abs(F)
-    return a, np.angle(F)
+    w = np.sqrt(2.0 * np.sin(2.0 * np.pi * k[keep] / T) / T)
+    return w[:, None] * np.abs(F[keep])
+
+
+def _spectral_weights(Y):
+    """``a_i(k)`` and ``phi_i(k)`` (the formula of the module docstring; for the tests)."""
+    T = Y.shape[0]
+    F = np.fft.rfft(Y, axis=0)
+    k = np.arange(F.shape[0])
+    keep = (k > 0) & (2 * k < T)
+    a = np.sqrt(2.0 * np.sin(2.0 * np.pi * k[keep] / T) / T)[:, None] * np.abs(F[keep])
+    return a, np.angle(F[keep])
 
 
 def _frequency_area(a, phi):
@@ -143,21 +151,89 @@ def _leading(Z):
     return np.abs(w).max(axis=-1), w
 
 
-def _prepare(X, times, names, closure, what):
+def _base(X, times, names, what="X"):
+    """Centred gap-free samples (an owned copy, channels scaled by powers of two), the
+    input's description and the drift ramp ``s`` (0 to 1 in time, or in sample index)."""
     from .significance import _gap_free
 
-    check_choice(closure, "closure", ("chord", "detrend"))
     Y, data, _ = _gap_free(X, times, names, what=what)
-    if closure == "detrend":
-        T = Y.shape[0]
-        if data.times is not None:
-            t = np.asarray(data.times, dtype=np.float64)
-            s = (t - t[0]) / (t[-1] - t[0])
-        else:
-            s = np.arange(T) / (T - 1.0)
-        Y = Y - s[:, None] * (Y[-1] - Y[0])[None, :]
-        Y = Y - Y.mean(axis=0)
-    return Y, data
+    T = Y.shape[0]
+    if data.times is not None:
+        t = np.asarray(data.times, dtype=np.float64)
+        s = (t - t[0]) / (t[-1] - t[0])
+    else:
+        s = np.arange(T) / (T - 1.0)
+    return Y, data, s
+
+
+def _detrended(Y, s):
+    """``Y`` minus its drift from first to last sample, centred again (a new array)."""
+    Yd = Y - np.multiply.outer(s, Y[-1] - Y[0])
+    Yd -= Yd.mean(axis=0)
+    return Yd
+
+
+def _check_counts(n_surrogates, exact_frequencies):
+    B = as_int(n_surrogates, "n_surrogates")
+    if B < 1:
+        raise ValueError(f"n_surrogates must be at least 1, got {B}")
+    K = as_int(exact_frequencies, "exact_frequencies")
+    if K < 0:
+        raise ValueError(f"exact_frequencies must be at least 0, got {K}")
+    return B, K
+
+
+def _fit_core(Y, B, K, rng):
+    """The test on prepared (centred) samples: a dict of FitTest's numbers."""
+    from .significance import _cyclic_area
+
+    T, n = Y.shape
+    if T < 8:
+        raise ValueError(f"fit_test needs at least 8 samples, got {T}")
+    if n > FIT_TEST_MAX_CHANNELS:
+        raise ValueError(f"fit_test handles at most {FIT_TEST_MAX_CHANNELS} channels, got {n}")
+    a = _spectral_amplitudes(Y)
+    A = _cyclic_area(Y)                  # = the frequency-domain formula (tested)
+    a2 = a * a
+    var = 0.5 * (a2.T @ a2)                                  # null variance of each entry
+    off = ~np.eye(n, dtype=bool)
+    ok = off & (var > 0)
+    sd = np.sqrt(np.where(ok, var, 1.0))
+    obs_Z = np.where(ok, A / sd, 0.0)
+    L_obs, w = _leading(obs_Z)
+    tot = float(np.sum(w * w))
+    fit = float(2 * L_obs ** 2 / tot) if tot > 0 else 1.0
+    # exact frequencies: the largest shares of some channel's power
+    power = a2.sum(axis=0)
+    share = (a2 / np.where(power > 0, power, 1.0)).max(axis=1)
+    K = min(K, share.size)
+    exact = (np.argpartition(share, share.size - K)[share.size - K:] if K else
+             np.empty(0, dtype=np.intp))
+    rest = np.ones(share.size, bool)
+    rest[exact] = False
+    ar = a2[rest]
+    rest_sd = np.sqrt(np.maximum(0.5 * (ar.T @ ar), 0.0))
+    ae = a[exact]
+    iu = np.triu_indices(n, 1)
+    L = np.empty(B)
+    per = max(1, _BATCH_ELEMENTS // max(K * n, n * n, 1))
+    for b0 in range(0, B, per):
+        b = min(per, B - b0)
+        As = np.zeros((b, n, n))
+        if K:
+            U = ae[None] * np.exp(1j * rng.uniform(0.0, 2.0 * np.pi, size=(b, K, n)))
+            As -= np.matmul(np.swapaxes(U.conj(), 1, 2), U).imag
+        G = np.zeros((b, n, n))
+        G[:, iu[0], iu[1]] = rng.standard_normal((b, iu[0].size))
+        As += (G - np.swapaxes(G, 1, 2)) * rest_sd
+        Zs = np.where(ok, As / sd, 0.0)
+        L[b0:b0 + b] = _leading(Zs)[0]
+    # a surrogate equal to the statistic up to rounding counts as at least as extreme
+    tol = 64 * np.finfo(float).eps * max(L_obs, 1.0) * n
+    p = (1.0 + np.sum(L >= L_obs - tol)) / (B + 1.0)
+    return dict(pvalue=float(p), strength=float(L_obs), null_median=float(np.median(L)),
+                null_q95=float(np.quantile(L, 0.95)), fit=min(fit, 1.0), n_surrogates=B,
+                exact_frequencies=int(K))
 
 
 def fit_test(X, *, closure="detrend", n_surrogates=199, seed=0, times=None, names=None,
@@ -231,60 +307,13 @@ def fit_test(X, *, closure="detrend", n_surrogates=199, seed=0, times=None, name
     easily as timing.  The test finds timing through phase differences that
     hold across many frequencies (or a band of them).
     """
-    B = as_int(n_surrogates, "n_surrogates")
-    if B < 1:
-        raise ValueError(f"n_surrogates must be at least 1, got {B}")
-    K = as_int(exact_frequencies, "exact_frequencies")
-    if K < 0:
-        raise ValueError(f"exact_frequencies must be at least 0, got {K}")
+    check_choice(closure, "closure", ("chord", "detrend"))
+    B, K = _check_counts(n_surrogates, exact_frequencies)
     rng = as_rng(seed)
-    Y, data = _prepare(X, times, names, closure, "X")
-    T, n = Y.shape
-    if T < 8:
-        raise ValueError(f"fit_test needs at least 8 samples, got {T}")
-    if n > FIT_TEST_MAX_CHANNELS:
-        raise ValueError(f"fit_test handles at most {FIT_TEST_MAX_CHANNELS} channels, got {n}")
-    a, phi = _spectral_weights(Y)
-    A = _frequency_area(a, phi)
-    a2 = a * a
-    var = 0.5 * (a2.T @ a2)                                  # null variance of each entry
-    off = ~np.eye(n, dtype=bool)
-    ok = off & (var > 0)
-    sd = np.sqrt(np.where(ok, var, 1.0))
-    obs_Z = np.where(ok, A / sd, 0.0)
-    L_obs, w = _leading(obs_Z)
-    tot = float(np.sum(w * w))
-    fit = float(2 * L_obs ** 2 / tot) if tot > 0 else 1.0
-    # exact frequencies: the largest shares of some channel's power
-    power = a2.sum(axis=0)
-    share = (a2 / np.where(power > 0, power, 1.0)).max(axis=1)
-    K = min(K, share.size)
-    exact = np.argsort(share)[::-1][:K]
-    rest = np.ones(share.size, bool)
-    rest[exact] = False
-    ar = a2[rest]
-    rest_sd = np.sqrt(np.maximum(0.5 * (ar.T @ ar), 0.0))
-    ae = a[exact]
-    iu = np.triu_indices(n, 1)
-    L = np.empty(B)
-    per = max(1, _BATCH_ELEMENTS // max(K * n, n * n, 1))
-    for b0 in range(0, B, per):
-        b = min(per, B - b0)
-        As = np.zeros((b, n, n))
-        if K:
-            U = ae[None] * np.exp(1j * rng.uniform(0.0, 2.0 * np.pi, size=(b, K, n)))
-            As -= np.matmul(np.swapaxes(U.conj(), 1, 2), U).imag
-        G = np.zeros((b, n, n))
-        G[:, iu[0], iu[1]] = rng.standard_normal((b, iu[0].size))
-        As += (G - np.swapaxes(G, 1, 2)) * rest_sd
-        Zs = np.where(ok, As / sd, 0.0)
-        L[b0:b0 + b] = _leading(Zs)[0]
-    # a surrogate equal to the statistic up to rounding counts as at least as extreme
-    tol = 64 * np.finfo(float).eps * max(L_obs, 1.0) * n
-    p = (1.0 + np.sum(L >= L_obs - tol)) / (B + 1.0)
-    return FitTest(pvalue=float(p), strength=float(L_obs), null_median=float(np.median(L)),
-                   null_q95=float(np.quantile(L, 0.95)), fit=min(fit, 1.0), n_surrogates=B,
-                   exact_frequencies=int(K), seed=seed, names=data.labels, closure=closure,
+    Y, data, s = _base(X, times, names)
+    if closure == "detrend":
+        Y = _detrended(Y, s)
+    return FitTest(**_fit_core(Y, B, K, rng), seed=seed, names=data.labels, closure=closure,
                    units=data.units)
 
 
@@ -313,7 +342,8 @@ class DriftCheck(Result):
         that drift is removed.  0 on the diagonal.
     overall : float
         ``||D||_F / (||D||_F + ||A_d||_F)``: the same share for the whole
-        matrix.
+        matrix, with every channel scaled to unit standard deviation (so no
+        channel weighs more for its units).
     dominated : bool
         ``overall > DRIFT_SHARE_LIMIT`` (0.5): the drift makes most of the
         lead-lag pattern.
@@ -392,25 +422,39 @@ def drift_check(X, *, times=None, names=None, warn=True) -> DriftCheck:
     >>> chk.dominated, "detrend" in str(w[0].message)
     (True, True)
     """
-    from .significance import _cyclic_area
-
-    Yc, data = _prepare(X, times, names, "chord", "X")
-    Yd, _ = _prepare(X, times, names, "detrend", "X")
-    A = _cyclic_area(Yc)
-    Ad = _cyclic_area(Yd)
-    D = A - Ad
-    with np.errstate(invalid="ignore", divide="ignore"):
-        share = np.where(np.abs(D) + np.abs(Ad) > 0, np.abs(D) / (np.abs(D) + np.abs(Ad)), 0.0)
-    nd, na = float(np.linalg.norm(D)), float(np.linalg.norm(Ad))
-    overall = nd / (nd + na) if nd + na > 0 else 0.0
-    i, j = np.unravel_index(int(np.argmax(np.abs(np.triu(D, 1)))), D.shape)
-    labels = data.labels
-    res = DriftCheck(share=share, overall=overall, worst=(labels[i], labels[j]), names=labels,
-                     units=data.units)
+    Y, data, s = _base(X, times, names)
+    res = _drift_core(Y, s, data.labels, data.units)
     if check_bool_arg(warn) and res.dominated:
         import warnings
         warnings.warn(res.message(), DriftWarning, stacklevel=2)
     return res
+
+
+def _drift_core(Y, s, labels, units=None):
+    """DriftCheck of centred samples ``Y`` and the ramp ``s``.
+
+    Removing the drift ``s (y_last - y_first)`` changes the cyclic area by
+    ``D[i, j] = b_i d_j - d_i b_j`` (``d = y_last - y_first``, ``b_i`` the cyclic
+    area of channel i against the ramp ``s``): the area form is bilinear and the
+    ramps of all channels are proportional, so their own area is zero.
+    """
+    from .significance import _cyclic_area
+
+    A = _cyclic_area(Y)
+    d = Y[-1] - Y[0]
+    b = 0.5 * (Y.T @ (np.roll(s, -1) - np.roll(s, 1)))
+    D = np.multiply.outer(b, d) - np.multiply.outer(d, b)
+    Ad = A - D
+    with np.errstate(invalid="ignore", divide="ignore"):
+        share = np.where(np.abs(D) + np.abs(Ad) > 0, np.abs(D) / (np.abs(D) + np.abs(Ad)), 0.0)
+        sd = Y.std(axis=0)
+        sd = np.where(sd > 0, sd, 1.0)
+        S = np.outer(sd, sd)
+    nd, na = float(np.linalg.norm(D / S)), float(np.linalg.norm(Ad / S))
+    overall = nd / (nd + na) if nd + na > 0 else 0.0
+    i, j = np.unravel_index(int(np.argmax(np.abs(np.triu(D / S, 1)))), D.shape)
+    return DriftCheck(share=share, overall=overall, worst=(labels[i], labels[j]), names=labels,
+                      units=units)
 
 
 def check_bool_arg(v):
@@ -448,15 +492,17 @@ def antiphase_channels(X, *, times=None, names=None, min_share=0.4):
     >>> [nm for nm, _ in antiphase_channels(X)]
     ['2']
     """
-    from .significance import _gap_free
+    Y, data, _ = _base(X, times, names)
+    return _antiphase_core(Y, data.labels, min_share)
 
-    Y, data, _ = _gap_free(X, times, names)
+
+def _antiphase_core(Y, labels, min_share=0.4):
     sd = Y.std(axis=0)
-    Z = Y[:, sd > 0] / sd[sd > 0]
     keep = np.flatnonzero(sd > 0)
     if keep.size < 2:
         return []
-    C = (Z.T @ Z) / Z.shape[0]
+    Ys = Y[:, keep]
+    C = (Ys.T @ Ys) / Y.shape[0] / np.outer(sd[keep], sd[keep])
     w, V = np.linalg.eigh(C)
     v = V[:, -1]
     if w[-1] / w.sum() < min_share or w[-1] < 2 * w[-2]:
@@ -466,7 +512,7 @@ def antiphase_channels(X, *, times=None, names=None, min_share=0.4):
     if np.sum(np.sign(v)) < 0 or (np.sum(np.sign(v)) == 0 and v.sum() < 0):
         v = -v
     load = v * np.sqrt(v.size)
-    out = [(data.labels[keep[k]], float(load[k])) for k in range(v.size) if load[k] < -0.2]
+    out = [(labels[keep[k]], float(load[k])) for k in range(v.size) if load[k] < -0.2]
     return sorted(out, key=lambda p: p[1])
 
 
