@@ -509,6 +509,7 @@ class LeadLagReport(_Report):
                               "high": dict(zip(names, np.asarray(lg.high, dtype=float))),
                               "coherence": dict(zip(names, np.asarray(lg.coherence, float))),
                               "confidence": float(lg.confidence), "n_boot": int(lg.n_boot),
+                              "resampled": bool(lg.resampled),
                               "sign": "positive when the channel lags the reference"}
         d["notes"] = list(self.notes)
         if self.rolling is not None:
@@ -691,7 +692,8 @@ class LeadLagReport(_Report):
                     "peak period), so no single lag is defined; band-pass first "
                     "(--bandpass LOW,HIGH) to ask about one band"]
         out = [f"\nlags behind {lg.reference} (period {lg.period:.4g}{u}; positive: lags; "
-               f"{100 * lg.confidence:.0f}% block-bootstrap interval):"]
+               f"{100 * lg.confidence:.0f}% block-bootstrap interval"
+               + ("; irregular times resampled linearly" if lg.resampled else "") + "):"]
         for k, nm in enumerate(self.names):
             if nm == lg.reference:
                 continue
@@ -926,6 +928,11 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     return LeadLagReport(**kw)
 
 
+#: rows beyond which the verdict, drift and lag checks of :func:`leadlag` use block means
+#: (see docs/performance.md, bench_verdicts.py)
+CHECK_ROWS = 1 << 18
+
+
 def _honest_reading(values, times, names, order, closure, verdict_surrogates, seed, reference,
                     notes):
     """Verdict, drift, anti-phase candidates, chain or ring, reference lags (issue 17).
@@ -949,6 +956,16 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
     if (a, b) != (0, values.shape[0]):
         notes.append(f"the verdict, the drift check and the lags use the longest gap-free "
                      f"stretch, rows {a + 1}-{b} of {values.shape[0]}")
+    if part.shape[0] > CHECK_ROWS:
+        # long tables: the checks use means of blocks of m consecutive rows (the same
+        # linear filter on every channel: independent channels stay independent, so the
+        # verdict stays calibrated; leads faster than m samples are not seen by it)
+        m = -(-part.shape[0] // CHECK_ROWS)
+        k = part.shape[0] // m
+        part = part[:k * m].reshape(k, m, n).mean(axis=1)
+        tpart = None if tpart is None else tpart[:k * m].reshape(k, m).mean(axis=1)
+        notes.append(f"the verdict, the drift check and the lags use means of blocks of {m} "
+                     f"rows ({k} blocks): leads shorter than {m} samples are not seen by them")
     Y, data, ramp = _base(part, tpart, list(names))      # one prepared copy for all checks
     if verdict_surrogates is not None:
         if n > FIT_TEST_MAX_CHANNELS:

@@ -61,6 +61,9 @@ class ReferenceLags(Result):
     n_boot : int
     block : int
         Bootstrap block length (samples).
+    resampled : bool
+        The times were irregular (spacing varying by more than 1 %), and the
+        channels were resampled linearly onto a regular grid of as many points.
     names : tuple of str
     units : mapping or None
 
@@ -79,6 +82,7 @@ class ReferenceLags(Result):
     block: int
     names: tuple
     seed: object = None
+    resampled: bool = False
     units: Mapping | None = None
 
     @property
@@ -123,7 +127,8 @@ def reference_lags(X, reference, *, times=None, names=None, n_boot=199, confiden
     Parameters
     ----------
     X : array_like (T, n), DataFrame or Path
-        Gap-free, regularly sampled data.
+        Gap-free data; irregularly sampled data are resampled linearly onto a
+        regular grid first (``resampled`` says so).
     reference : str or int
         The reference channel.
     times, names
@@ -165,8 +170,17 @@ def reference_lags(X, reference, *, times=None, names=None, n_boot=199, confiden
     Y, data, _ = _gap_free(X, times, names, min_channels=1)
     labels = data.labels
     ref = channel_indices([reference], labels, "reference")[0]
-    h = sample_spacing(data.times)
     T, n = Y.shape
+    resampled = False
+    try:
+        h = sample_spacing(data.times)
+    except ValueError:
+        # irregular times: resample every channel linearly onto a regular grid of T points
+        t = np.asarray(data.times, dtype=np.float64)
+        grid = np.linspace(t[0], t[-1], T)
+        Y = np.column_stack([np.interp(grid, t, Y[:, k]) for k in range(n)])
+        h = (t[-1] - t[0]) / (T - 1)
+        resampled = True
     if T < 16:
         raise ValueError(f"reference_lags needs at least 16 samples, got {T}")
     Y = detrend(Y)
@@ -185,7 +199,8 @@ def reference_lags(X, reference, *, times=None, names=None, n_boot=199, confiden
     period = 1.0 / f0
     block = int(min(max(np.ceil(2 * period / h), np.ceil(np.sqrt(T)), 2), max(T // 4, 2)))
     common = dict(reference=labels[ref], period=period, band_share=share, confidence=level,
-                  n_boot=R, block=block, names=labels, seed=seed, units=data.units)
+                  n_boot=R, block=block, names=labels, seed=seed, units=data.units,
+                  resampled=resampled)
     if share < NARROW_BAND_SHARE:
         return ReferenceLags(lags=nan, low=nan.copy(), high=nan.copy(), coherence=nan.copy(),
                              **common)
