@@ -110,9 +110,10 @@ class CyclicOrder(Result):
 
     def _summary_items(self):
         pv = [] if self.fit_pvalue is None else [("fit_pvalue", fmt_number(self.fit_pvalue, 3))]
-        return [("order", fmt_names(self.ordered_names, 8)), ("fit", fmt_number(self.fit, 3))] + pv + [
-                ("positions_rad", "[" + ", ".join(f"{p:.3g}" for p in self.positions[
-                    np.asarray(self.order)][:8]) + (", ..." if len(self.order) > 8 else "") + "]")]
+        shown = ", ".join(f"{p:.3g}" for p in self.positions[np.asarray(self.order)][:8])
+        more = ", ..." if len(self.order) > 8 else ""
+        return [("order", fmt_names(self.ordered_names, 8)), ("fit", fmt_number(self.fit, 3)),
+                *pv, ("positions_rad", f"[{shown}{more}]")]
 
 
 def _leading_pair(M):

@@ -41,8 +41,8 @@ import numpy as np
 from .._results import Result, fmt_names, fmt_number
 from .._validation import as_int, as_rng, check_choice
 
-__all__ = ["fit_test", "FitTest", "FIT_TEST_MAX_CHANNELS", "drift_check", "DriftCheck", "DriftWarning",
-           "antiphase_channels", "structure_kind"]
+__all__ = ["fit_test", "FitTest", "FIT_TEST_MAX_CHANNELS", "drift_check", "DriftCheck",
+           "DriftWarning", "antiphase_channels", "structure_kind"]
 
 #: beyond this many channels the test is not computed (a surrogate costs an
 #: n x n eigenvalue problem)
