@@ -1367,6 +1367,66 @@ if wdask is not None:
 
 
 # =========================================================================== the tests
+# --------------------------------------------------------------------------- verdicts (issue 17)
+for name, fn in (("wp.fit_test(X)", lambda X, **k: wp.fit_test(X, n_surrogates=3, **k)),
+                 ("wp.drift_check(X)", lambda X, **k: wp.drift_check(X, warn=False, **k))):
+    array_rows(name, fn, 3, ndim=(ValueError, "must be 2-dimensional"),
+               empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
+               allnan=(ValueError, "contains NaN (a gap)"))
+    row(name, "nan", "one NaN row (a gap)", lambda fn=fn: fn(np.r_[loop(3), [[nan] * 3]]),
+        ValueError, "need gap-free data")
+    row(name, "times", "duplicate times", lambda fn=fn: fn(loop(3), times=np.zeros(8)),
+        ValueError, "strictly increasing")
+    row(name, "length", "3 names for 2 channels", lambda fn=fn: fn(loop(2), names=list("abc")),
+        ValueError, "names")
+row("wp.fit_test(X)", "option", "n_surrogates=0", lambda: wp.fit_test(loop(3), n_surrogates=0),
+    ValueError, "at least 1")
+row("wp.fit_test(X)", "option", "closure='none'", lambda: wp.fit_test(loop(3), closure="none"),
+    ValueError, "closure")
+row("wp.fit_test(X)", "option", "seed='abc'", lambda: wp.fit_test(loop(3), seed="abc"),
+    TypeError, "seed must be None, an integer >= 0")
+row("wp.drift_check(X)", "option", "warn='yes'", lambda: wp.drift_check(loop(3), warn="yes"),
+    TypeError, "warn must be True or False")
+RL = "wp.reference_lags(X, ref)"
+array_rows(RL, lambda X, **k: wp.reference_lags(X, 0, n_boot=3, **k), 2,
+           ndim=(ValueError, "must be 2-dimensional"), empty=(ValueError, "0 samples"),
+           single=(ValueError, "1 sample"), allnan=(ValueError, "contains NaN (a gap)"))
+row(RL, "single", "15 samples", lambda: wp.reference_lags(loop(2, T=15), 0), ValueError,
+    "at least 16 samples")
+row(RL, "option", "reference='zz'", lambda: wp.reference_lags(loop(2, T=32), "zz"), ValueError,
+    "unknown channel 'zz'")
+row(RL, "option", "confidence=2", lambda: wp.reference_lags(loop(2, T=32), 0, confidence=2),
+    ValueError, "strictly between 0 and 1")
+row(RL, "option", "n_boot=1", lambda: wp.reference_lags(loop(2, T=32), 0, n_boot=1),
+    ValueError, "at least 2")
+row(RL, "nan", "constant reference", lambda: wp.reference_lags(
+    np.c_[np.ones(32), loop(1, T=32)], 0), ValueError, "is constant")
+row("filters.bandpass(X, lo, hi)", "option", "shortest >= longest",
+    lambda: wp.filters.bandpass(loop(2, T=64), 10, 5), ValueError, "shortest < longest")
+row("filters.bandpass(X, lo, hi)", "option", "a period of 1.5 samples",
+    lambda: wp.filters.bandpass(loop(2, T=64), 1.5, 10), ValueError, "two samples")
+row("filters.bandpass(X, lo, hi)", "times", "irregular times",
+    lambda: wp.filters.bandpass(loop(2, T=64), 4, 10, times=np.arange(64.0) ** 1.5), ValueError,
+    "not regularly spaced")
+row("filters.bandpass(X, lo, hi)", "nan", "one NaN row",
+    lambda: wp.filters.bandpass(np.r_[loop(2, T=64), [[nan, nan]]], 4, 10), ValueError,
+    "gap-free data")
+row("filters.highpass(X, longest)", "option", "longest=-1",
+    lambda: wp.filters.highpass(loop(2, T=64), -1), ValueError, "positive period")
+row("filters.highpass(X, longest)", "option", "longest beyond the recording",
+    lambda: wp.filters.highpass(loop(2, T=64), 1000), ValueError, "longer than the recording")
+row("filters.invert(X, channels)", "option", "an unknown channel",
+    lambda: wp.filters.invert(loop(2), ["z"]), ValueError, "unknown channel 'z'")
+row("filters.invert(X, channels)", "option", "a channel index out of range",
+    lambda: wp.filters.invert(loop(2), [5]), ValueError, "out of range")
+row("filters.difference(X)", "single", "shape (1, 2)", lambda: wp.filters.difference(
+    np.ones((1, 2))), ValueError, "1 sample")
+row("filters.detrend(X)", "nan", "one NaN row",
+    lambda: wp.filters.detrend(np.r_[loop(2), [[nan, nan]]]), ValueError, "gap-free data")
+row("filters.preprocess(X, ...)", "option", "bandpass=5 (not a pair)",
+    lambda: wp.filters.preprocess(loop(2, T=64), bandpass=5), TypeError, "pair")
+
+
 def outcome(r: Row):
     """Run a row; return a description of what happened (for assertion messages)."""
     with warnings.catch_warnings():
@@ -1418,7 +1478,8 @@ def public_calls():
         if inspect.isclass(obj) and issubclass(obj, (Warning, Exception)):
             continue  # warning and error classes are raised by the library, not called
         if name in ("RegionMoments", "Decomposition", "Lobe", "CyclicOrder", "SurrogateResult",
-                    "BootstrapResult", "CycleAreas", "RollingAreas"):
+                    "BootstrapResult", "CycleAreas", "RollingAreas", "FitTest", "DriftCheck",
+                    "ReferenceLags"):
             continue  # result objects: built by the library, not by users
         names.add(f"wp.{name}")
     names |= {f"wp.io.{n}" for n in ("read_table", "iter_table_chunks", "table_columns",

@@ -80,6 +80,9 @@ FRAME_COLUMNS = {
                       "centroid_y", "I_x", "I_y", "I_xy"],
     "Integral": ["value", "error", "exact", "method", "rounding", "evaluations"],
     "Table": ["a", "b"],                       # the table itself: its channels
+    "FitTest": ["strength", "null_median", "null_q95", "pvalue", "fit", "n_surrogates"],
+    "DriftCheck": ["i", "j", "channel_i", "channel_j", "drift_share"],
+    "ReferenceLags": ["channel", "lag", "low", "high", "coherence"],
 }
 
 #: the convention fields each result type carries (beyond names and units)
@@ -94,6 +97,9 @@ CONVENTIONS = {
     "Lobe": [],
     "RegionMoments": ["closure"],
     "Table": ["source", "time_axis"],
+    "FitTest": ["closure", "method", "n_surrogates", "seed"],
+    "DriftCheck": [],
+    "ReferenceLags": ["reference", "confidence", "n_boot", "seed"],
 }
 
 #: public functions: (what they return, a call on a small input)
@@ -141,6 +147,9 @@ CALLS = {
     "wedgepath.dask.area_matrices": ("results", lambda: wdask.area_matrices(
         [WAVES.to_numpy(), WAVES.to_numpy()[:20]], scheduler="sync")),
     "wedgepath.dask.file_area_matrices": ("results", None),      # files: see its own test
+    "wedgepath.fit_test": ("result", lambda: wp.fit_test(WAVES, n_surrogates=9)),
+    "wedgepath.drift_check": ("result", lambda: wp.drift_check(WAVES, warn=False)),
+    "wedgepath.reference_lags": ("result", lambda: wp.reference_lags(WAVES, "a", n_boot=9)),
     # methods that return results
     "AreaAccumulator.result": ("result", lambda: wp.AreaAccumulator(3, names=list("abc"))
                                .update(WAVES.to_numpy()).result()),
@@ -151,13 +160,15 @@ CLASSES = {
     # the result types (built by the library; the contract is checked on them)
     **{n: "result" for n in ("AreaMatrix", "CyclicOrder", "RollingAreas", "CycleAreas",
                              "SurrogateResult", "BootstrapResult", "Decomposition", "Lobe",
-                             "RegionMoments", "Table", "Integral")},
+                             "RegionMoments", "Table", "Integral", "FitTest", "DriftCheck",
+                             "ReferenceLags")},
     # values the user builds and computes with
     **{n: "value" for n in ("Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm",
                             "TwoForm", "SimplicialChain", "SimplicialComplex", "WhitneyForm")},
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "ShapeWarning",
+                                "DriftWarning",
                                 "TableError", "ChunkError", "ArrangementTooLarge")},
 }
 

@@ -173,7 +173,8 @@ def test_counts_are_named_n_something():
 # --------------------------------------------------------------------------- confidence / level
 def test_confidence_is_a_confidence_and_level_a_crossing_level():
     assert {q.rsplit(".", 1)[1] for q, _ in params("level")} == {"cycle_areas"}
-    assert {q.rsplit(".", 1)[1] for q, _ in params("confidence")} == {"bootstrap_area"}
+    assert {q.rsplit(".", 1)[1] for q, _ in params("confidence")} == {"bootstrap_area",
+                                                                      "reference_lags"}
     assert "level" in {f.name for f in dataclasses.fields(wp.CycleAreas)}   # the crossing level
     boot = {f.name for f in dataclasses.fields(wp.BootstrapResult)}
     assert "confidence" in boot and "level" not in boot

@@ -130,6 +130,30 @@ def _nonnegative_float(text):
     return v
 
 
+def _positive_float(text):
+    v = _finite_float(text)
+    if v <= 0:
+        raise argparse.ArgumentTypeError(f"expected a positive number, got {text!r}")
+    return v
+
+
+def _band(text):
+    parts = text.split(",")
+    if len(parts) != 2:
+        raise argparse.ArgumentTypeError(f"expected LOW,HIGH (two periods), got {text!r}")
+    lo, hi = (_positive_float(p.strip()) for p in parts)
+    if not lo < hi:
+        raise argparse.ArgumentTypeError(f"expected LOW < HIGH, got {text!r}")
+    return lo, hi
+
+
+def _name_list(text):
+    names = [p.strip() for p in text.split(",")]
+    if not all(names):
+        raise argparse.ArgumentTypeError(f"expected COL,COL,... (no empty names), got {text!r}")
+    return names
+
+
 def _fraction(text):
     v = _finite_float(text)
     if not 0 < v < 1:
@@ -189,6 +213,21 @@ def build_parser():
                     "pairs.csv, positions.png)")
     ll.add_argument("--confidence", type=_fraction, default=0.95, metavar="C",
                     help="confidence level of the bootstrap intervals (default 0.95)")
+    ll.add_argument("--invert", type=_name_list, metavar="COL,...",
+                    help="negate these channels first (anti-phase channels, e.g. "
+                    "unemployment against output; the summary names candidates)")
+    ll.add_argument("--detrend", action="store_true",
+                    help="remove each channel's least-squares straight line first")
+    ll.add_argument("--difference", action="store_true",
+                    help="take first differences of every channel first")
+    ll.add_argument("--bandpass", type=_band, metavar="LOW,HIGH",
+                    help="keep periods from LOW to HIGH, in the time column's units "
+                    "(samples without --time), by a zero-phase filter (e.g. 6,32 quarters)")
+    ll.add_argument("--highpass", type=_positive_float, metavar="P",
+                    help="remove periods longer than P time units (zero-phase filter)")
+    ll.add_argument("--reference", metavar="COL",
+                    help="each channel's lag behind COL in time units, with an interval "
+                    "(oscillatory data only; broad-band data are said to be so)")
     _add_common(ll, ["result.json", "area_matrix.csv", "pairs.csv", "rolling.csv (--window)",
                      "pvalues.csv and qvalues.csv (--surrogates)", "trials.csv (--trial)",
                      "positions.png",
@@ -360,7 +399,13 @@ def _cmd_leadlag(args):
                                          ("--trial", args.trial),
                                          ("--surrogates", args.surrogates),
                                          ("--bootstrap", args.bootstrap),
-                                         ("--normalize", args.normalize)) if val]
+                                         ("--normalize", args.normalize),
+                                         ("--invert", args.invert),
+                                         ("--detrend", args.detrend),
+                                         ("--difference", args.difference),
+                                         ("--bandpass", args.bandpass),
+                                         ("--highpass", args.highpass),
+                                         ("--reference", args.reference)) if val]
         if clash:
             raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
         if args.closure != "chord":
@@ -393,7 +438,10 @@ def _cmd_leadlag(args):
                          surrogate_method=args.surrogate_method, seed=args.seed,
                          n_boot=args.bootstrap, confidence=args.confidence, top=args.top,
                          progress=_progress_flag(args), tol=args.tol, time_name=args.time,
-                         units=args.units, source=source)
+                         units=args.units, source=source, invert=args.invert,
+                         detrend=args.detrend, difference=args.difference,
+                         bandpass=args.bandpass, highpass=args.highpass,
+                         reference=args.reference)
     return _emit(args, rep, plan, figures)
 
 
@@ -440,6 +488,8 @@ _WORDS = [
     (r" \(options: 'none', 'chord', 'detrend', 'require'\)", ""),
     (r" and closure='none';", ";"),
     (r"closure='(\w+)'", r"--closure \1"),
+    (r"differencing \(difference=True\)", "differencing (--difference)"),
+    (r"\(bandpass=\(LOW, HIGH\) / highpass=P\)", "(--bandpass LOW,HIGH / --highpass P)"),
     (r"(--closure \w+(?: \(the default\))?),? '(\w+)'(,)? or '(\w+)'", r"\1, \2\3 or \4"),
     (r"(--closure \w+) or '(\w+)'", r"\1 or \2"),
     (r"pass a larger tol\b", "pass a larger --tol (the distance allowed between the end and "
@@ -478,7 +528,8 @@ def cli_words(msg):
 
 def _one_line_warning(message, category, filename, lineno, file=None, line=None):
     text = str(message).strip().splitlines()
-    print(f"wedgepath: warning: {text[0] if text else category.__name__}", file=sys.stderr)
+    print(f"wedgepath: warning: {cli_words(text[0]) if text else category.__name__}",
+          file=sys.stderr)
 
 
 def main(argv=None) -> int:

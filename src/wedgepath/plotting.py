@@ -239,7 +239,10 @@ def cycle_positions(order, *, names=None, low=None, high=None, rolling=None,
     ax.tick_params(axis="y", length=0)
     if title is None:
         title = f"Position of each channel in the cycle (fit {order.fit:.3f}"
-        if n <= 3:
+        pv = getattr(order, "fit_pvalue", None)
+        if pv is not None:           # the calibrated verdict (wedgepath.fit_test)
+            title += f"; {'above' if pv <= 0.05 else 'not above'} noise, p = {pv:.3g})"
+        elif n <= 3:
             title += f": always 1 for {n} channels)"
         elif fit_baseline is not None:
             title += f"; independent noise gives {fit_baseline:.2f})"

@@ -37,6 +37,7 @@ first row after the header, in the text and in the JSON alike.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 import os
 import warnings
@@ -320,6 +321,22 @@ class LeadLagReport(_Report):
         Where the data came from (``table``, ``time_column``), recorded in the JSON.
     streamed, chunk_rows
         Whether the table was read in chunks (:func:`leadlag_stream`).
+    verdict : FitTest or None
+        Calibrated test of the leading cycle against phase surrogates
+        (:func:`~wedgepath.fit_test`); its p-value is also ``order.fit_pvalue``.
+    drift : DriftCheck or None
+        The drift's share of the areas (:func:`~wedgepath.drift_check`).
+    antiphase : tuple of (str, float)
+        Channels that load negatively on a dominant leading principal component
+        (possibly anti-phase), with their loadings.
+    structure : str or None
+        ``"chain"`` (leaders and laggers mean something) or ``"ring"`` (channels
+        go round the whole cycle); None for two channels or a zero matrix.
+    lags : ReferenceLags or None
+        Lags behind ``reference`` in time units (:func:`~wedgepath.reference_lags`).
+    preprocessing : dict
+        The zero-phase steps applied before everything else (``invert``,
+        ``detrend``, ``difference``, ``bandpass``, ``highpass``).
     """
 
     names: tuple
@@ -350,6 +367,12 @@ class LeadLagReport(_Report):
     streamed: bool = False
     chunk_rows: int | None = None
     json_name: str = "result.json"
+    verdict: object = None
+    drift: object = None
+    antiphase: tuple = ()
+    structure: str | None = None
+    lags: object = None
+    preprocessing: Mapping = field(default_factory=dict)
 
     # ------------------------------------------------------------------ views
     @property
@@ -362,14 +385,14 @@ class LeadLagReport(_Report):
         return np.asarray(self.raw, dtype=float)
 
     def leaders(self):
-        """The ``top`` channels of largest net lead (none for a zero matrix)."""
-        if self.order is None:
+        """The ``top`` channels of largest net lead (none for a zero matrix or a ring)."""
+        if self.order is None or self.structure == "ring":
             return []
         rank = np.argsort(-self.net_lead, kind="stable")
         return [self.names[i] for i in rank[:min(self.top, len(self.names))]]
 
     def laggers(self):
-        if self.order is None:
+        if self.order is None or self.structure == "ring":
             return []
         rank = np.argsort(-self.net_lead, kind="stable")
         return [self.names[i] for i in rank[::-1][:min(self.top, len(self.names))]]
@@ -464,6 +487,7 @@ class LeadLagReport(_Report):
                 "order": [names[i] for i in co.order],
                 "positions_rad": {names[i]: float(pos[i]) for i in range(n)},
                 "fit": float(co.fit),
+                "fit_pvalue": co.fit_pvalue,
                 "noise_fit": self.fit_baseline,
                 "moduli": {names[i]: float(mod[i]) for i in range(n)},
             }
@@ -472,8 +496,37 @@ class LeadLagReport(_Report):
                 d["cyclic_order"]["positions_high_rad"] = dict(zip(names, self.position_high))
                 d["cyclic_order"]["confidence"] = float(self.bootstrap.confidence)
         d["net_lead"] = {names[i]: float(self.net_lead[i]) for i in range(n)}
+        d["structure"] = self.structure
         d["leaders"] = self.leaders()
         d["laggers"] = self.laggers()
+        d["preprocessing"] = dict(self.preprocessing)
+        if self.verdict is not None:
+            v = self.verdict
+            d["verdict"] = {"above_noise": v.above, "pvalue": v.pvalue, "level": 0.05,
+                            "statistic": "leading eigenvalue of the standardised area matrix",
+                            "strength": v.strength, "null_median": v.null_median,
+                            "null_q95": v.null_q95, "method": "phase surrogates",
+                            "n_surrogates": v.n_surrogates, "seed": v.seed,
+                            "drift_removed": v.closure == "detrend"}
+        if self.drift is not None:
+            d["drift"] = {"share": float(self.drift.overall), "dominated": self.drift.dominated,
+                          "worst_pair": list(self.drift.worst),
+                          "pair_share": np.asarray(self.drift.share, dtype=float)}
+        d["antiphase"] = {nm: float(v) for nm, v in self.antiphase}
+        if self.lags is not None:
+            lg = self.lags
+            d["lags"] = ({nm: float(v) for nm, v in zip(names, lg.lags)}
+                         if lg.narrowband else None)
+            d["lags_info"] = {"reference": lg.reference, "narrowband": lg.narrowband,
+                              "period": float(lg.period), "band_share": float(lg.band_share),
+                              "time_unit": self.units.get(self.time_name) if self.time_name
+                              else None,
+                              "low": dict(zip(names, np.asarray(lg.low, dtype=float))),
+                              "high": dict(zip(names, np.asarray(lg.high, dtype=float))),
+                              "coherence": dict(zip(names, np.asarray(lg.coherence, float))),
+                              "confidence": float(lg.confidence), "n_boot": int(lg.n_boot),
+                              "resampled": bool(lg.resampled),
+                              "sign": "positive when the channel lags the reference"}
         d["notes"] = list(self.notes)
         if self.rolling is not None:
             areas, r0, r1, t0, t1 = _rolling_parts(self.rolling)
@@ -594,17 +647,27 @@ class LeadLagReport(_Report):
                 lines.append(f"  [low, high]: {100 * float(b.confidence):.0f}% "
                              f"interval from {b.n_boot} bootstrap replicates ({how})"
                              + ("; low > high: the interval wraps past 2π" if wraps else ""))
-            fit, base = float(co.fit), self.fit_baseline
-            verdict = ("well above" if fit >= base + 0.5 * (1 - base) else
-                       "above" if fit > base + 0.1 * (1 - base) else "not above")
+            fit = float(co.fit)
             if n <= 3:
                 lines.append(f"fit {fit:.3f}: always 1 for {n} channels (it says nothing here)")
             else:
-                lines.append(f"fit {fit:.3f}: {verdict} the {base:.2f} that independent noise "
-                             f"gives for {n} channels" + ("" if verdict != "not above" else
-                                                          " (treat the order with caution)"))
-            lines.append("strongest leaders: " + ", ".join(self.leaders()))
-            lines.append("strongest laggers: " + ", ".join(self.laggers()))
+                lines.append(f"fit {fit:.3f}: share of the lead-lag pattern in the leading "
+                             "cycle")
+            lines += self._verdict_lines()
+            if self.structure == "ring":
+                lines.append("ring: the channels go round the whole cycle, so no channel "
+                             "comes first; read the positions" +
+                             (" and the lags below" if self.lags is not None else
+                              " (and --reference COL for lags in time units)") +
+                             ", not leaders and laggers")
+            else:
+                lines.append(("chain: the channels sit on one side of the cycle; "
+                              if self.structure == "chain" else "") +
+                             "strongest leaders: " + ", ".join(self.leaders()))
+                lines.append("strongest laggers: " + ", ".join(self.laggers()))
+        if n == 2 and co is not None:
+            lines += self._verdict_lines()
+        lines += self._lag_lines()
         if self.rolling is not None:
             K = len(np.asarray(self.rolling))
             lines.append(f"\nrolling windows: {_plural(K, 'window')} of {self.window} samples, "
@@ -628,9 +691,54 @@ class LeadLagReport(_Report):
                 a, b = (i, j) if M[i, j] > 0 else (j, i)
                 lines.append(f"  {names[a]} leads {names[b]}: A = {abs(M[i, j]):.4g}, "
                              f"q = {sig3(q[i, j])}")
+        if self.antiphase:
+            who = ", ".join(f"{nm} ({v:+.2f})" for nm, v in self.antiphase)
+            flip = ",".join(nm for nm, _ in self.antiphase)
+            lines.append(f"note: {who} load{'s' if len(self.antiphase) == 1 else ''} "
+                         "negatively on the leading principal component: "
+                         f"{'it' if len(self.antiphase) == 1 else 'they'} may move in "
+                         "anti-phase (countercyclical), which turns lag into lead; if so, "
+                         f"flip with --invert {flip} (invert=[...] in the API)")
+        if self.preprocessing:
+            steps = ", ".join(f"{k} {v}" if v is not True else k
+                              for k, v in self.preprocessing.items())
+            lines.append(f"preprocessing (zero phase): {steps}")
         for note in self.notes:
             lines.append("note: " + note)
         return lines
+
+    def _verdict_lines(self):
+        v = self.verdict
+        if v is None:
+            return []
+        word = "above noise" if v.above else "not above noise"
+        return [f"leading cycle: {word} at 5% (p = {sig3(v.pvalue)}; null: each channel keeps "
+                f"its spectrum, no timing between channels; {v.n_surrogates} phase "
+                "surrogates" + (", drift removed" if v.closure == "detrend" else "") + ")"
+                + ("" if v.above else "; treat the order with caution")]
+
+    def _lag_lines(self):
+        lg = self.lags
+        if lg is None:
+            return []
+        unit = self.units.get(self.time_name) if self.time_name else None
+        u = f" {unit}" if unit else (" samples" if not self.times_given else
+                                     " time units")
+        if not lg.narrowband:
+            return [f"\nlags behind {lg.reference}: not given -- the data are broad-band "
+                    f"(only {100 * lg.band_share:.0f}% of {lg.reference}'s power lies near its "
+                    "peak period), so no single lag is defined; band-pass first "
+                    "(--bandpass LOW,HIGH) to ask about one band"]
+        out = [f"\nlags behind {lg.reference} (period {lg.period:.4g}{u}; positive: lags; "
+               f"{100 * lg.confidence:.0f}% block-bootstrap interval"
+               + ("; irregular times resampled linearly" if lg.resampled else "") + "):"]
+        for k, nm in enumerate(self.names):
+            if nm == lg.reference:
+                continue
+            out.append(f"  {nm}: {lg.lags[k]:+.4g}{u} [{lg.low[k]:+.4g}, {lg.high[k]:+.4g}]"
+                       + (f"  (coherence {lg.coherence[k]:.2f}: weak)" if lg.coherence[k] < 0.5
+                          else ""))
+        return out
 
     # ------------------------------------------------------------------ figures
     def figures(self) -> dict:
@@ -712,7 +820,8 @@ def _position_intervals(order, boot, confidence):
 def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, window=None,
             step=None, n_surrogates=None, surrogate_method="shift", seed=0, n_boot=None,
             confidence=0.95, top=3, progress=None, tol=None, time_name=None, units=None,
-            source=None, trials=None) -> LeadLagReport:
+            source=None, trials=None, invert=None, detrend=False, difference=False,
+            bandpass=None, highpass=None, reference=None, verdict_surrogates=199) -> LeadLagReport:
     """The lead-lag report of a recording.
 
     Parameters
@@ -743,7 +852,27 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         the area matrix of every trial (``.trials``, ``trials.csv``), and
         the surrogates and the bootstrap stay within trials.
     top : int
-        Leaders and laggers listed.
+        Leaders and laggers listed (for chain-like structure only: for a ring
+        there is no first channel).
+    invert : sequence of str, optional
+        Channels to negate first (anti-phase channels; the summary names
+        candidates).
+    detrend, difference : bool
+        Remove each channel's least-squares line / take first differences
+        first (:mod:`wedgepath.signals.filters`).
+    bandpass : (float, float), optional
+        Keep periods from ``bandpass[0]`` to ``bandpass[1]`` time units
+        (zero-phase Butterworth, forward-backward).
+    highpass : float, optional
+        Remove periods longer than this many time units (zero phase).
+    reference : str, optional
+        Give each channel's lag behind this channel in time units
+        (:func:`~wedgepath.reference_lags`), or say that the data are
+        broad-band and no single lag is defined.
+    verdict_surrogates : int or None
+        Phase surrogates of the calibrated verdict on the leading cycle
+        (:func:`~wedgepath.fit_test`; sets ``order.fit_pvalue``); None skips
+        it.
     progress : bool or None
         Progress indicator for the surrogates and the bootstrap.
     time_name, units, source
@@ -776,6 +905,27 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         raise ValueError(f"lead-lag needs at least 2 channels, got {n}")
     if window is None and step is not None:
         raise ValueError("step needs window")
+    pre = {}
+    if invert:
+        from .signals.filters import channel_indices
+        idx = channel_indices(list(invert), names, "invert")
+        values = np.array(values, dtype=float)
+        values[:, idx] = -values[:, idx]
+        pre["invert"] = ",".join(names[k] for k in idx)
+    if detrend or difference or bandpass is not None or highpass is not None:
+        from .signals.filters import preprocess
+        if np.isnan(values).any():
+            raise ValueError("detrend, difference and filters need gap-free data; the data "
+                             "have gaps (NaN rows): split the recording at its gaps")
+        values, times, _ = preprocess(values, times=times, names=list(names), detrend=detrend,
+                                      difference=difference, bandpass=bandpass,
+                                      highpass=highpass)
+        pre.update({k: v for k, v in (("detrend", bool(detrend)),
+                                      ("difference", bool(difference))) if v})
+        if bandpass is not None:
+            pre["bandpass"] = f"{bandpass[0]:g} to {bandpass[1]:g}"
+        if highpass is not None:
+            pre["highpass"] = f"{highpass:g}"
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         A = area_matrix(values, times=times, closure=closure, normalize=normalize,
@@ -789,7 +939,11 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     kw = dict(names=names, samples=int(values.shape[0]), closure=closure, normalize=normalize,
               areas=A, raw=raw, order=order, fit_baseline=base, net_lead=M.sum(axis=1),
               top=int(top), times_given=times is not None, time_name=time_name,
-              units=dict(units or {}), source=dict(source or {}))
+              units=dict(units or {}), source=dict(source or {}), preprocessing=pre)
+    kw.update(_honest_reading(values, times, names, order, closure, verdict_surrogates, seed,
+                              reference, notes))
+    if kw.get("verdict") is not None and order is not None:
+        kw["order"] = dataclasses.replace(order, fit_pvalue=kw["verdict"].pvalue)
     if window is not None:
         st = step if step is not None else max(1, window // 4)
         if window > values.shape[0]:
@@ -844,6 +998,66 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
                                                                               confidence)
     kw["notes"] = tuple(notes)
     return LeadLagReport(**kw)
+
+
+#: rows beyond which the verdict, drift and lag checks of :func:`leadlag` use block means
+#: (see docs/performance.md, bench_verdicts.py)
+CHECK_ROWS = 1 << 18
+
+
+def _honest_reading(values, times, names, order, closure, verdict_surrogates, seed, reference,
+                    notes):
+    """Verdict, drift, anti-phase candidates, chain or ring, reference lags (issue 17).
+
+    Computed on the longest gap-free stretch; adds to ``notes`` what a reader must know.
+    """
+    from .signals import FitTest, reference_lags
+    from .signals.verdicts import (FIT_TEST_MAX_CHANNELS, DriftWarning, _antiphase_core, _base,
+                                   _detrended, _drift_core, _fit_core, structure_kind)
+    from ._validation import as_rng
+    out = {}
+    n = values.shape[1]
+    a, b = _longest_gap_free(values)
+    part = values[a:b]
+    tpart = None if times is None else times[a:b]
+    if reference is not None and reference not in names:
+        raise ValueError(f"reference: unknown channel {reference!r}; channels are {list(names)}")
+    if b - a < 16:
+        notes.append("no calibrated verdict, drift check or lags: fewer than 16 gap-free rows")
+        return out
+    if (a, b) != (0, values.shape[0]):
+        notes.append(f"the verdict, the drift check and the lags use the longest gap-free "
+                     f"stretch, rows {a + 1}-{b} of {values.shape[0]}")
+    if part.shape[0] > CHECK_ROWS:
+        # long tables: the checks use means of blocks of m consecutive rows (the same
+        # linear filter on every channel: independent channels stay independent, so the
+        # verdict stays calibrated; leads faster than m samples are not seen by it)
+        m = -(-part.shape[0] // CHECK_ROWS)
+        k = part.shape[0] // m
+        part = part[:k * m].reshape(k, m, n).mean(axis=1)
+        tpart = None if tpart is None else tpart[:k * m].reshape(k, m).mean(axis=1)
+        notes.append(f"the verdict, the drift check and the lags use means of blocks of {m} "
+                     f"rows ({k} blocks): leads shorter than {m} samples are not seen by them")
+    Y, data, ramp = _base(part, tpart, list(names))      # one prepared copy for all checks
+    if verdict_surrogates is not None:
+        if n > FIT_TEST_MAX_CHANNELS:
+            notes.append(f"no calibrated verdict for more than {FIT_TEST_MAX_CHANNELS} channels")
+        else:
+            core = _fit_core(_detrended(Y, ramp), int(verdict_surrogates), 512, as_rng(seed))
+            out["verdict"] = FitTest(**core, seed=seed, names=names, closure="detrend")
+    chk = _drift_core(Y, ramp, names)
+    out["drift"] = chk
+    if chk.dominated and closure not in ("detrend",):
+        import warnings as _w
+        _w.warn(chk.message(), DriftWarning, stacklevel=3)
+        notes.append(chk.message())
+    out["antiphase"] = tuple(_antiphase_core(Y, names))
+    del Y
+    if order is not None and n >= 3:
+        out["structure"] = structure_kind(order)
+    if reference is not None:
+        out["lags"] = reference_lags(part, reference, times=tpart, names=list(names), seed=seed)
+    return out
 
 
 def leadlag_stream(source, *, columns=None, time_column=None, delimiter=None,

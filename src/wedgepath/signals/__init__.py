@@ -23,6 +23,9 @@ from .significance import (SURROGATE_METHODS, BootstrapResult, SurrogateResult,
                            SurrogateWarning, benjamini_hochberg, bootstrap_area, decorrelation_lag,
                            surrogate_test)
 from .streaming import AreaAccumulator
+from . import filters
+from .lags import ReferenceLags, reference_lags
+from .verdicts import DriftCheck, DriftWarning, FitTest, drift_check, fit_test
 
 __all__ = [
     # the area matrix
@@ -39,4 +42,7 @@ __all__ = [
     "cycle_areas", "CycleAreas",
     # the table of pairs
     "pair_table",
+    # calibrated verdicts and honest reading (docs/signals.md, "reading lead-lag honestly")
+    "fit_test", "FitTest", "drift_check", "DriftCheck", "DriftWarning", "reference_lags",
+    "ReferenceLags", "filters",
 ]

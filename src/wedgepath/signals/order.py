@@ -57,8 +57,11 @@ class CyclicOrder(Result):
         cycle explains the lead-lag pattern.  Compare it with
         :func:`noise_fit_baseline`.
     fit_pvalue : float or None
-        Reserved for a test of the fit against channels without a common
-        cycle; None for now.
+        P-value of the leading cycle against channels that keep their own
+        spectra and have no timing between them (:func:`fit_test`, phase
+        surrogates): small means the cycle is above noise.  Computed when
+        :func:`cyclic_order` is given the samples (``data=``); None
+        otherwise.
     moduli : ndarray of float, shape (n,)
         ``|v_k|`` of the leading eigenvector, scaled so the largest is 1:
         how strongly each channel takes part in the cycle.  Positions of
@@ -106,9 +109,11 @@ class CyclicOrder(Result):
                              "position_rad": self.positions[o], "modulus": self.moduli[o]})
 
     def _summary_items(self):
+        pv = [] if self.fit_pvalue is None else [("fit_pvalue", fmt_number(self.fit_pvalue, 3))]
+        shown = ", ".join(f"{p:.3g}" for p in self.positions[np.asarray(self.order)][:8])
+        more = ", ..." if len(self.order) > 8 else ""
         return [("order", fmt_names(self.ordered_names, 8)), ("fit", fmt_number(self.fit, 3)),
-                ("positions_rad", "[" + ", ".join(f"{p:.3g}" for p in self.positions[
-                    np.asarray(self.order)][:8]) + (", ..." if len(self.order) > 8 else "") + "]")]
+                *pv, ("positions_rad", f"[{shown}{more}]")]
 
 
 def _leading_pair(M):
@@ -214,7 +219,8 @@ def noise_fit_baseline(n, *, n_draws=200, seed=0) -> float:
     return float(np.median(fits))
 
 
-def cyclic_order(A, *, start=None, names=None) -> CyclicOrder:
+def cyclic_order(A, *, start=None, names=None, data=None, times=None, n_surrogates=199,
+                 seed=0) -> CyclicOrder:
     """Order channels around the cycle that best explains a skew-symmetric lead matrix.
 
     The chain-of-offsets model (Baryshnikov & Schlafly, "Cyclicity in
@@ -245,6 +251,10 @@ def cyclic_order(A, *, start=None, names=None) -> CyclicOrder:
     names : sequence of str, optional
         Channel names for a plain array ``A`` (an AreaMatrix brings its
         own); default ``"0", "1", ...``.
+    data : array_like (T, n), DataFrame or Path, optional
+        The samples ``A`` was computed from.  When given, ``fit_pvalue`` is
+        computed by :func:`fit_test` (``n_surrogates`` phase surrogates,
+        ``seed``, the drift removed; ``times`` as for :func:`area_matrix`).
 
     Returns
     -------
@@ -296,6 +306,14 @@ def cyclic_order(A, *, start=None, names=None) -> CyclicOrder:
     >>> res = wp.cyclic_order(wp.area_matrix(X), start=0)
     >>> res.order.tolist(), np.round(res.positions, 3).tolist()
     ([0, 1, 2], [0.0, 0.894, 1.788])
+
+    With the samples, the order comes with a calibrated p-value
+    (:func:`fit_test`); independent noise gives no cycle:
+
+    >>> X = np.random.default_rng(3).standard_normal((500, 5))
+    >>> res = wp.cyclic_order(wp.area_matrix(X), data=X)
+    >>> res.fit_pvalue > 0.05
+    True
     """
     closure = normalize = None
     if isinstance(A, AreaMatrix):
@@ -360,6 +378,14 @@ def cyclic_order(A, *, start=None, names=None) -> CyclicOrder:
     order = np.argsort(positions, kind="stable")
     if order[0] != ref:  # ties at position 0: put the reference first
         order = np.concatenate(([ref], order[order != ref]))
+    pvalue = None
+    if data is not None:
+        from .verdicts import fit_test
+
+        test = fit_test(data, times=times, n_surrogates=n_surrogates, seed=seed)
+        if len(test.names) != n:
+            raise ValueError(f"data has {len(test.names)} channels but A has {n}")
+        pvalue = test.pvalue
     return CyclicOrder(order=order.astype(np.intp), positions=positions, fit=min(fit, 1.0),
                        moduli=mod, eigenvalues=lam, names=names or default_names(n),
-                       closure=closure, normalize=normalize)
+                       closure=closure, normalize=normalize, fit_pvalue=pvalue)

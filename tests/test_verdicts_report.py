@@ -1,0 +1,120 @@
+"""Issue 17 in the report and the command line: verdict, drift, anti-phase, chain/ring, lags."""
+
+from __future__ import annotations
+
+import json
+
+import numpy as np
+import pytest
+
+import wedgepath as wp
+from wedgepath import report
+from wedgepath.cli import main
+
+
+def _csv(path, names, t, X):
+    with open(path, "w") as fh:
+        fh.write(",".join(["t", *names]) + "\n")
+        for k in range(len(t)):
+            fh.write(",".join(repr(float(v)) for v in (t[k], *X[k])) + "\n")
+    return path
+
+
+def _chain(rng, T=3000, h=0.05):
+    """A wandering 3-second rhythm seen by a, b (0.3 s later), c (0.6 s later) and an
+    anti-phase channel d (0.45 s later, negated)."""
+    t = np.arange(T) * h
+    phase = 2 * np.pi * t / 3.0 + np.cumsum(rng.standard_normal(T)) * 0.05
+    ph = [np.interp(t - d, t, phase) for d in (0.0, 0.3, 0.6, 0.45)]
+    X = np.column_stack([np.sin(p) for p in ph])
+    X[:, 3] = -X[:, 3]
+    return t, X + 0.2 * rng.standard_normal(X.shape)
+
+
+def run(argv, capsys):
+    code = main([str(a) for a in argv])
+    cap = capsys.readouterr()
+    return code, cap.out, cap.err
+
+
+def test_report_chain_with_invert_and_reference_lags():
+    t, X = _chain(np.random.default_rng(0))
+    names = ["a", "b", "c", "d"]
+    raw = report.leadlag(X, times=t, names=names)
+    assert [nm for nm, _ in raw.antiphase] == ["d"]
+    text = "\n".join(raw.summary())
+    assert "may move in anti-phase" in text and "--invert d" in text
+    rep = report.leadlag(X, times=t, names=names, invert=["d"], reference="a")
+    assert rep.antiphase == () and rep.structure == "chain"
+    assert rep.order.fit_pvalue == rep.verdict.pvalue <= 0.05
+    assert rep.leaders()[0] == "a" and rep.laggers()[0] == "c"
+    assert np.allclose(rep.lags.lags, [0.0, 0.3, 0.6, 0.45], atol=0.05)
+    d = rep.to_dict()
+    assert d["cyclic_order"]["fit_pvalue"] == rep.verdict.pvalue
+    assert d["verdict"]["above_noise"] is True
+    assert d["lags"]["b"] == pytest.approx(0.3, abs=0.05)
+    assert d["preprocessing"] == {"invert": "d"}
+    assert "lags behind a" in "\n".join(rep.summary())
+    before = X.copy()
+    report.leadlag(X, times=t, names=names, invert=["d"], bandpass=(1.0, 10.0))
+    assert np.array_equal(X, before)
+
+
+def test_report_ring_lists_no_leaders_and_broadband_gives_no_lag():
+    rng = np.random.default_rng(1)
+    t = 2 * np.pi * np.arange(2000) / 100
+    ring = np.column_stack([np.sin(t - d) for d in np.arange(6) * np.pi / 3])
+    rep = report.leadlag(ring + 0.1 * rng.standard_normal(ring.shape))
+    assert rep.structure == "ring" and rep.leaders() == [] and rep.laggers() == []
+    text = "\n".join(rep.summary())
+    assert "ring:" in text and "strongest leaders" not in text
+    x = rng.standard_normal(3000)
+    broad = report.leadlag(np.column_stack([x[3:], x[:-3], rng.standard_normal(2997)]),
+                           reference="0")
+    assert broad.lags is not None and not broad.lags.narrowband
+    assert broad.to_dict()["lags"] is None
+    assert "broad-band" in "\n".join(broad.summary())
+
+
+def test_report_null_says_not_above_noise():
+    X = np.random.default_rng(2).standard_normal((800, 6))
+    rep = report.leadlag(X)
+    assert not rep.verdict.above
+    assert "not above noise at 5%" in "\n".join(rep.summary())
+
+
+def test_report_warns_on_drift():
+    rng = np.random.default_rng(3)
+    walks = np.cumsum(rng.standard_normal((1000, 4)) + [0.1, 0.2, -0.1, 0.15], axis=0)
+    with pytest.warns(wp.DriftWarning):
+        rep = report.leadlag(walks)
+    assert rep.drift.dominated and any("drift" in n for n in rep.notes)
+    calm = report.leadlag(walks, difference=True)
+    assert not calm.drift.dominated and calm.samples == 999
+
+
+def test_cli_options(tmp_path, capsys):
+    t, X = _chain(np.random.default_rng(4))
+    f = _csv(tmp_path / "s.csv", ["a", "b", "c", "d"], t, X)
+    out = tmp_path / "o"
+    code, stdout, err = run(["leadlag", f, "--time", "t", "--units", "t=s", "--invert", "d",
+                             "--reference", "a", "--bandpass", "1,10", "--out", out,
+                             "--no-figures", "--quiet"], capsys)
+    assert code == 0, err
+    d = json.loads((out / "result.json").read_text())
+    assert d["lags"]["c"] == pytest.approx(0.6, abs=0.05)
+    assert d["structure"] == "chain" and d["cyclic_order"]["fit_pvalue"] <= 0.05
+    assert "lags behind a (period 3" in stdout and " s [" in stdout
+    assert "preprocessing (zero phase): invert d, bandpass 1 to 10" in stdout
+    for argv, msg in ((["--bandpass", "5"], "LOW,HIGH"), (["--bandpass", "5,1"], "LOW < HIGH"),
+                      (["--invert", "zz"], "unknown channel 'zz'"),
+                      (["--reference", "zz"], "unknown channel 'zz'"),
+                      (["--highpass", "-1"], "positive"),
+                      (["--bandpass", "0.01,1"], "two samples")):
+        code, stdout, err = run(["leadlag", f, "--time", "t", *argv], capsys)
+        assert code == 2 and err.startswith("wedgepath") and "error:" in err and msg in err, \
+            (argv, err)
+        assert err.count("\n") == 1
+        assert "Traceback" not in err
+    code, _, err = run(["leadlag", f, "--stream", "--detrend"], capsys)
+    assert code == 2 and "--detrend" in err
