@@ -70,6 +70,12 @@ FRAME_COLUMNS = {
                       "centroid_y", "I_x", "I_y", "I_xy"],
     "Integral": ["value", "error", "exact", "method", "rounding", "evaluations"],
     "Table": ["a", "b"],                       # the table itself: its channels
+    "LeadSpectrum": ["band", "band_name", "low", "high", "i", "j", "channel_i", "channel_j",
+                     "area", "normalized"],
+    "BandSignificance": ["band", "band_name", "low", "high", "i", "j", "channel_i",
+                         "channel_j", "area", "p", "q", "null_mean", "null_std"],
+    "RollingSpectrum": ["window", "start", "stop", "start_time", "stop_time", "band",
+                        "band_name", "low", "high", "i", "j", "channel_i", "channel_j", "area"],
 }
 
 #: the convention fields each result type carries (beyond names and units)
@@ -84,6 +90,9 @@ CONVENTIONS = {
     "Lobe": [],
     "RegionMoments": ["closure"],
     "Table": ["source", "time_axis"],
+    "LeadSpectrum": ["closure", "frequency_unit", "irregular"],
+    "BandSignificance": ["closure", "method", "n_surrogates", "seed", "min_shift"],
+    "RollingSpectrum": ["closure", "window", "step"],
 }
 
 #: public functions: (what they return, a call on a small input)
@@ -118,6 +127,11 @@ CALLS = {
     "wedgepath.benjamini_hochberg": ("array", lambda: wp.benjamini_hochberg([0.01, 0.2])),
     "wedgepath.decorrelation_lag": ("array", lambda: wp.decorrelation_lag(WAVES)),
     "wedgepath.cycle_areas": ("result", lambda: wp.cycle_areas(WAVES, "a", "b")),
+    "wedgepath.lead_spectrum": ("result", lambda: wp.lead_spectrum(WAVES, bands=[0, 0.1, 0.5])),
+    "wedgepath.band_surrogate_test": ("result", lambda: wp.band_surrogate_test(
+        WAVES, bands=[0, 0.1, 0.5], n_surrogates=9, seed=0, progress=False)),
+    "wedgepath.rolling_lead_spectrum": ("result", lambda: wp.rolling_lead_spectrum(
+        WAVES, 32, 16, bands=[0, 0.1, 0.5])),
     "wedgepath.pair_table": ("frame", lambda: wp.pair_table(wp.area_matrix(WAVES))),
     "wedgepath.io.read_table": ("result", lambda: wio.read_table(_csv(), time_column="t")),
     "wedgepath.io.iter_table_chunks": ("results", lambda: list(wio.iter_table_chunks(
@@ -140,13 +154,15 @@ CLASSES = {
     # the result types (built by the library; the contract is checked on them)
     **{n: "result" for n in ("AreaMatrix", "CyclicOrder", "RollingAreas", "CycleAreas",
                              "SurrogateResult", "BootstrapResult", "Decomposition", "Lobe",
-                             "RegionMoments", "Table", "Integral")},
+                             "RegionMoments", "Table", "Integral", "LeadSpectrum",
+                             "BandSignificance", "RollingSpectrum")},
     # values the user builds and computes with
     **{n: "value" for n in ("Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm",
                             "TwoForm", "SimplicialChain", "SimplicialComplex", "WhitneyForm")},
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "TableError",
+                                "ResamplingWarning",
                                 "ChunkError")},
 }
 
