@@ -42,12 +42,10 @@ __all__ = ["lead_spectrum", "LeadSpectrum", "band_surrogate_test", "BandSignific
 #: Accepted values of ``irregular=`` in :func:`lead_spectrum`.
 IRREGULAR_METHODS = ("resample", "index")
 
-# spectrum rows per GEMM chunk of the band sums
-_BIN_CHUNK = 8192
 # largest per-bin output (doubles) made when bands=None
 _MAX_BIN_OUTPUT = 1 << 25
 # channels transformed at once: the float64 working copy of one block of channels
-_FFT_BLOCK_ELEMENTS = 1 << 22
+_FFT_BLOCK_ELEMENTS = 1 << 21
 # sampling steps that differ by less than this (relative) count as regular
 _REGULAR_RTOL = 1e-6
 # relative resampling error above which a warning is issued
@@ -364,19 +362,31 @@ def _make_loops(data, closure, irregular, starts, stops):
 
 # --------------------------------------------------------------------------- kernel
 def _loop_spectrum(loop, n):
-    """rfft of the centred loop, channel block by channel block: (N//2 + 1, n) complex."""
+    """Weighted DFT of the centred loop as two real arrays ``(R, I)``, each (N//2 + 1, n).
+
+    ``R + iI = s_m X[m]`` with ``s_m = sqrt((2/N) sin(2 pi m/N))``: the area
+    terms of band ``b`` are then ``G - G^T``, ``G = I[b]^T R[b]``, one GEMM on
+    contiguous rows.  Transformed one channel block at a time (the working
+    copy of a block is bounded), written straight into ``R`` and ``I``.
+    """
     N = loop.N
     M = N // 2 + 1
-    F = np.empty((M, n), dtype=np.complex128)
+    R = np.empty((M, n))
+    Im = np.empty((M, n))
+    sw = _sqrt_weights(N)[:, None]
     per = max(1, _FFT_BLOCK_ELEMENTS // max(N, 1))
     from scipy import fft as sfft
 
     for a in range(0, n, per):
         cols = slice(a, min(n, a + per))
-        y = loop.rows(cols)
+        y = np.asfortranarray(loop.rows(cols))      # one contiguous lane per channel
         y -= y.mean(axis=0)
-        F[:, cols] = sfft.rfft(y, axis=0)
-    return F
+        F = sfft.rfft(y, axis=0, overwrite_x=True)
+        del y
+        np.multiply(F.real, sw, out=R[:, cols])
+        np.multiply(F.imag, sw, out=Im[:, cols])
+        del F
+    return R, Im
 
 
 def _sqrt_weights(N):
@@ -389,41 +399,32 @@ def _sqrt_weights(N):
     return np.sqrt(np.maximum(w, 0.0) * (2.0 / N))
 
 
-def _band_sums(F, sw, idx, B, out_area, out_energy, rest):
+def _band_sums(R, Im, idx, out_area, out_energy, rest):
     """Add each bin's area term to its band (idx -1: to ``rest``)."""
-    M, n = F.shape
+    M, n = R.shape
     # bins of one band are contiguous runs (frequencies increase with m)
     change = np.flatnonzero(np.diff(idx)) + 1
     run_starts = np.concatenate(([0], change))
     run_stops = np.concatenate((change, [M]))
-    for a0, b0 in zip(run_starts.tolist(), run_stops.tolist()):
-        b = int(idx[a0])
-        for a in range(a0, b0, _BIN_CHUNK):
-            c = min(b0, a + _BIN_CHUNK)
-            s = sw[a:c, None]
-            if not s.any():
-                continue
-            R = F[a:c].real * s
-            Im = F[a:c].imag * s
-            G = Im.T @ R
-            if b >= 0:
-                out_area[b] += G - G.T
-                out_energy[b] += np.einsum("ij,ij->j", R, R) + np.einsum("ij,ij->j", Im, Im)
-            else:
-                rest += G - G.T
+    for a, c in zip(run_starts.tolist(), run_stops.tolist()):
+        b = int(idx[a])
+        G = Im[a:c].T @ R[a:c]
+        if b >= 0:
+            out_area[b] += G - G.T
+            out_energy[b] += np.einsum("ij,ij->j", R[a:c], R[a:c]) + \
+                np.einsum("ij,ij->j", Im[a:c], Im[a:c])
+        else:
+            rest += G - G.T
 
 
-def _per_bin(F, sw, idx, B, out_area, out_energy):
+def _per_bin(R, Im, idx, out_area, out_energy):
     """Per-bin output (bands=None): bins scattered to their (nearest-frequency) bands."""
-    M, n = F.shape
+    M, n = R.shape
     for a in range(0, M, 512):
         c = min(M, a + 512)
-        s = sw[a:c, None]
-        R = F[a:c].real * s
-        Im = F[a:c].imag * s
-        G = Im[:, :, None] * R[:, None, :]
+        G = Im[a:c, :, None] * R[a:c, None, :]
         np.add.at(out_area, idx[a:c], G - np.swapaxes(G, 1, 2))
-        np.add.at(out_energy, idx[a:c], R * R + Im * Im)
+        np.add.at(out_energy, idx[a:c], R[a:c] ** 2 + Im[a:c] ** 2)
 
 
 def _spectrum(data, closure, bands, irregular, tol):
@@ -455,16 +456,14 @@ def _spectrum(data, closure, bands, irregular, tol):
     energy = np.zeros((B, n))
     rest = np.zeros((n, n))
     for lp in loops:
-        F = _loop_spectrum(lp, n)
-        N = lp.N
-        freqs = np.arange(F.shape[0]) / (N * lp.step)
-        sw = _sqrt_weights(N)
+        R, Im = _loop_spectrum(lp, n)
+        freqs = np.arange(R.shape[0]) / (lp.N * lp.step)
         if per_bin:
             idx = np.minimum(np.rint(freqs / df).astype(np.int64), B - 1)
-            _per_bin(F, sw, idx, B, areas, energy)
+            _per_bin(R, Im, idx, areas, energy)
         else:
-            _band_sums(F, sw, _assign(freqs, edges, contiguous), B, areas, energy, rest)
-        del F
+            _band_sums(R, Im, _assign(freqs, edges, contiguous), areas, energy, rest)
+        del R, Im
     if closure == "none":
         # the open path's area differs from the chord-closed one by the origin-dependent
         # term -(1/2) x_last ^ x_first of each piece: it has no frequency and is booked at 0
