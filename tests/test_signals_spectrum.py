@@ -376,3 +376,33 @@ def test_bad_arguments_are_refused_clearly():
         wp.rolling_lead_spectrum(Xg, 10, 5, bands=[0, 0.5])
     with pytest.raises(ValueError, match="window"):
         wp.rolling_lead_spectrum(X, 3, 1, bands=[0, 0.5])
+
+
+def test_per_bin_values_are_the_continuous_polyline_spectrum_summed_over_aliases():
+    # The continuous analogue: a closed curve of period P with Fourier coefficients c_k has
+    # (1/2) closed-integral (x_i dx_j - x_j dx_i) = 4 pi sum_{k>0} k Im(c_ik conj(c_jk))
+    # (Parseval's theorem for Fourier series).  The polyline through N samples at unit steps
+    # has c_k = X[k mod N] sinc^2(k/N) / N (the hat function's transform); checked below by
+    # quadrature (scipy.integrate.quad).  Grouping k = +-m (mod N) gives lead_spectrum's bin m.
+    from scipy.integrate import quad
+
+    rng = np.random.default_rng(21)
+    N = 8
+    X = rng.standard_normal((N, 2))
+    F = np.fft.fft(X, axis=0)
+    tt = np.arange(N + 1.0)
+    loop = np.vstack([X, X[:1]])
+    for k in (1, 3, 11):
+        re = quad(lambda t: np.interp(t, tt, loop[:, 0]) * np.cos(2 * np.pi * k * t / N), 0, N,
+                  points=tt[1:-1], limit=200)[0] / N
+        im = -quad(lambda t: np.interp(t, tt, loop[:, 0]) * np.sin(2 * np.pi * k * t / N), 0, N,
+                   points=tt[1:-1], limit=200)[0] / N
+        want = F[k % N, 0] * np.sinc(k / N) ** 2 / N
+        assert abs(complex(re, im) - want) < 1e-10
+    s = wp.lead_spectrum(X)
+    cross = np.imag(F[:, 0] * np.conj(F[:, 1])) / N ** 2
+    kk = np.arange(1, 4000 * N + 1)
+    terms = 4 * np.pi * kk * np.sinc(kk / N) ** 4 * cross[kk % N]
+    for m in range(1, N // 2):
+        alias = terms[(kk % N) == m].sum() + terms[(kk % N) == N - m].sum()
+        assert alias == pytest.approx(s.pair(0, 1)[m], rel=1e-9, abs=1e-12)

@@ -48,8 +48,14 @@ _MAX_BIN_OUTPUT = 1 << 25
 _FFT_BLOCK_ELEMENTS = 1 << 21
 # sampling steps that differ by less than this (relative) count as regular
 _REGULAR_RTOL = 1e-6
+# band areas below this may come from underflowing products: recheck the magnitudes
+_TINY = 2.0 ** -800
 # relative resampling error above which a warning is issued
 _RESAMPLE_WARN = 1e-2
+
+
+class _NotFinite(Exception):
+    """Internal: the fast path met a NaN or infinite sample."""
 
 
 class ResamplingWarning(UserWarning):
@@ -379,8 +385,11 @@ def _loop_spectrum(loop, n):
 
     for a in range(0, n, per):
         cols = slice(a, min(n, a + per))
-        y = np.asfortranarray(loop.rows(cols))      # one contiguous lane per channel
-        y -= y.mean(axis=0)
+        y = loop.rows(cols)
+        mu = y.mean(axis=0)
+        if not np.isfinite(mu).all():
+            raise _NotFinite              # a gap (NaN) or an infinite value: find the pieces
+        y -= mu
         F = sfft.rfft(y, axis=0, overwrite_x=True)
         del y
         np.multiply(F.real, sw, out=R[:, cols])
@@ -428,9 +437,23 @@ def _per_bin(R, Im, idx, out_area, out_energy):
 
 
 def _spectrum(data, closure, bands, irregular, tol):
-    """Band areas of ``data`` (already scaled); see :func:`lead_spectrum`."""
+    """Band areas of ``data``; see :func:`lead_spectrum`.
+
+    First tried as one piece (no pass over the data to find gaps); a NaN or
+    infinite sample makes the transform's channel means non-finite, and the
+    work is redone piece by piece.
+    """
+    T = data.shape[0]
+    try:
+        return _spectrum_pieces(data, closure, bands, irregular, tol,
+                                np.array([0], dtype=np.int64), np.array([T], dtype=np.int64))
+    except _NotFinite:
+        starts, stops = _pieces(data)
+        return _spectrum_pieces(data, closure, bands, irregular, tol, starts, stops)
+
+
+def _spectrum_pieces(data, closure, bands, irregular, tol, starts, stops):
     T, n = data.shape
-    starts, stops = _pieces(data)
     if closure == "require":
         _require_check(data, starts, stops, tol)
     loops, resampled, h = _make_loops(data, closure, irregular, starts, stops)
@@ -574,13 +597,23 @@ def lead_spectrum(X, *, times=None, bands=None, closure="chord", names=None, tol
             raise ValueError(f"tol must be a finite number >= 0, got {tol!r}")
     data = signal_input(X, times, names)
     _resolve_bands(bands)  # check before any work
-    e, needed = channel_exponents(data)
-    work = scaled_data(data, e) if needed else data
-    if needed and closure == "require":
-        raise ValueError("closure='require' with data of extreme magnitude: rescale the data")
+    needed = False
     with np.errstate(over="ignore", invalid="ignore", under="ignore"):
-        areas, energy, rest, edges, bnames, resampled = _spectrum(work, closure, bands,
-                                                                 irregular, tol)
+        out = _spectrum(data, closure, bands, irregular, tol)
+    areas, energy, rest, edges, bnames, resampled = out
+    big = max(float(np.max(np.abs(areas), initial=0.0)), float(np.max(np.abs(rest))))
+    if not (np.isfinite(areas).all() and np.isfinite(energy).all() and np.isfinite(rest).all()
+            and (big == 0.0 or big >= _TINY)):
+        # overflow, or products that may have underflowed: each channel is rescaled by a
+        # power of two (exact) and the areas scaled back
+        e, needed = channel_exponents(data)
+        if needed:
+            if closure == "require":
+                raise ValueError("closure='require' with data of extreme magnitude: rescale "
+                                 "the data")
+            with np.errstate(over="ignore", invalid="ignore", under="ignore"):
+                areas, energy, rest, edges, bnames, resampled = _spectrum(
+                    scaled_data(data, e), closure, bands, irregular, tol)
     if needed:
         pe = e[:, None] + e[None, :]
         areas = pow2_scale(areas, pe[None])
