@@ -163,7 +163,7 @@ CLASSES = {
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "TableError",
                                 "ResamplingWarning",
-                                "ChunkError")},
+                                "ChunkError", "ArrangementTooLarge")},
 }
 
 
