@@ -96,6 +96,39 @@ def _units(text):
     return units
 
 
+def _bands(text):
+    """``--bands``: edges ``0,3,10,50`` or named ranges ``slow=0:3,fast=10:50``."""
+    items = [t.strip() for t in text.split(",") if t.strip()]
+    if not items:
+        raise argparse.ArgumentTypeError("expected band edges (0,3,10) or named ranges "
+                                         "(slow=0:3,fast=3:10)")
+
+    def num(t):
+        try:
+            v = float(t)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"expected a frequency, got {t!r}") from None
+        if not math.isfinite(v):
+            raise argparse.ArgumentTypeError(f"expected a finite frequency, got {t!r}")
+        return v
+
+    if any("=" in t for t in items):
+        out = {}
+        for t in items:
+            name, sep, rng = t.partition("=")
+            lo, sep2, hi = rng.partition(":")
+            if not sep or not sep2 or not name.strip():
+                raise argparse.ArgumentTypeError(f"expected NAME=LOW:HIGH, got {t!r}")
+            if name.strip() in out:
+                raise argparse.ArgumentTypeError(f"band {name.strip()!r} is named twice")
+            out[name.strip()] = (num(lo), num(hi))
+        return out
+    edges = [num(t) for t in items]
+    if len(edges) < 2:
+        raise argparse.ArgumentTypeError("band edges need at least 2 frequencies")
+    return edges
+
+
 def _check_units(args, columns):
     unknown = [c for c in args.units if c not in columns]
     if unknown:
@@ -185,9 +218,15 @@ def build_parser():
                     "pairs.csv, positions.png)")
     ll.add_argument("--confidence", type=_fraction, default=0.95, metavar="C",
                     help="confidence level of the bootstrap intervals (default 0.95)")
+    ll.add_argument("--bands", type=_bands, metavar="EDGES|NAME=LO:HI,...",
+                    help="also split the area matrix by frequency band: edges such as "
+                    "0,3,10,50 or named ranges such as slow=0:3,fast=10:50, in cycles per "
+                    "unit of --time (per sample without it); with --surrogates every band "
+                    "and pair is tested (bands.csv, bands.png)")
     _add_common(ll, ["result.json", "area_matrix.csv", "pairs.csv", "rolling.csv (--window)",
-                     "pvalues.csv and qvalues.csv (--surrogates)", "positions.png",
-                     "pairs.png", "rolling.png (--window)"])
+                     "pvalues.csv and qvalues.csv (--surrogates)", "bands.csv (--bands)",
+                     "positions.png", "pairs.png", "rolling.png (--window)",
+                     "bands.png (--bands)"])
     ll.set_defaults(func=_cmd_leadlag)
 
     lp = sub.add_parser("loop", help="areas of a loop in one plane (energy per cycle, lobes)",
@@ -335,14 +374,16 @@ def _cmd_leadlag(args):
         clash = [flag for flag, val in (("--window", args.window),
                                          ("--surrogates", args.surrogates),
                                          ("--bootstrap", args.bootstrap),
-                                         ("--normalize", args.normalize)) if val]
+                                         ("--normalize", args.normalize),
+                                         ("--bands", args.bands)) if val]
         if clash:
             raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
         if args.closure != "chord":
             raise CLIError("--stream supports --closure chord only")
     figures = _want_figures(args)
     plan = _plan(args, report.leadlag_files(figures, window=bool(args.window),
-                                            significance=bool(args.surrogates)), "leadlag")
+                                            significance=bool(args.surrogates),
+                                            bands=args.bands is not None), "leadlag")
     source = {"table": _table_label(args.table), "time_column": args.time}
     if args.stream:
         rep = report.leadlag_stream(args.table, columns=args.columns, time_column=args.time,
@@ -359,7 +400,7 @@ def _cmd_leadlag(args):
                          surrogate_method=args.surrogate_method, seed=args.seed,
                          n_boot=args.bootstrap, confidence=args.confidence, top=args.top,
                          progress=_progress_flag(args), tol=args.tol, time_name=args.time,
-                         units=args.units, source=source)
+                         units=args.units, source=source, bands=args.bands)
     return _emit(args, rep, plan, figures)
 
 

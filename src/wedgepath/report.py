@@ -66,7 +66,7 @@ LISTED_PAIRS = 10
 
 # =========================================================================== file names
 def leadlag_files(figures: bool = False, *, window: bool = False, significance: bool = False,
-                  json_name: str = "result.json") -> list:
+                  json_name: str = "result.json", bands: bool = False) -> list:
     """The files a lead-lag report gives with these options (``manifest.json`` not included).
 
     Examples
@@ -81,8 +81,12 @@ def leadlag_files(figures: bool = False, *, window: bool = False, significance: 
         names.append("rolling.csv")
     if significance:
         names += ["pvalues.csv", "qvalues.csv"]
+    if bands:
+        names.append("bands.csv")
     if figures:
         names += ["positions.png", "pairs.png"] + (["rolling.png"] if window else [])
+        if bands:
+            names.append("bands.png")
     return names
 
 
@@ -306,6 +310,11 @@ class LeadLagReport(_Report):
         Where the data came from (``table``, ``time_column``), recorded in the JSON.
     streamed, chunk_rows
         Whether the table was read in chunks (:func:`leadlag_stream`).
+    spectrum : LeadSpectrum or None
+        The area matrix split by frequency band (``bands=``), same closure.
+    band_significance : BandSignificance or None
+        Surrogate test of every band and pair (``bands=`` with
+        ``n_surrogates``), on the same gap-free stretch as ``significance``.
     """
 
     names: tuple
@@ -334,6 +343,8 @@ class LeadLagReport(_Report):
     streamed: bool = False
     chunk_rows: int | None = None
     json_name: str = "result.json"
+    spectrum: object = None
+    band_significance: object = None
 
     # ------------------------------------------------------------------ views
     @property
@@ -420,7 +431,7 @@ class LeadLagReport(_Report):
         """The names of the files of this report (as :func:`leadlag_files` gives them)."""
         return leadlag_files(figures, window=self.rolling is not None,
                              significance=self.significance is not None,
-                             json_name=self.json_name)
+                             json_name=self.json_name, bands=self.spectrum is not None)
 
     # ------------------------------------------------------------------ the JSON
     def to_dict(self) -> dict:
@@ -483,6 +494,27 @@ class LeadLagReport(_Report):
                               "confidence": float(b.confidence),
                               "low": np.asarray(b.low, dtype=float),
                               "high": np.asarray(b.high, dtype=float)}
+        if self.spectrum is not None:
+            sp = self.spectrum
+            d["bands"] = {"names": list(sp.band_names),
+                          "low": np.asarray(sp.bands, dtype=float)[:, 0],
+                          "high": np.asarray(sp.bands, dtype=float)[:, 1],
+                          "frequency_unit": self._frequency_unit(),
+                          "closure": sp.closure,
+                          "irregular_times": sp.irregular,
+                          "areas": np.asarray(sp.areas, dtype=float),
+                          "normalized": np.asarray(sp.normalized, dtype=float),
+                          "outside_bands": np.asarray(sp.rest, dtype=float)}
+            if sp.resampling_error is not None:
+                d["bands"]["resampling_error"] = np.asarray(sp.resampling_error, dtype=float)
+            if self.band_significance is not None:
+                bs = self.band_significance
+                d["bands"]["significance"] = {
+                    "rows": list(self.significance_rows), "method": bs.method,
+                    "n_surrogates": int(bs.n_surrogates), "seed": bs.seed,
+                    "pvalues": np.asarray(bs.pvalues, dtype=float),
+                    "qvalues": np.asarray(bs.qvalues, dtype=float),
+                    "adjusted_over": "all pairs and bands"}
         if self.streamed:
             d["streamed"] = True
             d["chunk_rows"] = self.chunk_rows
@@ -520,6 +552,13 @@ class LeadLagReport(_Report):
         if self.significance is not None:
             out["pvalues.csv"] = matrix(self.significance.pvalues)
             out["qvalues.csv"] = matrix(self.significance.qvalues)
+        if self.spectrum is not None:
+            f = self.spectrum.to_frame()
+            if self.band_significance is not None:
+                g = self.band_significance.to_frame()
+                f["p"] = g["p"].to_numpy()
+                f["q"] = g["q"].to_numpy()
+            out["bands.csv"] = f
         return out
 
     # ------------------------------------------------------------------ text
@@ -590,8 +629,61 @@ class LeadLagReport(_Report):
                 a, b = (i, j) if M[i, j] > 0 else (j, i)
                 lines.append(f"  {names[a]} leads {names[b]}: A = {abs(M[i, j]):.4g}, "
                              f"q = {sig3(q[i, j])}")
+        if self.spectrum is not None:
+            lines += self._band_lines()
         for note in self.notes:
             lines.append("note: " + note)
+        return lines
+
+    def _frequency_unit(self) -> str:
+        """What band edges are measured in, named after the time column when there is one."""
+        sp = self.spectrum
+        if self.times_given and self.time_name:
+            unit = dict(self.units).get(self.time_name)
+            return f"cycles per {unit}" if unit else f"cycles per unit of {self.time_name}"
+        return sp.frequency_unit
+
+    def _band_lines(self) -> list:
+        sp = self.spectrum
+        names = list(self.names)
+        S = np.asarray(sp.areas, dtype=float)
+        B, n = S.shape[0], len(names)
+        total = S.sum(axis=0) + np.asarray(sp.rest, dtype=float)
+        edges = np.asarray(sp.bands, dtype=float)
+        lines = [f"\nby frequency band ({_plural(B, 'band')}, {self._frequency_unit()}; raw "
+                 "areas, +: the first-named channel leads in that band):"]
+        strength = np.max(np.abs(S), axis=0) if B else np.zeros((n, n))
+        cand = sorted(((strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)),
+                      reverse=True)
+        shown = [c for c in cand if c[0] > 0][:self.top]
+        if not shown:
+            lines.append("  no band holds any area")
+        q = None if self.band_significance is None else \
+            np.asarray(self.band_significance.qvalues, dtype=float)
+        for _, i, j in shown:
+            b = int(np.argmax(np.abs(S[:, i, j])))
+            a, c = (i, j) if S[b, i, j] >= 0 else (j, i)
+            parts = []
+            for k in np.argsort(edges[:, 0], kind="stable"):
+                txt = f"{sp.band_names[k]} {S[k, a, c]:+.4g}"
+                if q is not None:
+                    txt += f" (q {sig3(q[k, a, c])})"
+                parts.append(txt)
+            lines.append(f"  {names[a]} vs {names[c]}: " + ", ".join(parts)
+                         + f"; all frequencies {total[a, c]:+.4g}")
+            opposite = np.any(S[:, a, c] > 0) and np.any(S[:, a, c] < 0)
+            if opposite and abs(total[a, c]) < 0.5 * float(np.max(np.abs(S[:, a, c]))):
+                lines.append(f"    opposite leads in different bands partly cancel in the "
+                             "all-frequency area")
+        if np.any(np.asarray(sp.rest) != 0):
+            lines.append("  (area at frequencies outside the bands: bands.csv and the JSON "
+                         "'outside_bands')")
+        if self.band_significance is not None:
+            bs = self.band_significance
+            k = int(np.sum(np.triu(bs.significant(), 1) if B else 0))
+            lines.append(f"  band significance ({bs.method} surrogates, {bs.n_surrogates}): "
+                         f"{k} of {B * n * (n - 1) // 2} band-pairs at 5% false discovery rate "
+                         "(adjusted over all pairs and bands)")
         return lines
 
     # ------------------------------------------------------------------ figures
@@ -626,6 +718,10 @@ class LeadLagReport(_Report):
                     rows=not self.times_given,
                     title=f"Rolling lead: raw areas A[i, j] in windows of {self.window} "
                           f"samples, step {self.step}")
+            if self.spectrum is not None:
+                out["bands.png"] = plotting.band_leads(
+                    self.spectrum, significance=self.band_significance, top=self.top,
+                    frequency_unit=self._frequency_unit())
         return out
 
 
@@ -669,7 +765,7 @@ def _position_intervals(order, boot, confidence):
 def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, window=None,
             step=None, n_surrogates=None, surrogate_method="shift", seed=0, n_boot=None,
             confidence=0.95, top=3, progress=None, tol=None, time_name=None, units=None,
-            source=None) -> LeadLagReport:
+            source=None, bands=None) -> LeadLagReport:
     """The lead-lag report of a recording.
 
     Parameters
@@ -693,9 +789,15 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         (:func:`~wedgepath.bootstrap_area`, ``confidence``, ``seed``) and give
         each channel's position in the cycle an interval.
     top : int
-        Leaders and laggers listed.
+        Leaders and laggers listed (and pairs shown by band).
     progress : bool or None
         Progress indicator for the surrogates and the bootstrap.
+    bands : sequence of edges or mapping name -> (low, high), optional
+        Also split the area matrix by frequency band
+        (:func:`~wedgepath.lead_spectrum`, same closure; frequencies in
+        cycles per unit of the times, per sample without them); with
+        ``n_surrogates``, every band and pair is tested too
+        (:func:`~wedgepath.band_surrogate_test`).
     time_name, units, source
         Labels: the time column's name, units of columns, where the data came from.
 
@@ -723,6 +825,9 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         raise ValueError(f"lead-lag needs at least 2 channels, got {n}")
     if window is None and step is not None:
         raise ValueError("step needs window")
+    if bands is not None:
+        from .signals.spectrum import _resolve_bands
+        _resolve_bands(bands)               # a bad band fails before any work
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         A = area_matrix(values, times=times, closure=closure, normalize=normalize,
@@ -746,6 +851,13 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         if normalize is not None:
             notes.append("rolling windows hold raw areas A[i, j]; the normalisation applies "
                          "to the whole-recording matrix only")
+    if bands is not None:
+        from .signals import lead_spectrum
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            kw["spectrum"] = lead_spectrum(values, times=times, bands=bands, closure=closure,
+                                           names=list(names), tol=tol)
+        notes += [str(w.message) for w in caught]
     if n_surrogates is not None or n_boot is not None:
         a, b = _longest_gap_free(values)
         if b - a < (8 if n_boot is not None else 4):
@@ -763,6 +875,16 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
                                                 n_surrogates=n_surrogates, seed=seed,
                                                 times=tpart, progress=progress,
                                                 names=list(names))
+            if bands is not None:
+                from .signals import band_surrogate_test
+                bclosure = closure if closure in ("chord", "detrend") else "chord"
+                if bclosure != closure:
+                    notes.append(f"band significance tests chord-closed band areas (surrogates "
+                                 f"are closed loops; closure={closure!r} is not tested)")
+                kw["band_significance"] = band_surrogate_test(
+                    part, bands=bands, method=surrogate_method, n_surrogates=n_surrogates,
+                    seed=seed, times=tpart, names=list(names), closure=bclosure,
+                    progress=progress)
         if n_boot is not None:
             boot = bootstrap_area(part, n_boot=n_boot, confidence=confidence, seed=seed,
                                   keep=True, progress=progress, names=list(names))
@@ -1083,8 +1205,61 @@ class LoopReport(_Report):
             r = self.weighted
             how = "exact" if r.exact else f"error estimate {r.error:.2g}"
             lines.append(f"\nregion integral of {self.weight}: {float(r):.8g} ({how})")
+        if self.spectrum is not None:
+            lines += self._band_lines()
         for note in self.notes:
             lines.append("note: " + note)
+        return lines
+
+    def _frequency_unit(self) -> str:
+        """What band edges are measured in, named after the time column when there is one."""
+        sp = self.spectrum
+        if self.times_given and self.time_name:
+            unit = dict(self.units).get(self.time_name)
+            return f"cycles per {unit}" if unit else f"cycles per unit of {self.time_name}"
+        return sp.frequency_unit
+
+    def _band_lines(self) -> list:
+        sp = self.spectrum
+        names = list(self.names)
+        S = np.asarray(sp.areas, dtype=float)
+        B, n = S.shape[0], len(names)
+        total = S.sum(axis=0) + np.asarray(sp.rest, dtype=float)
+        edges = np.asarray(sp.bands, dtype=float)
+        lines = [f"\nby frequency band ({_plural(B, 'band')}, {self._frequency_unit()}; raw "
+                 "areas, +: the first-named channel leads in that band):"]
+        strength = np.max(np.abs(S), axis=0) if B else np.zeros((n, n))
+        cand = sorted(((strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)),
+                      reverse=True)
+        shown = [c for c in cand if c[0] > 0][:self.top]
+        if not shown:
+            lines.append("  no band holds any area")
+        q = None if self.band_significance is None else \
+            np.asarray(self.band_significance.qvalues, dtype=float)
+        for _, i, j in shown:
+            b = int(np.argmax(np.abs(S[:, i, j])))
+            a, c = (i, j) if S[b, i, j] >= 0 else (j, i)
+            parts = []
+            for k in np.argsort(edges[:, 0], kind="stable"):
+                txt = f"{sp.band_names[k]} {S[k, a, c]:+.4g}"
+                if q is not None:
+                    txt += f" (q {sig3(q[k, a, c])})"
+                parts.append(txt)
+            lines.append(f"  {names[a]} vs {names[c]}: " + ", ".join(parts)
+                         + f"; all frequencies {total[a, c]:+.4g}")
+            opposite = np.any(S[:, a, c] > 0) and np.any(S[:, a, c] < 0)
+            if opposite and abs(total[a, c]) < 0.5 * float(np.max(np.abs(S[:, a, c]))):
+                lines.append(f"    opposite leads in different bands partly cancel in the "
+                             "all-frequency area")
+        if np.any(np.asarray(sp.rest) != 0):
+            lines.append("  (area at frequencies outside the bands: bands.csv and the JSON "
+                         "'outside_bands')")
+        if self.band_significance is not None:
+            bs = self.band_significance
+            k = int(np.sum(np.triu(bs.significant(), 1) if B else 0))
+            lines.append(f"  band significance ({bs.method} surrogates, {bs.n_surrogates}): "
+                         f"{k} of {B * n * (n - 1) // 2} band-pairs at 5% false discovery rate "
+                         "(adjusted over all pairs and bands)")
         return lines
 
     # ------------------------------------------------------------------ figures
