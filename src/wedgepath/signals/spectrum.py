@@ -44,8 +44,13 @@ IRREGULAR_METHODS = ("resample", "index")
 
 # largest per-bin output (doubles) made when bands=None
 _MAX_BIN_OUTPUT = 1 << 25
-# channels transformed at once: the float64 working copy of one block of channels
-_FFT_BLOCK_ELEMENTS = 1 << 21
+# channels transformed at once: the float64 working copy of one block of channels.  At
+# least 8 channels (a 64-byte cache line of a row) per block: narrower blocks make every
+# block re-read whole rows of the input, and the copies, not the FFTs, dominate
+_FFT_BLOCK_ELEMENTS = 1 << 23
+_FFT_MIN_CHANNELS = 8
+# rows per block of the transposing copy
+_TRANSPOSE_ROWS = 4096
 # sampling steps that differ by less than this (relative) count as regular
 _REGULAR_RTOL = 1e-6
 # band areas below this may come from underflowing products: recheck the magnitudes
@@ -334,10 +339,22 @@ def _make_loops(data, closure, irregular, starts, stops):
             frac = None
 
         def rows(cols, s=s, e=e, frac=frac, drop_last=drop_last):
-            x = np.array(values[s:e, cols], dtype=np.float64)
+            """The loop's samples of channels ``cols``, channel-major (channels, N).
+
+            Referred to the piece's first sample (the area is translation invariant, and
+            offsets never enter the transform), transposed block by block of rows
+            (one cache-friendly pass over the input).
+            """
+            N_out = e - s - 1 if drop_last else e - s
+            ref = np.asarray(values[s, cols], dtype=np.float64)
+            out = np.empty((ref.shape[0], N_out))
+            for a in range(0, N_out, _TRANSPOSE_ROWS):
+                b = min(N_out, a + _TRANSPOSE_ROWS)
+                np.subtract(values[s + a:s + b, cols].T, ref[:, None], out=out[:, a:b])
             if frac is not None:
-                x -= frac[:, None] * (x[-1] - x[0])
-            return x[:-1] if drop_last else x
+                d = np.asarray(values[e - 1, cols], dtype=np.float64) - ref
+                out -= d[:, None] * frac[None, :N_out]
+            return out
 
         if not resample:
             loops.append(_Loop(rows, cnt - 1 if drop_last else cnt, h))
@@ -356,10 +373,10 @@ def _make_loops(data, closure, irregular, starts, stops):
 
         def rows_r(cols, rows=rows, tv=tv, grid=grid):
             x = rows(cols)
-            x = np.concatenate([x, x[:1]])      # the closed polyline's vertices, at times tv
-            out = np.empty((grid.shape[0], x.shape[1]))
-            for c in range(x.shape[1]):
-                out[:, c] = np.interp(grid, tv, x[:, c])
+            x = np.concatenate([x, x[:, :1]], axis=1)   # the closed polyline's vertices at tv
+            out = np.empty((x.shape[0], grid.shape[0]))
+            for c in range(x.shape[0]):
+                out[c] = np.interp(grid, tv, x[c])
             return out
 
         loops.append(_Loop(rows_r, K, step))
@@ -368,32 +385,31 @@ def _make_loops(data, closure, irregular, starts, stops):
 
 # --------------------------------------------------------------------------- kernel
 def _loop_spectrum(loop, n):
-    """Weighted DFT of the centred loop as two real arrays ``(R, I)``, each (N//2 + 1, n).
+    """Weighted DFT of the loop as two real arrays ``(R, I)``, each (n, N//2 + 1).
 
     ``R + iI = s_m X[m]`` with ``s_m = sqrt((2/N) sin(2 pi m/N))``: the area
-    terms of band ``b`` are then ``G - G^T``, ``G = I[b]^T R[b]``, one GEMM on
-    contiguous rows.  Transformed one channel block at a time (the working
-    copy of a block is bounded), written straight into ``R`` and ``I``.
+    terms of a band of bins ``a:c`` are then ``G - G^T``,
+    ``G = I[:, a:c] @ R[:, a:c]^T``, one GEMM.  Channel-major, so that each
+    channel's transform is one contiguous row; transformed one block of
+    channels at a time (the working copy of a block is bounded).
     """
     N = loop.N
     M = N // 2 + 1
-    R = np.empty((M, n))
-    Im = np.empty((M, n))
-    sw = _sqrt_weights(N)[:, None]
-    per = max(1, _FFT_BLOCK_ELEMENTS // max(N, 1))
+    R = np.empty((n, M))
+    Im = np.empty((n, M))
+    sw = _sqrt_weights(N)
+    per = max(_FFT_MIN_CHANNELS, _FFT_BLOCK_ELEMENTS // max(N, 1))
     from scipy import fft as sfft
 
     for a in range(0, n, per):
         cols = slice(a, min(n, a + per))
-        y = loop.rows(cols)
-        mu = y.mean(axis=0)
-        if not np.isfinite(mu).all():
-            raise _NotFinite              # a gap (NaN) or an infinite value: find the pieces
-        y -= mu
-        F = sfft.rfft(y, axis=0, overwrite_x=True)
+        y = loop.rows(cols)                       # (channels, N), referred to its first row
+        F = sfft.rfft(y, axis=1, overwrite_x=True, workers=-1)
         del y
-        np.multiply(F.real, sw, out=R[:, cols])
-        np.multiply(F.imag, sw, out=Im[:, cols])
+        if not np.isfinite(F[:, 0]).all():        # the DC bin is the sum of the samples
+            raise _NotFinite                      # a gap (NaN) or an infinite value
+        np.multiply(F.real, sw, out=R[cols])
+        np.multiply(F.imag, sw, out=Im[cols])
         del F
     return R, Im
 
@@ -410,30 +426,31 @@ def _sqrt_weights(N):
 
 def _band_sums(R, Im, idx, out_area, out_energy, rest):
     """Add each bin's area term to its band (idx -1: to ``rest``)."""
-    M, n = R.shape
+    n, M = R.shape
     # bins of one band are contiguous runs (frequencies increase with m)
     change = np.flatnonzero(np.diff(idx)) + 1
     run_starts = np.concatenate(([0], change))
     run_stops = np.concatenate((change, [M]))
     for a, c in zip(run_starts.tolist(), run_stops.tolist()):
         b = int(idx[a])
-        G = Im[a:c].T @ R[a:c]
+        Rb, Ib = R[:, a:c], Im[:, a:c]
+        G = Ib @ Rb.T
         if b >= 0:
             out_area[b] += G - G.T
-            out_energy[b] += np.einsum("ij,ij->j", R[a:c], R[a:c]) + \
-                np.einsum("ij,ij->j", Im[a:c], Im[a:c])
+            out_energy[b] += np.einsum("ij,ij->i", Rb, Rb) + np.einsum("ij,ij->i", Ib, Ib)
         else:
             rest += G - G.T
 
 
 def _per_bin(R, Im, idx, out_area, out_energy):
     """Per-bin output (bands=None): bins scattered to their (nearest-frequency) bands."""
-    M, n = R.shape
+    n, M = R.shape
     for a in range(0, M, 512):
         c = min(M, a + 512)
-        G = Im[a:c, :, None] * R[a:c, None, :]
+        Rb, Ib = R[:, a:c].T, Im[:, a:c].T
+        G = Ib[:, :, None] * Rb[:, None, :]
         np.add.at(out_area, idx[a:c], G - np.swapaxes(G, 1, 2))
-        np.add.at(out_energy, idx[a:c], R[a:c] ** 2 + Im[a:c] ** 2)
+        np.add.at(out_energy, idx[a:c], Rb ** 2 + Ib ** 2)
 
 
 def _spectrum(data, closure, bands, irregular, tol):
@@ -480,7 +497,7 @@ def _spectrum_pieces(data, closure, bands, irregular, tol, starts, stops):
     rest = np.zeros((n, n))
     for lp in loops:
         R, Im = _loop_spectrum(lp, n)
-        freqs = np.arange(R.shape[0]) / (lp.N * lp.step)
+        freqs = np.arange(R.shape[1]) / (lp.N * lp.step)
         if per_bin:
             idx = np.minimum(np.rint(freqs / df).astype(np.int64), B - 1)
             _per_bin(R, Im, idx, areas, energy)
