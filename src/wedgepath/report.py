@@ -1205,61 +1205,8 @@ class LoopReport(_Report):
             r = self.weighted
             how = "exact" if r.exact else f"error estimate {r.error:.2g}"
             lines.append(f"\nregion integral of {self.weight}: {float(r):.8g} ({how})")
-        if self.spectrum is not None:
-            lines += self._band_lines()
         for note in self.notes:
             lines.append("note: " + note)
-        return lines
-
-    def _frequency_unit(self) -> str:
-        """What band edges are measured in, named after the time column when there is one."""
-        sp = self.spectrum
-        if self.times_given and self.time_name:
-            unit = dict(self.units).get(self.time_name)
-            return f"cycles per {unit}" if unit else f"cycles per unit of {self.time_name}"
-        return sp.frequency_unit
-
-    def _band_lines(self) -> list:
-        sp = self.spectrum
-        names = list(self.names)
-        S = np.asarray(sp.areas, dtype=float)
-        B, n = S.shape[0], len(names)
-        total = S.sum(axis=0) + np.asarray(sp.rest, dtype=float)
-        edges = np.asarray(sp.bands, dtype=float)
-        lines = [f"\nby frequency band ({_plural(B, 'band')}, {self._frequency_unit()}; raw "
-                 "areas, +: the first-named channel leads in that band):"]
-        strength = np.max(np.abs(S), axis=0) if B else np.zeros((n, n))
-        cand = sorted(((strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)),
-                      reverse=True)
-        shown = [c for c in cand if c[0] > 0][:self.top]
-        if not shown:
-            lines.append("  no band holds any area")
-        q = None if self.band_significance is None else \
-            np.asarray(self.band_significance.qvalues, dtype=float)
-        for _, i, j in shown:
-            b = int(np.argmax(np.abs(S[:, i, j])))
-            a, c = (i, j) if S[b, i, j] >= 0 else (j, i)
-            parts = []
-            for k in np.argsort(edges[:, 0], kind="stable"):
-                txt = f"{sp.band_names[k]} {S[k, a, c]:+.4g}"
-                if q is not None:
-                    txt += f" (q {sig3(q[k, a, c])})"
-                parts.append(txt)
-            lines.append(f"  {names[a]} vs {names[c]}: " + ", ".join(parts)
-                         + f"; all frequencies {total[a, c]:+.4g}")
-            opposite = np.any(S[:, a, c] > 0) and np.any(S[:, a, c] < 0)
-            if opposite and abs(total[a, c]) < 0.5 * float(np.max(np.abs(S[:, a, c]))):
-                lines.append(f"    opposite leads in different bands partly cancel in the "
-                             "all-frequency area")
-        if np.any(np.asarray(sp.rest) != 0):
-            lines.append("  (area at frequencies outside the bands: bands.csv and the JSON "
-                         "'outside_bands')")
-        if self.band_significance is not None:
-            bs = self.band_significance
-            k = int(np.sum(np.triu(bs.significant(), 1) if B else 0))
-            lines.append(f"  band significance ({bs.method} surrogates, {bs.n_surrogates}): "
-                         f"{k} of {B * n * (n - 1) // 2} band-pairs at 5% false discovery rate "
-                         "(adjusted over all pairs and bands)")
         return lines
 
     # ------------------------------------------------------------------ figures
