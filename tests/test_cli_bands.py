@@ -31,7 +31,7 @@ def _recording(T=2000, seed=0):
 
 
 def test_report_holds_the_spectrum_and_its_significance():
-    df = _recording()
+    df = _recording(T=1200)
     X = df[["pressure", "flow", "volume"]]
     r = report.leadlag(X, times=df["t"].to_numpy(), bands=BANDS, n_surrogates=99, seed=0,
                        progress=False)
@@ -90,10 +90,11 @@ def test_band_figure_draws_the_strongest_pairs(tmp_path):
 
 
 def test_cli_bands_writes_table_json_and_figure(tmp_path, capsys):
-    df = _recording(T=1000)
+    df = _recording(T=600)
     src = tmp_path / "rec.csv"
     df.to_csv(src, index=False)
     out = tmp_path / "out"
+    pytest.importorskip("matplotlib")
     rc = main(["leadlag", str(src), "--time", "t", "--bands", "slow=0:3,mid=3:10,fast=10:50",
                "--out", str(out), "--quiet"])
     assert rc == 0
