@@ -406,3 +406,12 @@ def test_per_bin_values_are_the_continuous_polyline_spectrum_summed_over_aliases
     for m in range(1, N // 2):
         alias = terms[(kk % N) == m].sum() + terms[(kk % N) == N - m].sum()
         assert alias == pytest.approx(s.pair(0, 1)[m], rel=1e-9, abs=1e-12)
+
+
+def test_named_bands_keep_the_callers_order():
+    X = _walk(T=800, n=3, seed=22)
+    up = wp.lead_spectrum(X, bands={"slow": (0, 0.02), "mid": (0.05, 0.1), "fast": (0.1, 0.5)})
+    down = wp.lead_spectrum(X, bands={"fast": (0.1, 0.5), "mid": (0.05, 0.1), "slow": (0, 0.02)})
+    assert down.band_names == ("fast", "mid", "slow")
+    assert np.array_equal(down.areas, up.areas[::-1]) and np.array_equal(down.rest, up.rest)
+    assert np.allclose(down.bands, up.bands[::-1])

@@ -244,12 +244,21 @@ def _resolve_bands(bands):
 
 
 def _assign(freqs, edges, contiguous):
-    """Band index of each frequency (-1: in no band)."""
+    """Band index of each frequency (-1: in no band); bands do not overlap.
+
+    A binary search over the sorted lower edges: ``O(M log B)`` for ``M``
+    frequencies and ``B`` bands.
+    """
     idx = np.full(freqs.shape, -1, dtype=np.int64)
-    for b, (lo, hi) in enumerate(edges):
-        inside = (freqs >= lo) & (freqs < hi)
-        idx[inside & (idx < 0)] = b
-    if contiguous and edges.shape[0]:
+    if not edges.shape[0]:
+        return idx
+    order = np.argsort(edges[:, 0], kind="stable")
+    lo, hi = edges[order, 0], edges[order, 1]
+    k = np.searchsorted(lo, freqs, side="right") - 1
+    kk = np.maximum(k, 0)
+    inside = (k >= 0) & (freqs < hi[kk])
+    idx[inside] = order[kk[inside]]
+    if contiguous:
         top = float(edges[-1, 1])
         idx[(freqs == top) & (idx < 0)] = edges.shape[0] - 1
     return idx
