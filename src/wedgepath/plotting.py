@@ -519,7 +519,7 @@ def band_leads(spectrum, *, significance=None, names=None, pairs=None, top=6, ti
              for i, j in pairs]
     peaks = [p for p in peaks if np.isfinite(p) and p > 0]
     shared = not peaks or max(peaks) <= 10 * min(peaks)
-    width = max(7.0, min(14.0, 2.0 + 0.45 * B * ncol))
+    width = max(7.0, min(12.0, 2.0 + 0.45 * B * ncol))
     fig, axes = plt.subplots(nrow, ncol, figsize=(width, 0.9 + 2.0 * nrow), dpi=110,
                              sharex=True, sharey=shared, squeeze=False, layout="constrained")
     x = np.arange(B)
@@ -578,17 +578,20 @@ def band_leads(spectrum, *, significance=None, names=None, pairs=None, top=6, ti
             axk.set_xticklabels(names_b + ["all\nfrequencies"], rotation=30 if B > 8 else 0,
                                 ha="right" if B > 8 else "center", fontsize=7)
         else:
-            axk.set_xticks([xall])
-            axk.set_xticklabels(["all"], fontsize=7)
-        axk.set_xlabel(f"band ({_literal(unit)}), low to high frequency", fontsize=8,
-                       color=INK)
+            # many bands: a few ticks at band lower edges, and the all-frequency bar
+            at = np.unique(np.linspace(0, B - 1, 6).round().astype(int))
+            axk.set_xticks(list(at) + [xall])
+            axk.set_xticklabels([_edge(edges[order[k], 0]) for k in at] + ["all"], fontsize=7)
+        axk.set_xlabel(f"band ({_literal(unit)}), low to high frequency" if bars else
+                       f"lower edge of the band ({_literal(unit)})", fontsize=8, color=INK)
     for axk in axes[:, 0]:
         axk.set_ylabel("raw band area", fontsize=8, color=INK)
     fig.suptitle(title or "Lead by frequency band (signed raw areas)", fontsize=10, color=INK,
                  x=0.02, ha="left")
     note = ("above 0 (blue): the first-named channel leads in that band; below 0 (ochre): it "
-            "lags.\nGrey numbers: band area / band energies, in [-1, 1], comparable across bands. "
-            "Outlined bar: all frequencies.")
+            "lags.\n" + ("Grey numbers: band area / band energies, in [-1, 1], comparable across "
+                          "bands. " if bars and B <= 24 else "")
+            + "Outlined bar: all frequencies.")
     extra = []
     if q is not None:
         extra.append(f"hatched hollow bars: not significant (q > {alpha:g})")

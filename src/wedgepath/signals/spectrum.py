@@ -185,7 +185,7 @@ class LeadSpectrum(ArrayResult):
 
 # --------------------------------------------------------------------------- bands
 def _fmt_edge(v):
-    return f"{v:.4g}"
+    return f"{v:.3g}"
 
 
 def _resolve_bands(bands):
