@@ -695,6 +695,61 @@ row("RollingAreas.pair(i, j)", "option", "an unknown channel name",
     lambda: wp.rolling_area_matrix(loop(3), 4, 2).pair("zz", "0"), KeyError,
     "unknown channel 'zz'")
 
+SPEC = "wp.lead_spectrum(X, bands)"
+array_rows(SPEC, lambda X: wp.lead_spectrum(X, bands=[0, 0.25, 0.5]), 3,
+           ndim=(ValueError, "must be 2-dimensional"),
+           empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
+           allnan=(ValueError, "no complete sample"))
+row(SPEC, "option", "overlapping named bands",
+    lambda: wp.lead_spectrum(loop(3), bands={"a": (0, 0.3), "b": (0.2, 0.5)}), ValueError,
+    "overlap")
+row(SPEC, "option", "decreasing band edges", lambda: wp.lead_spectrum(loop(3), bands=[0.3, 0.1]),
+    ValueError, "strictly increasing")
+row(SPEC, "option", "a negative band edge", lambda: wp.lead_spectrum(loop(3), bands=[-1, 0.5]),
+    ValueError, ">= 0")
+row(SPEC, "option", "bands given as text", lambda: wp.lead_spectrum(loop(3), bands="alpha"),
+    TypeError, "bands must be None")
+row(SPEC, "option", "irregular='spline'",
+    lambda: wp.lead_spectrum(loop(3), irregular="spline"), ValueError, "irregular")
+row(SPEC, "option", "closure='require' on an open recording",
+    lambda: wp.lead_spectrum(loop(3)[:5], closure="require"), ValueError, "not closed")
+row(SPEC, "times", "duplicate times",
+    lambda: wp.lead_spectrum(loop(3), times=np.zeros(8)), ValueError, "strictly increasing")
+row(SPEC, "overflow", "channels near 1e200 (areas beyond float64)",
+    lambda: wp.lead_spectrum(loop(3) * 1e200, bands=[0, 0.5]), ValueError, "overflow float64")
+row("LeadSpectrum.pair(i, j)", "option", "an unknown channel name",
+    lambda: wp.lead_spectrum(loop(3)).pair("zz", "0"), KeyError, "unknown channel 'zz'")
+
+BST = "wp.band_surrogate_test(X, bands)"
+array_rows(BST, lambda X: wp.band_surrogate_test(X, bands=[0, 0.5], n_surrogates=3, seed=0), 3,
+           ndim=(ValueError, "must be 2-dimensional"),
+           empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
+           allnan=(ValueError, "gap-free data"), inf_match="an infinite value")
+row(BST, "option", "bands=None", lambda: wp.band_surrogate_test(loop(3), bands=None),
+    ValueError, "needs bands")
+row(BST, "option", "closure='none'",
+    lambda: wp.band_surrogate_test(loop(3), bands=[0, 0.5], closure="none"), ValueError,
+    "closure='chord' or 'detrend'")
+row(BST, "option", "n_surrogates=0",
+    lambda: wp.band_surrogate_test(loop(3), bands=[0, 0.5], n_surrogates=0), ValueError,
+    "at least 1")
+row(BST, "option", "method='bogus'",
+    lambda: wp.band_surrogate_test(loop(3), bands=[0, 0.5], method="bogus"), ValueError,
+    "method")
+
+RSPEC = "wp.rolling_lead_spectrum(X, window, step, bands)"
+array_rows(RSPEC, lambda X: wp.rolling_lead_spectrum(X, 4, 1, bands=[0, 0.5]), 3,
+           ndim=(ValueError, "must be 2-dimensional"),
+           empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
+           allnan=(ValueError, "gap-free data"), inf_match="an infinite value")
+row(RSPEC, "option", "window=3", lambda: wp.rolling_lead_spectrum(loop(3), 3, 1, bands=[0, 0.5]),
+    ValueError, "at least 4 samples")
+row(RSPEC, "option", "window longer than the data",
+    lambda: wp.rolling_lead_spectrum(loop(3), 100, 1, bands=[0, 0.5]), ValueError,
+    "longer than the data")
+row(RSPEC, "option", "bands=None", lambda: wp.rolling_lead_spectrum(loop(3), 4, 1, bands=None),
+    ValueError, "needs bands")
+
 ACC = "AreaAccumulator.update(chunk)"
 array_rows(ACC, lambda X: wp.AreaAccumulator(3).update(X), 3,
            ndim=(ValueError, "must be 2-dimensional"),
@@ -1128,6 +1183,8 @@ row("wp.plotting.pair_chart(areas)", "ndim", "a 2x3 matrix",
 row("wp.plotting.pair_chart(areas)", "length", "1 name for 2 channels",
     lambda: plotting.pair_chart(np.zeros((2, 2)), names=["a"]), ValueError,
     "names has 1 entries")
+row("wp.plotting.band_leads(spectrum)", "text", "an AreaMatrix instead of a LeadSpectrum",
+    lambda: plotting.band_leads(wp.area_matrix(loop(3))), TypeError, "needs a LeadSpectrum")
 row("wp.plotting.rolling_pairs(rolling)", "text", "an array instead of a RollingAreas",
     lambda: plotting.rolling_pairs(np.zeros((2, 2, 2))), TypeError, "needs a RollingAreas")
 row("wp.plotting.loop_faces(decomposition)", "text", "an array instead of a Decomposition",
@@ -1479,7 +1536,7 @@ def public_calls():
             continue  # warning and error classes are raised by the library, not called
         if name in ("RegionMoments", "Decomposition", "Lobe", "CyclicOrder", "SurrogateResult",
                     "BootstrapResult", "CycleAreas", "RollingAreas", "FitTest", "DriftCheck",
-                    "ReferenceLags"):
+                    "ReferenceLags", "LeadSpectrum", "BandSignificance", "RollingSpectrum"):
             continue  # result objects: built by the library, not by users
         names.add(f"wp.{name}")
     names |= {f"wp.io.{n}" for n in ("read_table", "iter_table_chunks", "table_columns",

@@ -83,6 +83,12 @@ FRAME_COLUMNS = {
     "FitTest": ["strength", "null_median", "null_q95", "pvalue", "fit", "n_surrogates"],
     "DriftCheck": ["i", "j", "channel_i", "channel_j", "drift_share"],
     "ReferenceLags": ["channel", "lag", "low", "high", "coherence"],
+    "LeadSpectrum": ["band", "band_name", "low", "high", "i", "j", "channel_i", "channel_j",
+                     "area", "normalized"],
+    "BandSignificance": ["band", "band_name", "low", "high", "i", "j", "channel_i",
+                         "channel_j", "area", "p", "q", "null_mean", "null_std"],
+    "RollingSpectrum": ["window", "start", "stop", "start_time", "stop_time", "band",
+                        "band_name", "low", "high", "i", "j", "channel_i", "channel_j", "area"],
 }
 
 #: the convention fields each result type carries (beyond names and units)
@@ -100,6 +106,9 @@ CONVENTIONS = {
     "FitTest": ["closure", "method", "n_surrogates", "seed"],
     "DriftCheck": [],
     "ReferenceLags": ["reference", "confidence", "n_boot", "seed"],
+    "LeadSpectrum": ["closure", "frequency_unit", "irregular"],
+    "BandSignificance": ["closure", "method", "n_surrogates", "seed", "min_shift"],
+    "RollingSpectrum": ["closure", "window", "step"],
 }
 
 #: public functions: (what they return, a call on a small input)
@@ -134,6 +143,11 @@ CALLS = {
     "wedgepath.benjamini_hochberg": ("array", lambda: wp.benjamini_hochberg([0.01, 0.2])),
     "wedgepath.decorrelation_lag": ("array", lambda: wp.decorrelation_lag(WAVES)),
     "wedgepath.cycle_areas": ("result", lambda: wp.cycle_areas(WAVES, "a", "b")),
+    "wedgepath.lead_spectrum": ("result", lambda: wp.lead_spectrum(WAVES, bands=[0, 0.1, 0.5])),
+    "wedgepath.band_surrogate_test": ("result", lambda: wp.band_surrogate_test(
+        WAVES, bands=[0, 0.1, 0.5], n_surrogates=9, seed=0, progress=False)),
+    "wedgepath.rolling_lead_spectrum": ("result", lambda: wp.rolling_lead_spectrum(
+        WAVES, 32, 16, bands=[0, 0.1, 0.5])),
     "wedgepath.pair_table": ("frame", lambda: wp.pair_table(wp.area_matrix(WAVES))),
     "wedgepath.io.read_table": ("result", lambda: wio.read_table(_csv(), time_column="t")),
     "wedgepath.io.iter_table_chunks": ("results", lambda: list(wio.iter_table_chunks(
@@ -161,14 +175,15 @@ CLASSES = {
     **{n: "result" for n in ("AreaMatrix", "CyclicOrder", "RollingAreas", "CycleAreas",
                              "SurrogateResult", "BootstrapResult", "Decomposition", "Lobe",
                              "RegionMoments", "Table", "Integral", "FitTest", "DriftCheck",
-                             "ReferenceLags")},
+                             "ReferenceLags", "LeadSpectrum", "BandSignificance",
+                             "RollingSpectrum")},
     # values the user builds and computes with
     **{n: "value" for n in ("Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm",
                             "TwoForm", "SimplicialChain", "SimplicialComplex", "WhitneyForm")},
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "ShapeWarning",
-                                "DriftWarning",
+                                "DriftWarning", "ResamplingWarning",
                                 "TableError", "ChunkError", "ArrangementTooLarge")},
 }
 

@@ -137,7 +137,11 @@ def test_progress_is_bool_or_none_everywhere():
              "bootstrap_area": lambda v: wp.bootstrap_area(X, n_boot=3, progress=v),
              "decompose": lambda v: wp.decompose(X, progress=v),
              "stream_area_matrix": lambda v: wio.stream_area_matrix(
-                 io.StringIO("a,b\n0,0\n1,0\n1,1\n"), progress=v)}
+                 io.StringIO("a,b\n0,0\n1,0\n1,1\n"), progress=v),
+             "band_surrogate_test": lambda v: wp.band_surrogate_test(
+                 X, bands=[0, 0.1, 0.5], n_surrogates=3, progress=v),
+             "rolling_lead_spectrum": lambda v: wp.rolling_lead_spectrum(
+                 X, 10, 5, bands=[0, 0.1, 0.5], progress=v)}
     assert set(calls) == {q.rsplit(".", 1)[1] for q, _ in found}
     for name, call in calls.items():
         for ok in (None, False):

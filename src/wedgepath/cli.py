@@ -96,6 +96,39 @@ def _units(text):
     return units
 
 
+def _bands(text):
+    """``--bands``: edges ``0,3,10,50`` or named ranges ``slow=0:3,fast=10:50``."""
+    items = [t.strip() for t in text.split(",") if t.strip()]
+    if not items:
+        raise argparse.ArgumentTypeError("expected band edges (0,3,10) or named ranges "
+                                         "(slow=0:3,fast=3:10)")
+
+    def num(t):
+        try:
+            v = float(t)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"expected a frequency, got {t!r}") from None
+        if not math.isfinite(v):
+            raise argparse.ArgumentTypeError(f"expected a finite frequency, got {t!r}")
+        return v
+
+    if any("=" in t for t in items):
+        out = {}
+        for t in items:
+            name, sep, rng = t.partition("=")
+            lo, sep2, hi = rng.partition(":")
+            if not sep or not sep2 or not name.strip():
+                raise argparse.ArgumentTypeError(f"expected NAME=LOW:HIGH, got {t!r}")
+            if name.strip() in out:
+                raise argparse.ArgumentTypeError(f"band {name.strip()!r} is named twice")
+            out[name.strip()] = (num(lo), num(hi))
+        return out
+    edges = [num(t) for t in items]
+    if len(edges) < 2:
+        raise argparse.ArgumentTypeError("band edges need at least 2 frequencies")
+    return edges
+
+
 def _check_units(args, columns):
     unknown = [c for c in args.units if c not in columns]
     if unknown:
@@ -228,10 +261,15 @@ def build_parser():
     ll.add_argument("--reference", metavar="COL",
                     help="each channel's lag behind COL in time units, with an interval "
                     "(oscillatory data only; broad-band data are said to be so)")
+    ll.add_argument("--bands", type=_bands, metavar="EDGES|NAME=LO:HI,...",
+                    help="also split the area matrix by frequency band: edges such as "
+                    "0,3,10,50 or named ranges such as slow=0:3,fast=10:50, in cycles per "
+                    "unit of --time (per sample without it); with --surrogates every band "
+                    "and pair is tested (bands.csv, bands.png)")
     _add_common(ll, ["result.json", "area_matrix.csv", "pairs.csv", "rolling.csv (--window)",
                      "pvalues.csv and qvalues.csv (--surrogates)", "trials.csv (--trial)",
-                     "positions.png",
-                     "pairs.png", "rolling.png (--window)"])
+                     "bands.csv (--bands)", "positions.png", "pairs.png",
+                     "rolling.png (--window)", "bands.png (--bands)"])
     ll.set_defaults(func=_cmd_leadlag)
 
     lp = sub.add_parser("loop", help="areas of a loop in one plane (energy per cycle, lobes)",
@@ -405,7 +443,8 @@ def _cmd_leadlag(args):
                                          ("--difference", args.difference),
                                          ("--bandpass", args.bandpass),
                                          ("--highpass", args.highpass),
-                                         ("--reference", args.reference)) if val]
+                                         ("--reference", args.reference),
+                                         ("--bands", args.bands)) if val]
         if clash:
             raise CLIError(f"--stream computes the area matrix only; drop {', '.join(clash)}")
         if args.closure != "chord":
@@ -413,7 +452,8 @@ def _cmd_leadlag(args):
     figures = _want_figures(args)
     plan = _plan(args, report.leadlag_files(figures, window=bool(args.window),
                                             significance=bool(args.surrogates),
-                                            trials=bool(args.trial)), "leadlag")
+                                            trials=bool(args.trial),
+                                            bands=args.bands is not None), "leadlag")
     source = {"table": _table_label(args.table), "time_column": args.time}
     if args.stream:
         rep = report.leadlag_stream(args.table, columns=args.columns, time_column=args.time,
@@ -441,7 +481,7 @@ def _cmd_leadlag(args):
                          units=args.units, source=source, invert=args.invert,
                          detrend=args.detrend, difference=args.difference,
                          bandpass=args.bandpass, highpass=args.highpass,
-                         reference=args.reference)
+                         reference=args.reference, bands=args.bands)
     return _emit(args, rep, plan, figures)
 
 

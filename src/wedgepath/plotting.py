@@ -19,6 +19,9 @@ What each figure answers:
     named leader → lagger, the bar's length the lead, its fill the verdict.
 :func:`rolling_pairs`
     Does the lead hold over time?  Small multiples of the strongest pairs.
+:func:`band_leads`
+    Which frequency band carries the lead?  One panel per strong pair, a signed
+    bar per band, the all-frequency total beside them.
 :func:`loop_path`, :func:`loop_faces`, :func:`cycle_values`, :func:`loop_overview`
     The loop as recorded with its direction (one shade per cycle), its faces
     by winding number, and the per-cycle integral with mean ± std (ddof=1).
@@ -37,8 +40,9 @@ import numpy as np
 
 from ._validation import as_float_array
 
-__all__ = ["cycle_positions", "pair_chart", "rolling_pairs", "loop_path", "loop_faces",
-           "cycle_values", "loop_overview", "png_bytes", "literal_text", "with_unit"]
+__all__ = ["cycle_positions", "pair_chart", "rolling_pairs", "band_leads", "loop_path",
+           "loop_faces", "cycle_values", "loop_overview", "png_bytes", "literal_text",
+           "with_unit"]
 
 # our palette: ink, a slate blue (counter-clockwise, significant), an ochre (clockwise),
 # greys for what is secondary
@@ -453,6 +457,157 @@ def rolling_pairs(rolling, *, names=None, pairs=None, top=6, xlabel="window cent
                                            ". Each panel has its own scale (sizes differ by "
                                            "more than 10 times)"), fontsize=7, color=GREY,
                   x=0.02, ha="left")
+    return fig
+
+
+def band_leads(spectrum, *, significance=None, names=None, pairs=None, top=6, title=None,
+               alpha=0.05, frequency_unit=None):
+    """Small multiples: for each of the strongest pairs, its signed area in every band.
+
+    Parameters
+    ----------
+    spectrum : LeadSpectrum
+        From :func:`~wedgepath.lead_spectrum`.
+    significance : BandSignificance, optional
+        From :func:`~wedgepath.band_surrogate_test` with the same bands: bands
+        whose q-value exceeds ``alpha`` are drawn hollow.
+    pairs : sequence of (i, j), optional
+        The pairs to draw (default: the ``top`` pairs with the largest band
+        area in any band -- a pair whose bands cancel is still shown -- each
+        named the way round in which it leads in its strongest band).
+    top : int
+    title : str, optional
+    alpha : float
+        False discovery rate at which a band counts as significant.
+    frequency_unit : str, optional
+        What the band edges are measured in, for the axis label (default: the
+        spectrum's ``frequency_unit``).
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        One panel per pair: a bar per band in frequency order (above 0: the
+        first-named channel leads in that band), the band's normalised value
+        printed at the bar, and a dashed line at the area over all
+        frequencies (bands plus what lies outside them).
+    """
+    if not hasattr(spectrum, "band_names") or not hasattr(spectrum, "rest"):
+        raise TypeError(f"band_leads needs a LeadSpectrum (from wp.lead_spectrum), got "
+                        f"{type(spectrum).__name__}")
+    S = as_float_array(np.asarray(spectrum), "band areas", ndim=3, allow_nan=True)
+    B, n = S.shape[0], S.shape[1]
+    labels = _names(spectrum, names, n)
+    total = S.sum(axis=0) + np.asarray(spectrum.rest, dtype=float)
+    Nz = np.asarray(spectrum.normalized, dtype=float)
+    edges = np.asarray(spectrum.bands, dtype=float)
+    order = np.argsort(edges[:, 0], kind="stable")
+    q = None
+    if significance is not None:
+        q = np.asarray(significance.qvalues, dtype=float)
+        if q.shape != S.shape:
+            raise ValueError(f"significance has shape {q.shape}, the spectrum {S.shape}: "
+                             "test the same bands")
+    if pairs is None:
+        strength = np.nanmax(np.abs(S), axis=0) if B else np.zeros((n, n))
+        cand = sorted(((strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)),
+                      reverse=True)[:int(top)]
+        pairs = []
+        for _, i, j in cand:
+            b = int(np.nanargmax(np.abs(S[:, i, j]))) if B else 0
+            pairs.append((i, j) if (not B or S[b, i, j] >= 0) else (j, i))
+    else:
+        pairs = [tuple(int(v) for v in pq) for pq in pairs]
+        if any(len(pq) != 2 or not all(0 <= v < n for v in pq) for pq in pairs):
+            raise ValueError(f"pairs must be (i, j) channel index pairs below {n}")
+    _, plt = _mpl()
+    m = max(1, len(pairs))
+    ncol = 1 if m <= 3 else 2
+    nrow = int(math.ceil(m / ncol))
+    peaks = [max(np.nanmax(np.abs(S[:, i, j])) if B else 0.0, abs(total[i, j]))
+             for i, j in pairs]
+    peaks = [p for p in peaks if np.isfinite(p) and p > 0]
+    shared = not peaks or max(peaks) <= 10 * min(peaks)
+    width = max(7.0, min(12.0, 2.0 + 0.45 * B * ncol))
+    fig, axes = plt.subplots(nrow, ncol, figsize=(width, 0.9 + 2.0 * nrow), dpi=110,
+                             sharex=True, sharey=shared, squeeze=False, layout="constrained")
+    x = np.arange(B)
+    bars = B <= 60
+    xall = B - 1 + (1.6 if bars else max(2.0, 0.04 * B))
+    unit = frequency_unit or getattr(spectrum, "frequency_unit", "")
+    for k, axk in enumerate(axes.flat):
+        if k >= len(pairs):
+            axk.axis("off")
+            continue
+        i, j = pairs[k]
+        v = S[order, i, j]
+        colours = [SLATE if a >= 0 else OCHRE for a in v]
+        if bars:
+            sig = np.ones(B, dtype=bool) if q is None else (
+                np.nan_to_num(q[order, i, j], nan=1.0) <= alpha)
+            for xb, a, c, sg in zip(x, v, colours, sig):
+                axk.bar(xb, a, width=0.72, color=c if sg else "white", edgecolor=c, lw=1.2,
+                        hatch=None if sg else "////")
+            if B <= 24:
+                nz = Nz[order, i, j]
+                span = np.nanmax(np.abs(v)) if np.any(np.isfinite(v)) else 0.0
+                for xb, a, z in zip(x, v, nz):
+                    if np.isfinite(z) and span > 0:
+                        axk.annotate(f"{z:+.2f}", (xb, a), xytext=(0, 3 if a >= 0 else -3),
+                                     textcoords="offset points", ha="center",
+                                     va="bottom" if a >= 0 else "top", fontsize=6.5,
+                                     color=GREY)
+        else:
+            axk.fill_between(x, 0, v, where=v >= 0, color=SLATE, alpha=0.35, lw=0,
+                             step="mid")
+            axk.fill_between(x, 0, v, where=v < 0, color=OCHRE, alpha=0.4, lw=0, step="mid")
+            axk.step(x, v, where="mid", color=INK, lw=0.8)
+        axk.axhline(0, color=GREY, lw=0.7)
+        # the all-frequency area: a separate outlined bar after a gap
+        axk.bar(xall, total[i, j], width=0.72, color="white", edgecolor=INK, lw=1.2)
+        axk.annotate(f"{total[i, j]:.3g}", (xall, total[i, j]),
+                     xytext=(0, 3 if total[i, j] >= 0 else -3), textcoords="offset points",
+                     ha="center", va="bottom" if total[i, j] >= 0 else "top", fontsize=6.5,
+                     color=INK)
+        axk.axvline(xall - 0.8, color=RULE, lw=0.8)
+        axk.set_title(f"{labels[i]} → {labels[j]}", fontsize=8, color=INK, loc="left")
+        axk.margins(y=0.18)
+        _style(axk)
+    def _edge(v):
+        return f"{v:.3g}"
+
+    if B <= 8:
+        names_b = [f"{_literal(spectrum.band_names[b])}\n{_edge(edges[b, 0])}–{_edge(edges[b, 1])}"
+                   for b in order]
+    else:
+        names_b = [_literal(spectrum.band_names[b]) for b in order]
+    for axk in axes[-1]:
+        if bars:
+            axk.set_xticks(list(x) + [xall])
+            axk.set_xticklabels(names_b + ["all\nfrequencies"], rotation=30 if B > 8 else 0,
+                                ha="right" if B > 8 else "center", fontsize=7)
+        else:
+            # many bands: a few ticks at band lower edges, and the all-frequency bar
+            at = np.unique(np.linspace(0, B - 1, 6).round().astype(int))
+            axk.set_xticks(list(at) + [xall])
+            axk.set_xticklabels([_edge(edges[order[k], 0]) for k in at] + ["all"], fontsize=7)
+        axk.set_xlabel(f"band ({_literal(unit)}), low to high frequency" if bars else
+                       f"lower edge of the band ({_literal(unit)})", fontsize=8, color=INK)
+    for axk in axes[:, 0]:
+        axk.set_ylabel("raw band area", fontsize=8, color=INK)
+    fig.suptitle(title or "Lead by frequency band (signed raw areas)", fontsize=10, color=INK,
+                 x=0.02, ha="left")
+    note = ("above 0 (blue): the first-named channel leads in that band; below 0 (ochre): it "
+            "lags.\n" + ("Grey numbers: band area / band energies, in [-1, 1], comparable across "
+                          "bands. " if bars and B <= 24 else "")
+            + "Outlined bar: all frequencies.")
+    extra = []
+    if q is not None:
+        extra.append(f"hatched hollow bars: not significant (q > {alpha:g})")
+    if not shared:
+        extra.append("each panel has its own scale")
+    if extra:
+        note += "\n" + "; ".join(extra).capitalize() + "."
+    fig.supxlabel(note, fontsize=7, color=GREY, x=0.02, ha="left")
     return fig
 
 

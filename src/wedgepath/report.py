@@ -67,7 +67,8 @@ LISTED_PAIRS = 10
 
 # =========================================================================== file names
 def leadlag_files(figures: bool = False, *, window: bool = False, significance: bool = False,
-                  json_name: str = "result.json", trials: bool = False) -> list:
+                  json_name: str = "result.json", trials: bool = False,
+                  bands: bool = False) -> list:
     """The files a lead-lag report gives with these options (``manifest.json`` not included).
 
     Examples
@@ -84,8 +85,12 @@ def leadlag_files(figures: bool = False, *, window: bool = False, significance: 
         names += ["pvalues.csv", "qvalues.csv"]
     if trials:
         names.append("trials.csv")
+    if bands:
+        names.append("bands.csv")
     if figures:
         names += ["positions.png", "pairs.png"] + (["rolling.png"] if window else [])
+        if bands:
+            names.append("bands.png")
     return names
 
 
@@ -170,6 +175,22 @@ def _unpack(data, times, names, what="data"):
     if len(set(nm)) != len(nm):
         raise ValueError(f"names repeat: {list(nm)}")
     return values, t, nm
+
+
+def _seconds(times):
+    """Sample times as float numbers (elapsed seconds for date/times) for slicing."""
+    return np.asarray(getattr(times, "values", times), dtype=float)
+
+
+def _longest_gap_free(values):
+    """Row range [a, b) (from 0) of the longest run without NaN."""
+    good = ~np.isnan(values).any(axis=1)
+    edges = np.flatnonzero(np.diff(np.concatenate(([0], good.view(np.int8), [0]))))
+    if edges.size == 0:
+        return 0, 0
+    starts, stops = edges[0::2], edges[1::2]
+    k = int(np.argmax(stops - starts))
+    return int(starts[k]), int(stops[k])
 
 
 # =========================================================================== text helpers
@@ -337,6 +358,11 @@ class LeadLagReport(_Report):
     preprocessing : dict
         The zero-phase steps applied before everything else (``invert``,
         ``detrend``, ``difference``, ``bandpass``, ``highpass``).
+    spectrum : LeadSpectrum or None
+        The area matrix split by frequency band (``bands=``), same closure.
+    band_significance : BandSignificance or None
+        Surrogate test of every band and pair (``bands=`` with
+        ``n_surrogates``), on the same gap-free stretch as ``significance``.
     """
 
     names: tuple
@@ -373,6 +399,9 @@ class LeadLagReport(_Report):
     structure: str | None = None
     lags: object = None
     preprocessing: Mapping = field(default_factory=dict)
+    spectrum: object = None
+    band_significance: object = None
+    band_significance_rows: tuple | None = None
 
     # ------------------------------------------------------------------ views
     @property
@@ -459,7 +488,8 @@ class LeadLagReport(_Report):
         """The names of the files of this report (as :func:`leadlag_files` gives them)."""
         return leadlag_files(figures, window=self.rolling is not None,
                              significance=self.significance is not None,
-                             json_name=self.json_name, trials=self.trials is not None)
+                             json_name=self.json_name, trials=self.trials is not None,
+                             bands=self.spectrum is not None)
 
     # ------------------------------------------------------------------ the JSON
     def to_dict(self) -> dict:
@@ -567,6 +597,27 @@ class LeadLagReport(_Report):
                 "pooled_raw_area_matrix": np.asarray(tr.values, dtype=float)}
         if self.times_given:
             d["time_unit"] = self.time_unit
+        if self.spectrum is not None:
+            sp = self.spectrum
+            d["bands"] = {"names": list(sp.band_names),
+                          "low": np.asarray(sp.bands, dtype=float)[:, 0],
+                          "high": np.asarray(sp.bands, dtype=float)[:, 1],
+                          "frequency_unit": self._frequency_unit(),
+                          "closure": sp.closure,
+                          "irregular_times": sp.irregular,
+                          "areas": np.asarray(sp.areas, dtype=float),
+                          "normalized": np.asarray(sp.normalized, dtype=float),
+                          "outside_bands": np.asarray(sp.rest, dtype=float)}
+            if sp.resampling_error is not None:
+                d["bands"]["resampling_error"] = np.asarray(sp.resampling_error, dtype=float)
+            if self.band_significance is not None:
+                bs = self.band_significance
+                d["bands"]["significance"] = {
+                    "rows": list(self.band_significance_rows or ()), "method": bs.method,
+                    "n_surrogates": int(bs.n_surrogates), "seed": bs.seed,
+                    "pvalues": np.asarray(bs.pvalues, dtype=float),
+                    "qvalues": np.asarray(bs.qvalues, dtype=float),
+                    "adjusted_over": "all pairs and bands"}
         if self.streamed:
             d["streamed"] = True
             d["chunk_rows"] = self.chunk_rows
@@ -606,6 +657,13 @@ class LeadLagReport(_Report):
             out["qvalues.csv"] = matrix(self.significance.qvalues)
         if self.trials is not None:
             out["trials.csv"] = self.trials.to_frame()
+        if self.spectrum is not None:
+            f = self.spectrum.to_frame()
+            if self.band_significance is not None:
+                g = self.band_significance.to_frame()
+                f["p"] = g["p"].to_numpy()
+                f["q"] = g["q"].to_numpy()
+            out["bands.csv"] = f
         return out
 
     # ------------------------------------------------------------------ text
@@ -703,6 +761,8 @@ class LeadLagReport(_Report):
             steps = ", ".join(f"{k} {v}" if v is not True else k
                               for k, v in self.preprocessing.items())
             lines.append(f"preprocessing (zero phase): {steps}")
+        if self.spectrum is not None:
+            lines += self._band_lines()
         for note in self.notes:
             lines.append("note: " + note)
         return lines
@@ -723,7 +783,7 @@ class LeadLagReport(_Report):
             return []
         unit = self.units.get(self.time_name) if self.time_name else None
         u = f" {unit}" if unit else (" samples" if not self.times_given else
-                                     " time units")
+                                     " s" if self.time_unit == "ISO-8601" else " time units")
         if not lg.narrowband:
             return [f"\nlags behind {lg.reference}: not given -- the data are broad-band "
                     f"(only {100 * lg.band_share:.0f}% of {lg.reference}'s power lies near its "
@@ -739,6 +799,57 @@ class LeadLagReport(_Report):
                        + (f"  (coherence {lg.coherence[k]:.2f}: weak)" if lg.coherence[k] < 0.5
                           else ""))
         return out
+
+    def _frequency_unit(self) -> str:
+        """What band edges are measured in, named after the time column when there is one."""
+        sp = self.spectrum
+        if self.times_given and self.time_name:
+            unit = dict(self.units).get(self.time_name)
+            return f"cycles per {unit}" if unit else f"cycles per unit of {self.time_name}"
+        return sp.frequency_unit
+
+    def _band_lines(self) -> list:
+        sp = self.spectrum
+        names = list(self.names)
+        S = np.asarray(sp.areas, dtype=float)
+        B, n = S.shape[0], len(names)
+        total = S.sum(axis=0) + np.asarray(sp.rest, dtype=float)
+        edges = np.asarray(sp.bands, dtype=float)
+        lines = [f"\nby frequency band ({_plural(B, 'band')}, {self._frequency_unit()}; raw "
+                 "areas, +: the first-named channel leads in that band):"]
+        strength = np.max(np.abs(S), axis=0) if B else np.zeros((n, n))
+        cand = sorted(((strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)),
+                      reverse=True)
+        shown = [c for c in cand if c[0] > 0][:self.top]
+        if not shown:
+            lines.append("  no band holds any area")
+        q = None if self.band_significance is None else \
+            np.asarray(self.band_significance.qvalues, dtype=float)
+        for _, i, j in shown:
+            b = int(np.argmax(np.abs(S[:, i, j])))
+            a, c = (i, j) if S[b, i, j] >= 0 else (j, i)
+            parts = []
+            for k in np.argsort(edges[:, 0], kind="stable"):
+                txt = f"{sp.band_names[k]} {S[k, a, c]:+.4g}"
+                if q is not None:
+                    txt += f" (q {sig3(q[k, a, c])})"
+                parts.append(txt)
+            lines.append(f"  {names[a]} vs {names[c]}: " + ", ".join(parts)
+                         + f"; all frequencies {total[a, c]:+.4g}")
+            opposite = np.any(S[:, a, c] > 0) and np.any(S[:, a, c] < 0)
+            if opposite and abs(total[a, c]) < 0.5 * float(np.max(np.abs(S[:, a, c]))):
+                lines.append(f"    opposite leads in different bands partly cancel in the "
+                             "all-frequency area")
+        if np.any(np.asarray(sp.rest) != 0):
+            lines.append("  (area at frequencies outside the bands: bands.csv and the JSON "
+                         "'outside_bands')")
+        if self.band_significance is not None:
+            bs = self.band_significance
+            k = int(np.sum(np.triu(bs.significant(), 1) if B else 0))
+            lines.append(f"  band significance ({bs.method} surrogates, {bs.n_surrogates}): "
+                         f"{k} of {B * n * (n - 1) // 2} band-pairs at 5% false discovery rate "
+                         "(adjusted over all pairs and bands)")
+        return lines
 
     # ------------------------------------------------------------------ figures
     def figures(self) -> dict:
@@ -777,6 +888,10 @@ class LeadLagReport(_Report):
                     rows=not self.times_given,
                     title=f"Rolling lead: raw areas A[i, j] in windows of {self.window} "
                           f"samples, step {self.step}")
+            if self.spectrum is not None:
+                out["bands.png"] = plotting.band_leads(
+                    self.spectrum, significance=self.band_significance, top=self.top,
+                    frequency_unit=self._frequency_unit())
         return out
 
 
@@ -821,7 +936,8 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             step=None, n_surrogates=None, surrogate_method="shift", seed=0, n_boot=None,
             confidence=0.95, top=3, progress=None, tol=None, time_name=None, units=None,
             source=None, trials=None, invert=None, detrend=False, difference=False,
-            bandpass=None, highpass=None, reference=None, verdict_surrogates=199) -> LeadLagReport:
+            bandpass=None, highpass=None, reference=None, verdict_surrogates=199,
+            bands=None) -> LeadLagReport:
     """The lead-lag report of a recording.
 
     Parameters
@@ -853,7 +969,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         the surrogates and the bootstrap stay within trials.
     top : int
         Leaders and laggers listed (for chain-like structure only: for a ring
-        there is no first channel).
+        there is no first channel; also the pairs shown by band).
     invert : sequence of str, optional
         Channels to negate first (anti-phase channels; the summary names
         candidates).
@@ -875,6 +991,12 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         it.
     progress : bool or None
         Progress indicator for the surrogates and the bootstrap.
+    bands : sequence of edges or mapping name -> (low, high), optional
+        Also split the area matrix by frequency band
+        (:func:`~wedgepath.lead_spectrum`, same closure; frequencies in
+        cycles per unit of the times, per sample without them); with
+        ``n_surrogates``, every band and pair is tested too
+        (:func:`~wedgepath.band_surrogate_test`).
     time_name, units, source
         Labels: the time column's name, units of columns, where the data came from.
 
@@ -905,6 +1027,9 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         raise ValueError(f"lead-lag needs at least 2 channels, got {n}")
     if window is None and step is not None:
         raise ValueError("step needs window")
+    if bands is not None:
+        from .signals.spectrum import _resolve_bands
+        _resolve_bands(bands)               # a bad band fails before any work
     pre = {}
     if invert:
         from .signals.filters import channel_indices
@@ -961,6 +1086,13 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         notes += [str(w.message) for w in caught if str(w.message) not in notes]
     kw["time_unit"] = None if times is None else (
         "ISO-8601" if times.kind == "datetime" else times.unit)
+    if bands is not None:
+        from .signals import lead_spectrum
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            kw["spectrum"] = lead_spectrum(values, times=times, bands=bands, closure=closure,
+                                           names=list(names), tol=tol)
+        notes += [str(w.message) for w in caught]
     if n_surrogates is not None or n_boot is not None:
         # every gap-free piece of every trial counts (the pieces between gaps are trials
         # when no trial column is given); the statistics are pooled over them
@@ -991,6 +1123,23 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         for w in caught:      # said once (the shape checks repeat what area_matrix said)
             if str(w.message) not in notes:
                 notes.append(str(w.message))
+        if n_surrogates is not None and bands is not None:
+            from .signals import band_surrogate_test
+            la, lb = _longest_gap_free(values)
+            if (la, lb) != (0, values.shape[0]):
+                notes.append(f"band significance uses the longest gap-free stretch, rows "
+                             f"{la + 1}-{lb} of {values.shape[0]}")
+            bclosure = closure if closure in ("chord", "detrend") else "chord"
+            if bclosure != closure:
+                notes.append(f"band significance tests chord-closed band areas (surrogates "
+                             f"are closed loops; closure={closure!r} is not tested)")
+            kw["band_significance_rows"] = (la + 1, lb)
+            kw["band_significance"] = band_surrogate_test(
+                values[la:lb], bands=bands, method=surrogate_method,
+                n_surrogates=n_surrogates, seed=seed,
+                times=None if times is None else _seconds(times)[la:lb],
+                names=list(names),
+                closure=bclosure, progress=progress)
         if n_boot is not None:
             kw["bootstrap"] = boot
             if order is not None:
@@ -1019,7 +1168,7 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
     n = values.shape[1]
     a, b = _longest_gap_free(values)
     part = values[a:b]
-    tpart = None if times is None else times[a:b]
+    tpart = None if times is None else _seconds(times)[a:b]
     if reference is not None and reference not in names:
         raise ValueError(f"reference: unknown channel {reference!r}; channels are {list(names)}")
     if b - a < 16:

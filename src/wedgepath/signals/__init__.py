@@ -6,7 +6,8 @@ strongly (its normalisations), in what cyclic order the channels move
 (:func:`cyclic_order`), whether it is more than chance
 (:func:`surrogate_test`, :func:`bootstrap_area`), how it changes over time
 (:func:`rolling_area_matrix`, :class:`AreaAccumulator`) and what each cycle of
-a loop contributes (:func:`cycle_areas`).  :func:`pair_table` puts a matrix,
+a loop contributes (:func:`cycle_areas`), and which frequency band carries
+each lead (:func:`lead_spectrum`).  :func:`pair_table` puts a matrix,
 its significance and its intervals into one table.  Every result is a
 labelled value with ``to_frame()`` (see ``docs/conventions.md``).  See
 ``docs/signals.md``.
@@ -22,6 +23,8 @@ from .rolling import RollingAreas, rolling_area_matrix
 from .significance import (SURROGATE_METHODS, BootstrapResult, SurrogateResult,
                            SurrogateWarning, benjamini_hochberg, bootstrap_area, decorrelation_lag,
                            surrogate_test)
+from .spectrum import (BandSignificance, LeadSpectrum, ResamplingWarning, RollingSpectrum,
+                       band_surrogate_test, lead_spectrum, rolling_lead_spectrum)
 from .streaming import AreaAccumulator
 from . import filters
 from .lags import ReferenceLags, reference_lags
@@ -45,4 +48,7 @@ __all__ = [
     # calibrated verdicts and honest reading (docs/signals.md, "reading lead-lag honestly")
     "fit_test", "FitTest", "drift_check", "DriftCheck", "DriftWarning", "reference_lags",
     "ReferenceLags", "filters",
+    # by frequency
+    "lead_spectrum", "LeadSpectrum", "band_surrogate_test", "BandSignificance",
+    "rolling_lead_spectrum", "RollingSpectrum", "ResamplingWarning",
 ]

@@ -167,7 +167,8 @@ def reference_lags(X, reference, *, times=None, names=None, n_boot=199, confiden
     if not 0.0 < level < 1.0:
         raise ValueError(f"confidence must lie strictly between 0 and 1, got {level}")
     rng = as_rng(seed)
-    Y, data, _ = _gap_free(X, times, names, min_channels=1)
+    Y, data, _ = _gap_free(X, times, names, min_channels=1,
+                             needs="reference_lags needs")
     labels = data.labels
     ref = channel_indices([reference], labels, "reference")[0]
     T, n = Y.shape

@@ -21,15 +21,15 @@ __all__ = ["surrogate_test", "SurrogateResult", "bootstrap_area", "BootstrapResu
 SURROGATE_METHODS = ("shift", "phase")
 
 
-def _gap_free(X, times, names, what="X", min_channels=2):
+def _gap_free(X, times, names, what="X", min_channels=2, needs="the decorrelation lag needs"):
     data = signal_input(X, times, names, what=what, min_channels=min_channels)
     Y = np.array(data.values, dtype=np.float64)
     bad = ~np.isfinite(Y)
     if bad.any():
         r, c = (int(v) for v in np.argwhere(bad)[0])
         kind = "NaN (a gap)" if np.isnan(Y[r, c]) else "an infinite value"
-        raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; the decorrelation "
-                         "lag needs gap-free data (split the recording at its gaps)")
+        raise ValueError(f"{what} contains {kind} at row {r}, channel {c}; {needs} gap-free "
+                         "data (split the recording at its gaps)")
     # each channel scaled by a power of two (exact): no sum, product or square of
     # areas overflows or underflows; areas are scaled back by unscale_pairs.  Scaled
     # before centring, so that the mean of values near the float64 limit cannot

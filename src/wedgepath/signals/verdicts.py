@@ -156,7 +156,8 @@ def _base(X, times, names, what="X"):
     input's description and the drift ramp ``s`` (0 to 1 in time, or in sample index)."""
     from .significance import _gap_free
 
-    Y, data, _ = _gap_free(X, times, names, what=what)
+    Y, data, _ = _gap_free(X, times, names, what=what,
+                             needs="the verdict, drift and anti-phase checks need")
     T = Y.shape[0]
     if data.times is not None:
         t = np.asarray(data.times, dtype=np.float64)
