@@ -60,7 +60,12 @@ FRAME_COLUMNS = {
     "CyclicOrder": ["rank", "channel", "position_rad", "modulus"],
     "RollingAreas": ["window", "start", "stop", "start_time", "stop_time", "i", "j",
                      "channel_i", "channel_j", "area"],
-    "CycleAreas": ["cycle", "start", "stop", "start_time", "stop_time", "value", "complete"],
+    "CycleAreas": ["cycle", "start", "stop", "start_time", "stop_time", "value", "complete",
+                   "status"],
+    "LoopCycles": ["cycle", "start", "stop", "start_time", "stop_time", "status", "complete",
+                   "energy", "x_min", "x_max", "y_min", "y_max", "y_at_x_min", "y_at_x_max",
+                   "stiffness", "strain_energy", "damping_ratio", "loss_factor"],
+    "RainflowCycles": ["range", "mean", "count", "start", "end", "close", "energy"],
     "SurrogateResult": ["i", "j", "channel_i", "channel_j", "area", "p", "q", "null_mean",
                         "null_std"],
     "BootstrapResult": ["i", "j", "channel_i", "channel_j", "area", "low", "high", "std"],
@@ -78,6 +83,8 @@ CONVENTIONS = {
     "CyclicOrder": ["closure", "normalize"],
     "RollingAreas": ["closure", "window", "step"],
     "CycleAreas": ["closure", "quantity", "reference", "level"],
+    "LoopCycles": ["kind", "quantity", "sign", "cut", "hysteresis", "level", "curve"],
+    "RainflowCycles": ["hysteresis"],
     "SurrogateResult": ["closure", "method", "n_surrogates", "seed", "min_shift"],
     "BootstrapResult": ["closure", "confidence", "block", "n_boot", "seed"],
     "Decomposition": ["closure"],
@@ -118,6 +125,8 @@ CALLS = {
     "wedgepath.benjamini_hochberg": ("array", lambda: wp.benjamini_hochberg([0.01, 0.2])),
     "wedgepath.decorrelation_lag": ("array", lambda: wp.decorrelation_lag(WAVES)),
     "wedgepath.cycle_areas": ("result", lambda: wp.cycle_areas(WAVES, "a", "b")),
+    "wedgepath.loop_cycles": ("result", lambda: wp.loop_cycles(WAVES, "a", "b")),
+    "wedgepath.rainflow": ("result", lambda: wp.rainflow(WAVES, x="a", y="b")),
     "wedgepath.pair_table": ("frame", lambda: wp.pair_table(wp.area_matrix(WAVES))),
     "wedgepath.io.read_table": ("result", lambda: wio.read_table(_csv(), time_column="t")),
     "wedgepath.io.iter_table_chunks": ("results", lambda: list(wio.iter_table_chunks(
@@ -139,6 +148,7 @@ CALLS = {
 CLASSES = {
     # the result types (built by the library; the contract is checked on them)
     **{n: "result" for n in ("AreaMatrix", "CyclicOrder", "RollingAreas", "CycleAreas",
+                             "LoopCycles", "RainflowCycles",
                              "SurrogateResult", "BootstrapResult", "Decomposition", "Lobe",
                              "RegionMoments", "Table", "Integral")},
     # values the user builds and computes with
@@ -147,7 +157,7 @@ CLASSES = {
     "AreaAccumulator": "state",            # a running state; its .result() is an AreaMatrix
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "TableError",
-                                "ChunkError")},
+                                "ChunkError", "CycleLengthWarning", "ArrangementTooLarge")},
 }
 
 
@@ -350,10 +360,12 @@ def test_results_pickle():
     import pickle
 
     for r in (wp.area_matrix(WAVES), wp.cycle_areas(WAVES, "a", "b"),
+              wp.loop_cycles(WAVES, "a", "b"), wp.rainflow(WAVES, x="a", y="b"),
               wp.cyclic_order(wp.area_matrix(WAVES)), wp.rolling_area_matrix(WAVES, 16, 8)):
         back = pickle.loads(pickle.dumps(r))
         assert type(back) is type(r) and back.names == r.names
-        assert np.array_equal(np.asarray(back), np.asarray(r)) if r._array_field else True
+        assert np.array_equal(np.asarray(back), np.asarray(r), equal_nan=True) \
+            if r._array_field else True
 
 
 # --------------------------------------------------------------------------- the pair table
