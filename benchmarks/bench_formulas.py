@@ -1,7 +1,7 @@
 """Benchmark of --weight formulas (a script, not a test): the work model against the clock.
 
 The command line bounds the work of a ``--weight`` region integral before it runs
-(``cli.WEIGHT_WORK_LIMIT`` units; a unit is meant to be about a nanosecond of numpy
+(``report.WEIGHT_WORK_LIMIT`` units; a unit is meant to be about a nanosecond of numpy
 on one core).  This script checks that model on the machine it runs on:
 
 * for each formula, the region integral over a circle (200 samples for the
@@ -9,7 +9,7 @@ on one core).  This script checks that model on the machine it runs on:
   row does enough work to be timed) with the levels the command line allows:
   evaluation points (counted), predicted units (points x
   (``formula.POINT_OVERHEAD`` + ``formula.evaluation_cost``, plus
-  ``cli.ADAPTIVE_OVERHEAD`` for adaptive integration)) and the measured time;
+  ``report.ADAPTIVE_OVERHEAD`` for adaptive integration)) and the measured time;
   the row is the measured nanoseconds per predicted unit, after the part that
   does not depend on the formula (the per-segment time of the weight ``x``,
   measured in the same run, which grows with the data only) (target: at most
@@ -37,7 +37,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from _harness import Table, best_time, machine_line  # noqa: E402
 
 import wedgepath as wp  # noqa: E402
-from wedgepath import cli  # noqa: E402
+from wedgepath import report  # noqa: E402
 from wedgepath.calculus.forms import Coefficient  # noqa: E402
 from wedgepath.formula import POINT_OVERHEAD, evaluation_cost, parse_formula  # noqa: E402
 
@@ -65,7 +65,7 @@ def main():
         s = np.linspace(0, 2 * np.pi, n + 1)
         xy = np.c_[np.cos(s), np.sin(s)]
         expr = parse_formula(text, {"x": x, "y": y})
-        levels = cli.weight_levels(expr, (x, y), n + 1)
+        levels = report.weight_levels(expr, (x, y), n + 1)
         points = [0]
         real = Coefficient.evaluate
 
@@ -84,7 +84,7 @@ def main():
             Coefficient.evaluate = real
         adaptive = Coefficient.from_sympy(expr, (x, y)).poly_degree is None
         units = points[0] * (POINT_OVERHEAD + evaluation_cost(expr)
-                             + (cli.ADAPTIVE_OVERHEAD if adaptive else 0))
+                             + (report.ADAPTIVE_OVERHEAD if adaptive else 0))
         t = best_time(integral, repeat=3)
         formula_part = max(t - (n + 1) * per_segment, 0.0)
         ok &= table.value(f"{text[:40]}, n={n} ({points[0]:.3g} pts, {units:.3g} units, "

@@ -14,7 +14,7 @@ load from other programs on the machine hits both sides alike.
 
 In-process rows break the time down (best of 3 in this process):
 ``wedgepath.io.read_table`` against ``read_csv`` + ``column_stack`` (the
-reading alone), ``leadlag_report`` against ``area_matrix`` (the non-reading
+reading alone), ``report.leadlag`` against ``area_matrix`` (the non-reading
 work of the command: cyclic order, summary), and an ISO-8601 date/time column
 against a numeric one.
 
@@ -96,7 +96,7 @@ def main(quick=False, repeat=3):
 
         import wedgepath as wp
         import wedgepath.io as wio
-        from wedgepath.cli import leadlag_report
+        from wedgepath import report
 
         def arrow_read():
             tab = pcsv.read_csv(path)
@@ -110,8 +110,8 @@ def main(quick=False, repeat=3):
         assert np.array_equal(X, X_ref)
         names = [f"c{k:02d}" for k in range(n)]
         t_area = best_time(lambda: wp.area_matrix(X), repeat=3)
-        t_rep = best_time(lambda: leadlag_report(X, None, names, progress=False), repeat=3)
-        table.info("  in process: area_matrix / leadlag_report (non-reading work)",
+        t_rep = best_time(lambda: report.leadlag(X, names=names, progress=False), repeat=3)
+        table.info("  in process: area_matrix / report.leadlag (non-reading work)",
                    f"{t_area:.2f} s / {t_rep:.2f} s ({t_rep / t_area:.2f}x)")
 
         # an ISO-8601 time column: 2022-01-01T00:00:00.000 + k ms

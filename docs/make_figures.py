@@ -1,8 +1,13 @@
-"""Draw the convention figures of the user guide into docs/figures/.
+"""Draw the figures of the user guide and of docs/cli.md into docs/figures/.
 
-Run: ``python docs/make_figures.py`` (needs matplotlib).  The figures are
-committed; tests/test_docs.py draws them again and checks what they show (panels,
-titles, the areas stated against the curves drawn) and that the committed files match.
+Run: ``python docs/make_figures.py`` (needs matplotlib).  The convention figures
+are drawn here; the report figures (``leadlag_*.png``, ``loop_*.png``) are the
+ones ``wedgepath demo --out DIR`` writes, made by the same calls
+(:mod:`wedgepath.report` on the bundled demo data), plus the loop report of a
+figure-eight, where the faces tell something.  The figures are committed;
+tests/test_docs.py draws them again and checks what they show (panels, titles, the
+areas stated against the curves drawn, the demo's cyclic order) and that the committed
+files match.
 """
 
 import sys
@@ -125,14 +130,56 @@ def gaps(path):
     return fig
 
 
-def main(out=OUT):
-    """Draw every figure into ``out``; returns ``{name: Figure}`` (closed, for inspection)."""
+def report_figures(out):
+    """The demo's report figures, and the loop report of a drifting figure-eight.
+
+    Returns ``{name: Figure}`` (closed, for inspection).
+    """
+    import math
+
+    from wedgepath import demo, plotting, report
+
+    out = Path(out)
+    figs = {}
+
+    def save(name, fig):
+        (out / f"{name}.png").write_bytes(plotting.png_bytes(fig))
+        figs[name] = fig
+
+    ring = demo.bundled("ring_sensors.csv")
+    rep = report.leadlag(ring, **demo.LEADLAG_OPTIONS, progress=False, time_name="time_s",
+                         units={"time_s": "s"})
+    for name, fig in rep.figures().items():
+        save("leadlag_" + name.removesuffix(".png"), fig)
+    load = demo.bundled("load_test.csv")
+    lrep = report.loop(load, progress=False, units={"strain": "mm/mm", "stress_MPa": "MPa"})
+    truth = math.pi * demo.LOAD["eta"] * 2 * math.pi * demo.LOAD["f"] * demo.LOAD["e0"] ** 2
+    loop_figs = lrep.figures(reference=truth, reference_label="known value")
+    save("loop_load_test", loop_figs["loop.png"])
+    save("loop_cycles", loop_figs["cycles.png"])
+    # a figure-eight with a drift, closed by detrend: the faces are shown, on their own axes
+    t = np.linspace(0, 2 * np.pi, 801)
+    xy = np.c_[np.sin(t), 0.8 * np.sin(2 * t) + np.linspace(0, 0.6, 801)]
+    erep = report.loop(xy, names=["u", "v"], closure="detrend", progress=False)
+    save("loop_figure_eight", erep.figures()["loop.png"])
+    return figs
+
+
+def main(out=OUT, reports=True):
+    """Draw every figure into ``out``; returns ``{name: Figure}`` (closed, for inspection).
+
+    ``reports=False``: the convention figures only.
+    """
     out = Path(out)
     out.mkdir(parents=True, exist_ok=True)
     figs = {}
     for fn in (orientation, closure, curve_model, gaps):
         figs[fn.__name__] = fn(out / f"{fn.__name__}.png")
         print("wrote", out / f"{fn.__name__}.png")
+    if reports:
+        for name, fig in report_figures(out).items():
+            figs[name] = fig
+            print("wrote", out / f"{name}.png")
     return figs
 
 

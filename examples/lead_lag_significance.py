@@ -77,17 +77,18 @@ print(f"A[station_1, station_2] = {boot.estimate[0, 1]:.2f}, 95% block-bootstrap
 assert boot.low[0, 1] < boot.estimate[0, 1] < boot.high[0, 1]
 
 # %%
-# The lead matrix as a picture
+# Who leads whom, as a picture
 # ----------------------------
-# Rows and columns in cyclic order: orange where the row leads the column,
-# teal where it lags.
+# One row per pair, written leader -> lagger, the strongest first: the bar's
+# length is the area, its fill the verdict of the surrogate test (solid:
+# significant at 5% false discovery rate), the q-values in the right-hand column.
 
 if have_matplotlib():
     import matplotlib.pyplot as plt
     from wedgepath import plotting
-    fig, ax = plt.subplots(figsize=(7, 6), dpi=100)
-    full = wp.cyclic_order(A.values)
-    plotting.lead_heatmap(A.values, names, full.order, ax=ax, title="Canal stations: lead matrix")
+    fig, ax = plt.subplots(figsize=(7.5, 6), dpi=100)
+    plotting.pair_chart(A, significance=sig, top=15, ax=ax,
+                        title="Canal stations: who leads whom")
     fig.tight_layout()
     fig.savefig(figure_path("lead_lag_significance.png"))
     print(f"figure: {figure_path('lead_lag_significance.png').name}")

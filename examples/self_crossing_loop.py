@@ -76,8 +76,8 @@ if have_matplotlib():
     import matplotlib.pyplot as plt
     from wedgepath import plotting
     fig, axes = plt.subplots(1, 2, figsize=(10, 4.5), dpi=100)
-    plotting.loop_faces(d1, eight, ("x", "y"), ax=axes[0], title="figure-eight")
-    plotting.loop_faces(d2, limacon, ("x", "y"), ax=axes[1], title="limaçon")
+    plotting.loop_faces(d1, ax=axes[0], title="figure-eight")
+    plotting.loop_faces(d2, ax=axes[1], title="limaçon")
     fig.tight_layout()
     fig.savefig(figure_path("self_crossing_loop.png"))
     print(f"figure: {figure_path('self_crossing_loop.png').name}")

@@ -86,16 +86,18 @@ print(f"integral of exp(-|q|^2) dx0^dx1 over the cone: {float(r):.10f} +- {r.err
 # %%
 # The stride and its lead matrix
 # ------------------------------
-# Left: the loop projected on the plane of the first two joints.  Right: the
-# oriented areas of every pair of joints, rows and columns in cyclic order.
+# Left: the loop projected on the plane of the first two joints, with its
+# direction.  Right: each joint's position in the stride's cycle (radians, one
+# row per joint in cyclic order).
 
 if have_matplotlib():
     import matplotlib.pyplot as plt
     from wedgepath import plotting
     fig, axes = plt.subplots(1, 2, figsize=(11, 4.5), dpi=100)
-    plotting.loop_path(q[:, :2], ("joint_0", "joint_1"), ax=axes[0],
+    plotting.loop_path(q[:, :2], names=("joint_0", "joint_1"), ax=axes[0],
                        title="one stride, joints 0 and 1")
-    plotting.lead_heatmap(A, path.names, order.order, ax=axes[1], title="area matrix of the joints")
+    plotting.cycle_positions(order, names=path.names, ax=axes[1],
+                             title="position of each joint in the cycle")
     fig.tight_layout()
     fig.savefig(figure_path("stokes_in_rn.png"))
     print(f"figure: {figure_path('stokes_in_rn.png').name}")

@@ -73,12 +73,10 @@ print(f"rolling windows: {len(roll)}; A[0, 1] per window ranges "
 if have_matplotlib():
     import matplotlib.pyplot as plt
     from wedgepath import plotting
-    dt = 0.01  # seconds between samples
-    fig, ax = plt.subplots(figsize=(8, 3.8), dpi=100)
-    plotting.rolling_lead(roll.start * dt, roll.stop * dt, roll.areas,
-                          [f"acc_{k}" for k in range(12)], ax=ax,
-                          title="Rolling lead of the strongest pairs (200 s windows)",
-                          xlabel="time at window centre [s]")
-    fig.tight_layout()
+    # small multiples of the four strongest pairs, on one scale
+    fig = plotting.rolling_pairs(roll, names=[f"acc_{k}" for k in range(12)], top=4,
+                                 title="Rolling lead of the strongest pairs (windows of "
+                                       "20,000 samples)",
+                                 xlabel="window centre (sample number)")
     fig.savefig(figure_path("streaming.png"))
     print(f"figure: {figure_path('streaming.png').name}")

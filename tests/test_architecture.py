@@ -26,11 +26,7 @@ PACKAGE = "wedgepath"
 #: entry is the exact set of modules of one strongly connected component that is
 #: tolerated for now; any other cycle -- including a larger one through these modules --
 #: fails the test.
-ALLOWED_CYCLES = [
-    # cli.py builds the demo's reports and demo.py calls back into cli.py's report
-    # functions; the report layer of issue 15 item 2 removes this cycle
-    frozenset({"wedgepath.cli", "wedgepath.demo"}),
-]
+ALLOWED_CYCLES = []
 
 
 # --------------------------------------------------------------------------- graph

@@ -47,7 +47,7 @@ class TestLeadlag:
                                  "--no-figures"], capsys)
         assert code == 0, err
         rep = json.loads((out / "result.json").read_text())
-        assert rep["schema"] == "wedgepath.leadlag/2"
+        assert rep["schema"] == "wedgepath.leadlag/3"
         A = wp.area_matrix(X, times=t)
         np.testing.assert_allclose(rep["area_matrix"], A, rtol=1e-12, atol=1e-12)
         co = wp.cyclic_order(A)
@@ -96,7 +96,7 @@ class TestLeadlag:
         out = tmp_path / "figs"
         code, _, err = run(["leadlag", f, "--time", "t", "--window", 100, "--out", out], capsys)
         assert code == 0, err
-        for name in ("lead_matrix.png", "phases.png", "rolling_lead.png"):
+        for name in ("positions.png", "pairs.png", "rolling.png"):
             assert (out / name).read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
 
 
@@ -202,7 +202,7 @@ def test_python_dash_m_and_demo(tmp_path):
     assert "cyclic order recovered" in proc.stdout
     assert "all checks passed" in proc.stdout
     rep = json.loads((out / "loop.json").read_text())
-    assert rep["schema"] == "wedgepath.loop/2"
+    assert rep["schema"] == "wedgepath.loop/3"
 
 
 def test_bundled_demo_data_regenerates_identically(tmp_path):
@@ -229,10 +229,10 @@ class TestOutputFolder:
         # nothing is removed: the earlier run's tables stay, and the manifest says which
         # files belong to this run (issue 13: --force once deleted files it did not write)
         assert sorted(p.name for p in out.iterdir()) == [
-            "area_matrix.csv", "manifest.json", "notes.txt", "pvalues.csv", "qvalues.csv",
-            "result.json", "rolling.csv"]
+            "area_matrix.csv", "manifest.json", "notes.txt", "pairs.csv", "pvalues.csv",
+            "qvalues.csv", "result.json", "rolling.csv"]
         listed = [e["name"] for e in json.loads((out / "manifest.json").read_text())["files"]]
-        assert listed == ["result.json", "area_matrix.csv"]
+        assert listed == ["result.json", "area_matrix.csv", "pairs.csv"]
 
     def test_files_get_the_mode_of_an_ordinary_new_file(self, three_signals, tmp_path, capsys):
         import os
@@ -315,10 +315,10 @@ class TestMessagesSpeakTheCommandLine:
         assert rep["cyclic_order"] is None and rep["leaders"] == []
         assert any("the area matrix is zero" in n for n in rep["notes"])
         assert "no channel leads another" in stdout
-        expect = {"result.json", "area_matrix.csv", "manifest.json"}
+        expect = {"result.json", "area_matrix.csv", "pairs.csv", "manifest.json"}
         try:
             import matplotlib  # noqa: F401
-            expect |= {"lead_matrix.png", "phases.png"}
+            expect |= {"positions.png", "pairs.png"}
         except ImportError:
             pass
         assert {p.name for p in out.iterdir()} == expect
@@ -426,3 +426,74 @@ class TestMessagesSpeakTheCommandLine:
             assert code in (0, 2), (argv, err)
             for word in api:
                 assert word not in err, (argv, err)
+
+
+class TestReportText:
+    """The command line prints and writes the report (issue 15, items 2 and 5)."""
+
+    @pytest.mark.parametrize("command, files", [
+        ("leadlag", ["result.json", "area_matrix.csv", "pairs.csv", "rolling.csv",
+                     "pvalues.csv", "qvalues.csv", "positions.png", "pairs.png", "rolling.png",
+                     "manifest.json"]),
+        ("loop", ["result.json", "cycles.csv", "loop.png", "cycles.png", "manifest.json"]),
+        ("demo", None),
+    ])
+    def test_help_names_the_files_really_written(self, command, files, capsys):
+        from wedgepath import demo
+        assert main([command, "--help"]) == 0
+        text = " ".join(capsys.readouterr().out.split())
+        files = files or demo.planned_files(True) + ["manifest.json"]
+        for name in files:
+            assert name in text, name
+        if command == "demo":
+            assert "result.json" not in text and "leadlag.json" in text
+
+    def test_help_files_match_what_a_run_writes(self, three_signals, tmp_path, capsys):
+        pytest.importorskip("matplotlib")
+        f, _, _ = three_signals
+        out = tmp_path / "o"
+        code, _, err = run(["leadlag", f, "--time", "t", "--window", 100, "--surrogates", 9,
+                            "--out", out, "--quiet"], capsys)
+        assert code == 0, err
+        main(["leadlag", "--help"])
+        text = capsys.readouterr().out
+        for p in out.iterdir():
+            assert p.name in text, p.name
+
+    def test_hilbert_matrix_columns_are_separated(self, tmp_path, capsys):
+        s = np.linspace(0, 20 * np.pi, 2000)
+        X = np.c_[np.sin(s), np.sin(s - 0.5), 1e-4 * np.sin(s - 1.0) + 0.3 * np.cos(3 * s)]
+        f = write_csv(tmp_path / "h.csv", ["a", "b", "c"], X)
+        code, out, err = run(["leadlag", f, "--normalize", "hilbert", "--quiet"], capsys)
+        assert code == 0, err
+        lines = out.splitlines()
+        k = [i for i, line in enumerate(lines) if "lead strength (hilbert)" in line][0]
+        rows = lines[k + 2:k + 5]
+        assert [r.split()[0] for r in rows] == ["a", "b", "c"]
+        for r in rows:
+            assert len(r.split()) == 4 and all(float(v) == float(v) for v in r.split()[1:])
+
+    def test_bootstrap_intervals_of_positions(self, three_signals, capsys):
+        f, _, _ = three_signals
+        code, out, err = run(["leadlag", f, "--time", "t", "--bootstrap", 49, "--json",
+                              "--quiet"], capsys)
+        assert code == 0, err
+        co = json.loads(out)["cyclic_order"]
+        assert co["confidence"] == 0.95 and set(co["positions_low_rad"]) == {"a", "b", "c"}
+        code, out, err = run(["leadlag", f, "--bootstrap", 49, "--stream"], capsys)
+        assert code == 2 and "drop --bootstrap" in err
+        code, out, err = run(["leadlag", f, "--bootstrap", 49, "--confidence", "1.5"], capsys)
+        assert code == 2 and "between 0 and 1" in err
+
+    def test_notes_and_messages_name_flags(self, tmp_path, capsys):
+        t = np.linspace(0, 8 * np.pi, 400)
+        f = write_csv(tmp_path / "c.csv", ["x", "y", "z"], np.c_[np.cos(t), np.sin(t),
+                                                                   np.ones(400)])
+        code, out, err = run(["loop", f, "--x", "x", "--y", "y", "--cycles-by", "z", "--json",
+                              "--quiet"], capsys)
+        assert code == 0, err
+        notes = json.loads(out)["notes"]
+        assert any("--cycles-by" in n for n in notes) and not any("cycles_by" in n for n in notes)
+        code, out, err = run(["loop", f, "--x", "x", "--y", "y", "--cycles-by", "z",
+                              "--quiet"], capsys)
+        assert "--cycles-by" in out and "cycles_by" not in out

@@ -167,11 +167,11 @@ class TestForceReplacesOnlyThisRunsFiles:
         assert code == 0, err
         names = {p.name for p in out.iterdir()}
         # rolling.csv of the earlier run stays (not listed in the new manifest); loop.png too
-        assert {"rolling.csv", "loop.png", "area_matrix.csv", "result.json",
+        assert {"rolling.csv", "loop.png", "area_matrix.csv", "pairs.csv", "result.json",
                 "manifest.json"} == names
         assert (out / "loop.png").read_bytes() == b"the user's own picture"
         listed = {e["name"] for e in json.loads((out / "manifest.json").read_text())["files"]}
-        assert listed == {"area_matrix.csv", "result.json"}
+        assert listed == {"area_matrix.csv", "pairs.csv", "result.json"}
 
     def test_demo_plan_leaves_unplanned_files_alone(self):
         from wedgepath import demo
@@ -182,11 +182,11 @@ class TestForceReplacesOnlyThisRunsFiles:
 # =========================================================================== item 4
 class TestCheckBeforeComputing:
     @pytest.mark.parametrize("argv, taken", [
-        (["leadlag", "{f}", "--window", "50"], "rolling_lead.png"),
+        (["leadlag", "{f}", "--window", "50"], "rolling.png"),
         (["leadlag", "{f}", "--surrogates", "5"], "qvalues.csv"),
         (["leadlag", "{f}"], "manifest.json"),
         (["loop", "{f}", "--x", "a", "--y", "b"], "cycles.png"),
-        (["leadlag", "{f}", "--stream"], "phases.png"),
+        (["leadlag", "{f}", "--stream"], "positions.png"),
     ])
     def test_taken_name_fails_before_any_work(self, argv, taken, tmp_path, monkeypatch):
         pytest.importorskip("matplotlib")
@@ -269,7 +269,8 @@ class TestCommit:
         assert code == 0, err
         man = json.loads((out / "manifest.json").read_text())
         assert man["schema"] == "wedgepath.manifest/1" and man["command"] == "leadlag"
-        assert {e["name"] for e in man["files"]} == {"result.json", "area_matrix.csv"}
+        assert {e["name"] for e in man["files"]} == {"result.json", "area_matrix.csv",
+                                                     "pairs.csv"}
         assert _manifest_ok(out)
 
     def test_failed_write_leaves_no_temporaries(self, tmp_path, monkeypatch):
@@ -352,7 +353,8 @@ class TestFigureLabels:
         out2 = tmp_path / "o2"
         code, _, err = run(["leadlag", f, "--window", "100", "--out", out2, "--quiet"])
         assert code == 0, err
-        assert (out2 / "rolling_lead.png").read_bytes()[:4] == b"\x89PNG"
+        for name in ("rolling.png", "positions.png", "pairs.png"):
+            assert (out2 / name).read_bytes()[:4] == b"\x89PNG"
 
     def test_labels_are_drawn_literally(self):
         pytest.importorskip("matplotlib")

@@ -124,7 +124,7 @@ def drawn(tmp_path_factory):
     """The guide's figures drawn afresh: ``({name: Figure}, folder of the PNG files)``."""
     pytest.importorskip("matplotlib")
     folder = tmp_path_factory.mktemp("figures")
-    return _load_make_figures().main(folder), folder
+    return _load_make_figures().main(folder, reports=False), folder
 
 
 def test_convention_figures_draw_what_they_say(drawn):
@@ -186,6 +186,67 @@ def test_committed_figures_match_the_script(drawn):
         assert (h1, w1) == (h2, w2), name
         # fonts may render a pixel differently between machines; the picture may not change
         assert abs(s1 - s2) < 0.01 and abs(d1 - d2) < 0.01, name
+
+
+REPORT_FIGURES = {  # name: panels with data (colour bars and empty grid cells aside)
+    "leadlag_positions": 1,
+    "leadlag_pairs": 1,
+    "leadlag_rolling": 6,
+    "loop_load_test": 2,
+    "loop_cycles": 1,
+    "loop_figure_eight": 2,
+}
+
+
+@pytest.fixture(scope="module")
+def drawn_reports(tmp_path_factory):
+    """The report figures of docs/cli.md and the guide drawn afresh (about 10 s)."""
+    pytest.importorskip("matplotlib")
+    folder = tmp_path_factory.mktemp("report_figures")
+    return _load_make_figures().report_figures(folder), folder
+
+
+@pytest.mark.slow
+def test_report_figures_show_the_demo(drawn_reports):
+    from wedgepath.demo import RING_ORDER
+    figs, folder = drawn_reports
+    assert sorted(figs) == sorted(REPORT_FIGURES)
+    for name, n_axes in REPORT_FIGURES.items():
+        panels = [ax for ax in figs[name].axes if ax.get_title(loc="left")]
+        assert len(panels) == n_axes, name
+        (h, w), spread, dark = _image_stats(folder / f"{name}.png")
+        assert spread > 0.05 and 0.002 < dark < 0.5, name
+    # the positions chart lists the taps in the recovered order: a rotation of the true one
+    rows = [t.get_text() for t in figs["leadlag_positions"].axes[0].get_yticklabels()]
+    k = RING_ORDER.index(rows[0])
+    assert rows == RING_ORDER[k:] + RING_ORDER[:k]
+    # the loop figure of the load test: clockwise, cycles shaded, the known value drawn
+    left, right = figs["loop_load_test"].axes[:2]
+    assert "clockwise" in left.get_title(loc="left")
+    assert any("known value" in t.get_text() for t in right.get_legend().get_texts())
+    # the figure-eight's faces are drawn on their own axes, which say they are detrended
+    titles = [ax.get_title(loc="left") for ax in figs["loop_figure_eight"].axes]
+    assert any("Faces by winding number" in t and "detrend" in t for t in titles)
+
+
+@pytest.mark.slow
+def test_committed_report_figures_match_the_script(drawn_reports):
+    _, folder = drawn_reports
+    for name in REPORT_FIGURES:
+        (h1, w1), s1, d1 = _image_stats(DOCS / "figures" / f"{name}.png")
+        (h2, w2), s2, d2 = _image_stats(folder / f"{name}.png")
+        assert (h1, w1) == (h2, w2), name
+        assert abs(s1 - s2) < 0.01 and abs(d1 - d2) < 0.01, name
+
+
+@pytest.mark.parametrize("page, figures", [
+    ("cli.md", list(REPORT_FIGURES)),
+    ("guide.md", ["leadlag_positions", "leadlag_pairs", "loop_load_test"]),
+])
+def test_pages_show_the_report_figures(page, figures):
+    text = (DOCS / page).read_text()
+    for name in figures:
+        assert f"(figures/{name}.png)" in text, (page, name)
 
 
 # ---------------------------------------------------------------------------------------

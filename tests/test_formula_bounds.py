@@ -21,7 +21,7 @@ from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 import wedgepath as wp
-from wedgepath import cli
+from wedgepath import cli, report
 from wedgepath.calculus.forms import Coefficient
 from wedgepath.formula import (POINT_OVERHEAD, degree_bound, evaluation_cost, float_value,
                                parse_formula)
@@ -194,7 +194,7 @@ def test_exact_weight_within_the_limit(tmp_path, monkeypatch):
     assert code == 0, err
     assert '"exact": true' in out
     expr = ((x + y + 1) ** 64) ** 4
-    assert count.points * (POINT_OVERHEAD + evaluation_cost(expr)) <= cli.WEIGHT_WORK_LIMIT
+    assert count.points * (POINT_OVERHEAD + evaluation_cost(expr)) <= report.WEIGHT_WORK_LIMIT
 
 
 @pytest.mark.parametrize("text", ["sin(x*10**64)", "abs(x)", "sqrt(abs(x*y))"])
@@ -203,8 +203,8 @@ def test_adaptive_refinement_stays_within_the_limit(text, tmp_path, monkeypatch)
     count = Counter(monkeypatch)
     code, out, err = run(["loop", f, "--x", "x", "--y", "y", "--weight", text, "--quiet"])
     assert code == 0, err
-    cost = POINT_OVERHEAD + evaluation_cost(parse_formula(text, XY)) + cli.ADAPTIVE_OVERHEAD
-    assert count.points * cost <= cli.WEIGHT_WORK_LIMIT
+    cost = POINT_OVERHEAD + evaluation_cost(parse_formula(text, XY)) + report.ADAPTIVE_OVERHEAD
+    assert count.points * cost <= report.WEIGHT_WORK_LIMIT
     # a capped refinement that misses the tolerance says so (error estimate and note)
     if "not reached" in out:
         assert "capped" in out
@@ -213,14 +213,14 @@ def test_adaptive_refinement_stays_within_the_limit(text, tmp_path, monkeypatch)
 def test_weight_levels_bound():
     # L levels cost at most (2**(L+1) - 1) first passes: the chosen L is the largest within
     expr = sp.sin(x * y)
-    cost = POINT_OVERHEAD + evaluation_cost(expr) + cli.ADAPTIVE_OVERHEAD
+    cost = POINT_OVERHEAD + evaluation_cost(expr) + report.ADAPTIVE_OVERHEAD
     for segments in (10, 1000, 10 ** 5):
-        L = cli.weight_levels(expr, (x, y), segments)
+        L = report.weight_levels(expr, (x, y), segments)
         first = segments * 41 * cost
-        assert L == 30 or first * (2 ** (L + 2) - 1) > cli.WEIGHT_WORK_LIMIT
-        assert first * (2 ** (L + 1) - 1) <= cli.WEIGHT_WORK_LIMIT
-    with pytest.raises(cli.CLIError, match="one pass of adaptive integration"):
-        cli.weight_levels(expr, (x, y), 10 ** 8)
+        assert L == 30 or first * (2 ** (L + 2) - 1) > report.WEIGHT_WORK_LIMIT
+        assert first * (2 ** (L + 1) - 1) <= report.WEIGHT_WORK_LIMIT
+    with pytest.raises(ValueError, match="^weight: one pass of adaptive integration"):
+        report.weight_levels(expr, (x, y), 10 ** 8)
 
 
 @pytest.mark.parametrize("text, words", [
@@ -287,8 +287,8 @@ def test_nasty_formulas_are_bounded(text):
     try:
         with hang_alarm(30):
             try:
-                rep = cli.loop_report(xy, None, ["x", "y"], weight=text)
-            except (cli.CLIError, ValueError) as exc:
+                rep = report.loop(xy, names=["x", "y"], weight=text)
+            except ValueError as exc:
                 msg = str(exc)
                 assert msg.strip() and "\n" not in msg.strip(), msg
                 return
@@ -296,6 +296,6 @@ def test_nasty_formulas_are_bounded(text):
         Coefficient.evaluate = real
     expr = parse_formula(text, XY)
     adaptive = Coefficient.from_sympy(expr, (x, y)).poly_degree is None
-    cost = POINT_OVERHEAD + evaluation_cost(expr) + (cli.ADAPTIVE_OVERHEAD if adaptive else 0)
-    assert points[0] * cost <= cli.WEIGHT_WORK_LIMIT
-    assert np.isfinite(rep["weighted_integral"]["value"])
+    cost = POINT_OVERHEAD + evaluation_cost(expr) + (report.ADAPTIVE_OVERHEAD if adaptive else 0)
+    assert points[0] * cost <= report.WEIGHT_WORK_LIMIT
+    assert np.isfinite(rep.to_dict()["weighted_integral"]["value"])

@@ -294,7 +294,7 @@ def build(sc, root):
         with open(os.path.join(out_dir, "loop.png"), "wb") as fh:
             fh.write(b"the user's own picture")
     elif where == "taken_output":
-        for name in ("result.json", "lead_matrix.png", "cycles.csv", "manifest.json"):
+        for name in ("result.json", "positions.png", "cycles.csv", "manifest.json"):
             with open(os.path.join(out_dir, name), "w") as fh:
                 fh.write("not written by wedgepath")
     elif where == "dangling_link":

@@ -1154,37 +1154,32 @@ row("wp.io.stream_area_matrix(source)", "file", "a non-UTF-8 byte mid-file",
 
 # =========================================================================== plotting
 # (the plotting helpers check their input before matplotlib is touched)
-row("wp.plotting.lead_heatmap(A, names)", "ndim", "a 2x3 matrix",
-    lambda: plotting.lead_heatmap(np.zeros((2, 3)), ["a", "b"]), ValueError,
-    "non-empty square matrix")
-row("wp.plotting.lead_heatmap(A, names)", "length", "1 name for 2 channels",
-    lambda: plotting.lead_heatmap(np.zeros((2, 2)), ["a"]), ValueError, "names has 1 entries")
-row("wp.plotting.lead_heatmap(A, names)", "option", "order that is not a permutation",
-    lambda: plotting.lead_heatmap(np.zeros((2, 2)), ["a", "b"], order=[0, 0]), ValueError,
-    "permutation")
-row("wp.plotting.phase_circle(phases, names)", "length", "3 moduli for 2 phases",
-    lambda: plotting.phase_circle([0, 1], ["a", "b"], moduli=[1, 1, 1]), ValueError,
-    "moduli has 3 entries")
-row("wp.plotting.phase_circle(phases, names)", "text", "text phases",
-    lambda: plotting.phase_circle(["a"], ["a"]), TypeError, "phases holds text")
+row("wp.plotting.cycle_positions(order)", "text", "an array instead of a CyclicOrder",
+    lambda: plotting.cycle_positions(np.zeros(3)), TypeError, "needs a CyclicOrder")
+row("wp.plotting.cycle_positions(order)", "length", "intervals of 1 entry for 3 channels",
+    lambda: plotting.cycle_positions(wp.cyclic_order(np.array([[0, 1, -1], [-1, 0, 1],
+                                                               [1, -1, 0.0]])),
+                                     low=[0.0], high=[1.0]),
+    ValueError, "low and high need 3 entries")
+row("wp.plotting.pair_chart(areas)", "ndim", "a 2x3 matrix",
+    lambda: plotting.pair_chart(np.zeros((2, 3))), ValueError, "must be a square matrix")
+row("wp.plotting.pair_chart(areas)", "length", "1 name for 2 channels",
+    lambda: plotting.pair_chart(np.zeros((2, 2)), names=["a"]), ValueError,
+    "names has 1 entries")
+row("wp.plotting.rolling_pairs(rolling)", "text", "an array instead of a RollingAreas",
+    lambda: plotting.rolling_pairs(np.zeros((2, 2, 2))), TypeError, "needs a RollingAreas")
 row("wp.plotting.loop_faces(decomposition)", "text", "an array instead of a Decomposition",
     lambda: plotting.loop_faces(np.zeros((3, 2))), TypeError, "needs a Decomposition")
-row("wp.plotting.rolling_lead(start, end, areas, names)", "ndim", "areas of shape (2, 2)",
-    lambda: plotting.rolling_lead([0], [1], np.zeros((2, 2)), ["a", "b"]), ValueError,
-    "areas must be 3-dimensional")
-row("wp.plotting.rolling_lead(start, end, areas, names)", "length", "1 start time for 2 windows",
-    lambda: plotting.rolling_lead([0], [1, 2], np.zeros((2, 2, 2)), ["a", "b"]), ValueError,
-    "one per window")
-row("wp.plotting.loop_path(xy)", "ndim", "xy of shape (4, 3)",
+row("wp.plotting.loop_path(curve)", "ndim", "xy of shape (4, 3)",
     lambda: plotting.loop_path(np.zeros((4, 3))), ValueError, "xy must have shape (T, 2)")
-row("wp.plotting.loop_path(xy)", "single", "one sample",
+row("wp.plotting.loop_path(curve)", "single", "one sample",
     lambda: plotting.loop_path(np.zeros((1, 2))), ValueError, "at least 2 samples")
-row("wp.plotting.loop_path(xy)", "text", "text", lambda: plotting.loop_path([["a", "b"]]),
+row("wp.plotting.loop_path(curve)", "text", "text", lambda: plotting.loop_path([["a", "b"]]),
     TypeError, "xy holds text")
-row("wp.plotting.cycle_bars(values)", "ndim", "a 2-D array",
-    lambda: plotting.cycle_bars(np.zeros((2, 2))), ValueError, "values must be 1-dimensional")
-row("wp.plotting.cycle_bars(values)", "text", "text", lambda: plotting.cycle_bars(["a"]), TypeError,
-    "values holds text")
+row("wp.plotting.cycle_values(cycles)", "ndim", "a 2-D array",
+    lambda: plotting.cycle_values(np.zeros((2, 2))), ValueError, "values must be 1-dimensional")
+row("wp.plotting.cycle_values(cycles)", "text", "text", lambda: plotting.cycle_values(["a"]),
+    TypeError, "values holds text")
 
 # =========================================================================== command line
 CLI_OUT = "out"
@@ -1469,8 +1464,8 @@ def public_calls():
                                      "stream_area_matrix")}
     names |= {f"wp.symbolic.{n}" for n in symbolic.__all__}
     names |= {"wp.formula.parse_formula", "wp.calculus.as_path", "wp.calculus.grundmann_moller"}
-    names |= {f"wp.plotting.{n}" for n in ("lead_heatmap", "phase_circle", "loop_faces",
-                                           "loop_path", "rolling_lead", "cycle_bars")}
+    names |= {f"wp.plotting.{n}" for n in ("cycle_positions", "pair_chart", "rolling_pairs",
+                                           "loop_faces", "loop_path", "cycle_values")}
     names |= {"wedgepath leadlag", "wedgepath loop", "wedgepath demo"}
     if wdask is not None:
         names |= {"wp.dask.area_matrix", "wp.dask.area_matrices", "wp.dask.file_area_matrices"}

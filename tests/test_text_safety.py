@@ -123,13 +123,13 @@ AUDITED = {
         "region_integral's formula text goes through the safe parser only",
     ("planar/green.py", "_from_text", "sympy.symbols"):
         "a literal ('x y'), never user text",
-    ("cli.py", "parse_weight", "parse_formula"):
-        "the --weight text goes through the safe parser",
+    ("report.py", "parse_weight", "parse_formula"):
+        "the weight text (the command line's --weight) goes through the safe parser",
     ("cli.py", "_cmd_loop", "sp.symbols"):
         "constant names 'x y'",
     ("planar/arrangement.py", "count_crossings", "tree.query"):
         "a shapely STRtree query (geometry in, indices out), not pandas' query",
-    ("cli.py", "loop_report", "sp.symbols"):
+    ("report.py", "loop", "sp.symbols"):
         "constant names 'x y'",
     ("symbolic.py", "_simplex_setup", "sympy.symbols"):
         "names made from an int (u0:k), dummies",

@@ -32,7 +32,7 @@ import re
 
 #: modules whose ``__all__`` the reference must cover
 PUBLIC_MODULES = ("wedgepath", "wedgepath.io", "wedgepath.symbolic", "wedgepath.formula",
-                  "wedgepath.plotting", "wedgepath.dask")
+                  "wedgepath.report", "wedgepath.plotting", "wedgepath.dask")
 
 
 #: one-line descriptions of public constants that cannot carry a docstring of their own

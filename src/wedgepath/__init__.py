@@ -24,9 +24,10 @@ __all__ = ["Path", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm", "TwoForm
 
 
 def __getattr__(name):
-    # the sympy-backed modules load on first use (``wp.symbolic``, ``wp.formula``), so that
-    # ``import wedgepath`` does not import sympy
-    if name in ("symbolic", "formula"):
+    # modules loaded on first use, so that ``import wedgepath`` imports neither sympy
+    # (``wp.symbolic``, ``wp.formula``) nor matplotlib and pandas (``wp.plotting``,
+    # ``wp.report``)
+    if name in ("symbolic", "formula", "plotting", "report", "io"):
         import importlib
 
         return importlib.import_module(f"{__name__}.{name}")

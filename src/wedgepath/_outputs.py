@@ -44,8 +44,8 @@ import threading
 
 import numpy as np
 
-__all__ = ["OutputSet", "OutputError", "Interrupted", "csv_text", "safe_cell", "MANIFEST",
-           "MANIFEST_SCHEMA"]
+__all__ = ["OutputSet", "OutputError", "Interrupted", "csv_text", "safe_cell", "frame_csv",
+           "json_text", "encode", "MANIFEST", "MANIFEST_SCHEMA"]
 
 MANIFEST = "manifest.json"
 MANIFEST_SCHEMA = "wedgepath.manifest/1"
@@ -101,6 +101,48 @@ def csv_text(rows) -> str:
     for r in rows:
         w.writerow([safe_cell(c) for c in r])
     return buf.getvalue()
+
+
+def frame_csv(frame) -> str:
+    """A pandas DataFrame as CSV text by :func:`csv_text` (a named index is the first column).
+
+    Booleans are written ``true``/``false``; numbers as :func:`safe_cell` writes them.
+    """
+    cols = list(frame.columns)
+    named = frame.index.name is not None
+    head = ([frame.index.name] if named else []) + [str(c) for c in cols]
+    rows = [head]
+    data = [frame[c].tolist() for c in cols]
+    index = frame.index.tolist()
+    for r in range(len(frame)):
+        row = [index[r]] if named else []
+        for col in data:
+            v = col[r]
+            row.append(("true" if v else "false") if isinstance(v, (bool, np.bool_)) else v)
+        rows.append(row)
+    return csv_text(rows)
+
+
+def json_text(payload) -> str:
+    """JSON text of a report's ``to_dict()``: indented, no NaN (they are ``null`` already)."""
+    return json.dumps(payload, indent=2, allow_nan=False, ensure_ascii=False) + "\n"
+
+
+def encode(data) -> bytes:
+    """One output file's bytes: text, a DataFrame (CSV), a dict (JSON) or a matplotlib
+    Figure (PNG, closed after)."""
+    if isinstance(data, bytes):
+        return data
+    if isinstance(data, str):
+        return data.encode("utf-8")
+    if isinstance(data, dict):
+        return json_text(data).encode("utf-8")
+    if hasattr(data, "savefig"):
+        from .plotting import png_bytes
+        return png_bytes(data)
+    if hasattr(data, "columns") and hasattr(data, "index"):
+        return frame_csv(data).encode("utf-8")
+    raise TypeError(f"cannot write a {type(data).__name__} as a file")
 
 
 # --------------------------------------------------------------------------- plan and commit
@@ -220,18 +262,19 @@ class OutputSet:
         return (json.dumps(payload, indent=2) + "\n").encode("utf-8")
 
     def commit(self, files) -> list:
-        """Write ``files`` (name -> bytes or str, exactly the planned names); return the paths.
+        """Write ``files`` (exactly the planned names; each bytes, text, a DataFrame, a dict
+        or a Figure, see :func:`encode`); return the paths.
 
         Without a folder nothing is written and ``[]`` is returned.
         """
         if self.folder is None:
             return []
-        files = {n: (d if isinstance(d, bytes) else d.encode("utf-8")) for n, d in files.items()}
         if set(files) != set(self.names):
             extra = sorted(set(files) - set(self.names))
             missing = sorted(set(self.names) - set(files))
             raise RuntimeError(f"output files differ from the plan: extra {extra}, "
                                f"missing {missing}")
+        files = {n: encode(d) for n, d in files.items()}
         self.check()                      # again: the folder may have changed meanwhile
         folder = self.folder
         created = not os.path.lexists(folder)

@@ -19,8 +19,6 @@ import os
 import sys
 from importlib import resources
 
-import numpy as np
-
 __all__ = ["run", "bundled", "RING_ORDER", "LOAD"]
 
 #: the true cyclic order of the ring taps (each leads the next)
@@ -42,14 +40,16 @@ def _bundled_path(name: str):
     return str(res) if isinstance(res, os.PathLike) or hasattr(res, "__fspath__") else None
 
 
+#: the options of the demo's two reports (the files follow from them)
+LEADLAG_OPTIONS = dict(window=600, step=150, n_surrogates=199, surrogate_method="shift",
+                       seed=1, n_boot=199)
+
+
 def planned_files(figures: bool) -> list:
     """The files ``wedgepath demo --out DIR`` writes (``manifest.json`` comes on top)."""
-    from .cli import leadlag_files, loop_files
-    names = ["leadlag.json", "loop.json"]
-    names += [f for f in leadlag_files(window=True, surrogates=True, figures=figures)
-              if f != "result.json"]
-    names += [f for f in loop_files(figures=figures) if f != "result.json"]
-    return names
+    from .report import leadlag_files, loop_files
+    return (leadlag_files(figures, window=True, significance=True, json_name="leadlag.json")
+            + loop_files(figures, json_name="loop.json"))
 
 
 def _same_cycle(found, truth):
@@ -62,9 +62,10 @@ def _same_cycle(found, truth):
 
 def run(out=None, force=False, figures=True, quiet=False) -> int:
     """Run the demo; print summaries and checks; return 0 when every check passes."""
+    import dataclasses
+
+    from . import report
     from ._outputs import OutputSet
-    from .cli import _dump_json, leadlag_report, leadlag_summary, leadlag_tables, \
-        loop_report, loop_summary, loop_tables
 
     figures = bool(figures) and out is not None
     if figures:
@@ -79,58 +80,53 @@ def run(out=None, force=False, figures=True, quiet=False) -> int:
     output.check()
     files = {}
     ok = True
+    progress = False if quiet else None
 
     ring = bundled("ring_sensors.csv")
     print("=" * 72)
     print("1. Lead and lag: eight taps around a duct (invented data, scrambled columns)")
     print("=" * 72)
-    rep = leadlag_report(ring.values, ring.times, ring.names, window=600, step=150,
-                         surrogates=199, surrogate_method="shift", seed=1,
-                         progress=False if quiet else None)
-    print("\n".join(leadlag_summary(rep)))
-    found = rep["cyclic_order"]["order"]
+    rep = report.leadlag(ring, **LEADLAG_OPTIONS, progress=progress, time_name="time_s",
+                         units={"time_s": "s"},
+                         source={"table": "wedgepath/data/ring_sensors.csv",
+                                 "time_column": "time_s"})
+    rep = dataclasses.replace(rep, json_name="leadlag.json")
+    print("\n".join(rep.summary()))
+    found = [rep.names[k] for k in rep.order.order] if rep.order is not None else []
     good = _same_cycle(found, RING_ORDER)
     ok &= good
     print(f"\ncheck: cyclic order {'recovered' if good else 'NOT recovered'} "
           f"(true order: {' -> '.join(RING_ORDER)})")
-    rep["input"] = {"table": "wedgepath/data/ring_sensors.csv", "time_column": "time_s"}
-    rep["units"] = {"time_s": "s"}
-    files["leadlag.json"] = _dump_json(rep)
-    files.update(leadlag_tables(rep))
+    if out is not None:
+        files.update(rep.files(figures))
 
     load = bundled("load_test.csv")
     print()
     print("=" * 72)
     print("2. Loop: cyclic load test of an elastomer pad (invented data)")
     print("=" * 72)
-    lrep, dec = loop_report(load.values, load.times, load.names, energy="y_dx",
-                            progress=False if quiet else None, return_decomposition=True)
-    print("\n".join(loop_summary(lrep)))
+    lrep = report.loop(load, energy="y_dx", progress=progress, time_name="time_s",
+                       units={"strain": "mm/mm", "stress_MPa": "MPa", "time_s": "s"},
+                       source={"table": "wedgepath/data/load_test.csv", "time_column": "time_s"})
+    lrep = dataclasses.replace(lrep, json_name="loop.json")
+    print("\n".join(lrep.summary()))
     omega = 2 * math.pi * LOAD["f"]
     truth = math.pi * LOAD["eta"] * omega * LOAD["e0"] ** 2
-    mean, std, count = lrep["cycles"]["mean"], lrep["cycles"]["std"], lrep["cycles"]["count"]
+    _, count, mean, std = lrep.cycle_stats()
     rel = abs(mean - truth) / truth
     good = rel < 0.01
     ok &= good
     print(f"\ncheck: energy per cycle {mean * 1e3:.4f} kJ/m^3 (mean of {count} cycles, std "
           f"{std * 1e3:.4f}); known value pi*eta*omega*e0^2 = {truth * 1e3:.4f} kJ/m^3 -> "
           f"{'recovered' if good else 'NOT recovered'} within {100 * rel:.2f}%")
-    lrep["input"] = {"table": "wedgepath/data/load_test.csv", "time_column": "time_s"}
-    lrep["units"] = {"strain": "mm/mm", "stress_MPa": "MPa", "time_s": "s"}
-    files["loop.json"] = _dump_json(lrep)
-    files.update(loop_tables(lrep))
-
-    if figures:
-        from . import plotting
-        files.update(plotting.leadlag_figures(rep, units=rep["units"]))
-        xy = np.asarray(load.values)
-        # the known energy per cycle, in the data's units (MPa x mm/mm = MJ/m^3)
-        files.update(plotting.loop_figures(xy, load.names, lrep, units=lrep["units"],
-                                           reference=truth, reference_label="known value",
-                                           decomposition=dec))
+    if out is not None:
+        files.update(lrep.files(False))
+        if figures:
+            # the known energy per cycle, in the data's units (MPa x mm/mm = MJ/m^3)
+            files.update(lrep.figures(reference=truth, reference_label="known value"))
     written = output.commit(files)
     if written:
-        print(f"\nwrote {len(written)} file(s) to {out}")
+        print(f"\nwrote {len(written)} files to {out}")
     print("\nall checks passed" if ok else "\nSOME CHECKS FAILED")
     return 0 if ok else 1
 

@@ -138,7 +138,7 @@ class Table(Result):
         What the times were: ``kind`` ("number"/"datetime"), ``origin``,
         ``tz``; ``time_axis.format(t)`` gives ISO strings back.
     units : mapping or None
-        Channel name -> unit text (:meth:`with_units`).
+        Channel name -> unit text (the ``with_units`` method attaches them).
 
     ``to_frame()`` is the table itself: one column per channel, indexed by
     time (a ``DatetimeIndex`` for date/times, numbers otherwise, the row

@@ -1,16 +1,35 @@
-"""Figures for lead-lag reports and loops (needs the optional matplotlib extra).
+"""Figures of lead-lag structure and loops (needs the optional matplotlib extra).
 
-Each function draws onto a matplotlib Axes you pass (or a new figure) and
-returns the Axes, so the figures compose into your own layouts.  The two
-``*_figures`` helpers render complete PNG files for the command line.
+Every function takes the library's result objects (an
+:class:`~wedgepath.AreaMatrix`, a :class:`~wedgepath.CyclicOrder`, a
+:class:`~wedgepath.RollingAreas`, a :class:`~wedgepath.CycleAreas`, a
+:class:`~wedgepath.Path` or :class:`~wedgepath.Decomposition`), draws onto a
+matplotlib Axes you pass (or a new figure) and returns the Axes, so the
+figures compose into your own layouts.  :func:`rolling_pairs` and
+:func:`loop_overview` draw whole figures and return the Figure.
 
-Palette: a diverging ramp from deep teal (lagging, negative) through paper
-white to burnt orange (leading, positive), and a sequential ramp of the same
-hues for winding numbers.
+What each figure answers:
+
+:func:`cycle_positions`
+    Where is each channel in the cycle?  One row per channel, in cyclic order,
+    its position on a line from 0 to 2π rad, with its bootstrap interval and
+    the positions found in rolling windows when given.
+:func:`pair_chart`
+    Who leads whom, how strongly, and is it significant?  One row per pair,
+    named leader → lagger, the bar's length the lead, its fill the verdict.
+:func:`rolling_pairs`
+    Does the lead hold over time?  Small multiples of the strongest pairs.
+:func:`loop_path`, :func:`loop_faces`, :func:`cycle_values`, :func:`loop_overview`
+    The loop as recorded with its direction (one shade per cycle), its faces
+    by winding number, and the per-cycle integral with mean ± std (ddof=1).
+
+Text from data (channel names, units) is drawn literally: a ``$`` never
+starts math text.
 """
 
 from __future__ import annotations
 
+import contextlib
 import io
 import math
 
@@ -18,29 +37,20 @@ import numpy as np
 
 from ._validation import as_float_array
 
-__all__ = ["lead_heatmap", "phase_circle", "loop_faces", "loop_path", "rolling_lead", "cycle_bars",
-           "leadlag_figures", "loop_figures", "DIVERGING"]
+__all__ = ["cycle_positions", "pair_chart", "rolling_pairs", "loop_path", "loop_faces",
+           "cycle_values", "loop_overview", "png_bytes", "literal_text", "with_unit"]
+
+# our palette: ink, a slate blue (counter-clockwise, significant), an ochre (clockwise),
+# greys for what is secondary
+INK, SLATE, OCHRE = "#1f2933", "#33658a", "#c08a2b"
+GREY, LIGHT, RULE = "#7b8794", "#d9e2ec", "#bcccdc"
 
 
 def _mpl():
     import matplotlib
     matplotlib.use("Agg", force=False)
     import matplotlib.pyplot as plt
-    from matplotlib.colors import LinearSegmentedColormap
-    return matplotlib, plt, LinearSegmentedColormap
-
-
-_TEAL, _PAPER, _ORANGE = "#0b5563", "#f7f4ee", "#c4581b"
-_INK = "#22262a"
-
-
-def _diverging():
-    _, _, LSC = _mpl()
-    return LSC.from_list("wedgepath_div", ["#06323b", _TEAL, "#7fb3b5", _PAPER,
-                                            "#e9b48a", _ORANGE, "#6e2a07"])
-
-
-DIVERGING = "wedgepath_div"
+    return matplotlib, plt
 
 
 def _literal(text) -> str:
@@ -53,8 +63,29 @@ def _literal(text) -> str:
     return str(text).replace("$", "\\$")
 
 
-def _labels(names, n, what="names"):
-    """``names`` as a list of n strings, escaped to be drawn literally (checked first)."""
+def _unit_label(name, units=None) -> str:
+    unit = (units or {}).get(name)
+    return f"{name} [{unit}]" if unit else str(name)
+
+
+def with_unit(name, units=None) -> str:
+    """``name [unit]``, escaped to be drawn literally."""
+    return _literal(_unit_label(name, units))
+
+
+@contextlib.contextmanager
+def literal_text():
+    """rc settings under which labels are plain text (a user's usetex would read LaTeX)."""
+    matplotlib, _ = _mpl()
+    with matplotlib.rc_context({"text.usetex": False}):
+        yield
+
+
+def _names(obj, names, n, what="names"):
+    if names is None:
+        names = getattr(obj, "names", None)
+    if names is None:
+        names = [str(k) for k in range(n)]
     if isinstance(names, str) or not hasattr(names, "__len__"):
         raise TypeError(f"{what} must be a sequence of {n} channel names")
     names = list(names)
@@ -63,386 +94,608 @@ def _labels(names, n, what="names"):
     return [_literal(nm) for nm in names]
 
 
-def _order(order, n):
+def _axes(ax, size):
+    _, plt = _mpl()
+    if ax is None:
+        _, ax = plt.subplots(figsize=size, dpi=110)
+    return ax
+
+
+def _square(A, what):
+    M = as_float_array(np.asarray(A), what, ndim=2, allow_nan=True)
+    if M.shape[0] != M.shape[1] or M.shape[0] < 2:
+        raise ValueError(f"{what} must be a square matrix of at least 2 channels, got shape "
+                         f"{M.shape}")
+    return M
+
+
+def _style(ax):
+    for side in ("top", "right"):
+        ax.spines[side].set_visible(False)
+    ax.spines["left"].set_color(RULE)
+    ax.spines["bottom"].set_color(RULE)
+    ax.tick_params(colors=INK, labelsize=8)
+
+
+def png_bytes(fig) -> bytes:
+    """The figure as PNG bytes (white background); the figure is closed."""
+    _, plt = _mpl()
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", facecolor="white", bbox_inches="tight")
+    plt.close(fig)
+    return buf.getvalue()
+
+
+# =========================================================================== positions
+_PI_TICKS = ["0", "π/4", "π/2", "3π/4", "π", "5π/4", "3π/2", "7π/4", "2π"]
+
+
+def _window_positions(rolling, ref, max_windows=400):
+    """Positions (K', n) of the windows' cyclic orders from channel ``ref`` (zero windows
+    skipped; at most ``max_windows`` windows, evenly spread)."""
+    from .signals import cyclic_order
+    R = np.asarray(rolling, dtype=float)
+    keep = np.unique(np.linspace(0, R.shape[0] - 1, min(R.shape[0], max_windows)).astype(int))
+    out = []
+    for k in keep:
+        W = np.nan_to_num(R[k], nan=0.0)
+        if np.any(W):
+            out.append(np.asarray(cyclic_order(W, start=ref).positions, dtype=float))
+    return np.asarray(out).reshape(-1, R.shape[1])
+
+
+def cycle_positions(order, *, names=None, low=None, high=None, rolling=None,
+                    fit_baseline=None, confidence=None, ax=None, title=None):
+    """Each channel's position in the cycle on a line from 0 to 2π rad, one row per channel.
+
+    Parameters
+    ----------
+    order : CyclicOrder or None
+        From :func:`~wedgepath.cyclic_order`; None draws an empty chart that says
+        there is no cyclic order.
+    names : sequence of str, optional
+        Channel names (default: the order's).
+    low, high : array_like (n,), optional
+        An interval of each position (radians; ``low > high`` wraps past 2π),
+        e.g. from a block bootstrap (:func:`wedgepath.report.leadlag` with ``n_boot``).
+    rolling : RollingAreas, optional
+        Windows whose own cyclic orders are drawn as faint ticks on each row:
+        how stable the position is over time.
+    fit_baseline, confidence : float, optional
+        For the title and the legend.
+
+    Rows run top to bottom in cyclic order (each channel leads the next), so
+    names sit one per row and never overlap.  A hollow marker is a channel that
+    takes little part in the cycle (share below 0.3): its position means little.
+    """
     if order is None:
-        return np.arange(n)
-    o = np.asarray(order)
-    if o.ndim != 1 or o.dtype.kind not in "iu" or sorted(o.tolist()) != list(range(n)):
-        raise ValueError(f"order must be a permutation of the {n} channel indices, got {order!r}")
-    return o
-
-
-def _axes(ax, size=(6, 5)):
-    _, plt, _ = _mpl()
-    if ax is None:
-        fig, ax = plt.subplots(figsize=size, dpi=110)
+        ax = _axes(ax, (7.5, 2.6))
+        ax.axis("off")
+        ax.text(0.5, 0.5, "No cyclic order: the area matrix is zero\n(no channel leads "
+                "another)", ha="center", va="center", color=INK, transform=ax.transAxes)
+        return ax
+    if not (hasattr(order, "positions") and hasattr(order, "order")):
+        raise TypeError(f"cycle_positions needs a CyclicOrder (from wp.cyclic_order), got "
+                        f"{type(order).__name__}")
+    pos = as_float_array(order.positions, "positions", ndim=1)
+    n = pos.shape[0]
+    seq = [int(k) for k in np.asarray(order.order)]
+    if sorted(seq) != list(range(n)):
+        raise ValueError(f"order must be a permutation of the {n} channel indices")
+    labels = _names(order, names, n)
+    mod = as_float_array(getattr(order, "moduli", np.ones(n)), "moduli", ndim=1)
+    if (low is None) != (high is None):
+        raise ValueError("low and high go together")
+    if low is not None:
+        low = as_float_array(low, "low", ndim=1)
+        high = as_float_array(high, "high", ndim=1)
+        if low.shape != (n,) or high.shape != (n,):
+            raise ValueError(f"low and high need {n} entries (one per channel)")
+    ax = _axes(ax, (7.5, 1.3 + 0.42 * n))
+    two_pi = 2 * np.pi
+    row = {ch: r for r, ch in enumerate(seq)}
+    for r in range(n):
+        if r % 2 == 0:
+            ax.axhspan(r - 0.5, r + 0.5, color="#f0f4f8", lw=0, zorder=0)
+    handles = {}
+    if rolling is not None:
+        W = _window_positions(rolling, seq[0])
+        for ch in range(n):
+            if W.size:
+                h = ax.scatter(W[:, ch], np.full(W.shape[0], row[ch]), marker="|", s=90,
+                               color=INK, alpha=0.3, lw=1, zorder=3.5)
+                handles["windows"] = h
+    if low is not None:
+        for ch in range(n):
+            a, b, y = low[ch], high[ch], row[ch]
+            spans = [(a, b)] if a <= b else [(a, two_pi), (0.0, b)]
+            for s0, s1 in spans:
+                h, = ax.plot([s0, s1], [y, y], color=SLATE, lw=3, alpha=0.45,
+                             solid_capstyle="butt", zorder=3)
+            handles["interval"] = h
+    strong = mod >= 0.3
+    ys = np.array([row[ch] for ch in range(n)])
+    h1 = ax.scatter(pos[strong], ys[strong], s=60, color=SLATE, edgecolor=INK, lw=0.8,
+                    zorder=4)
+    if (~strong).any():
+        handles["weak"] = ax.scatter(pos[~strong], ys[~strong], s=60, facecolor="white",
+                                     edgecolor=SLATE, lw=1.2, zorder=4)
+    for ch in range(n):
+        ax.annotate(f"{mod[ch]:.2f}", (1.0, row[ch]), xycoords=("axes fraction", "data"),
+                    xytext=(6, 0), textcoords="offset points", va="center", fontsize=7,
+                    color=GREY)
+    ax.annotate("share", (1.0, -0.5), xycoords=("axes fraction", "data"), xytext=(6, 2),
+                textcoords="offset points", va="bottom", fontsize=7, color=GREY)
+    ax.set_yticks(range(n), [labels[ch] for ch in seq])
+    ax.set_ylim(n - 0.5, -0.5)
+    ax.set_xlim(-0.08, two_pi + 0.08)
+    ax.set_xticks(np.arange(9) * np.pi / 4, _PI_TICKS)
+    for k in range(9):
+        ax.axvline(k * np.pi / 4, color=RULE, lw=0.6 if k % 2 else 0.9, zorder=1)
+    ax.set_xlabel(f"position in the cycle after {labels[seq[0]]} [rad]  (keeps the order, "
+                  "not the delays)", color=INK, fontsize=8)
+    _style(ax)
+    ax.spines["left"].set_visible(False)
+    ax.tick_params(axis="y", length=0)
+    if title is None:
+        title = f"Position of each channel in the cycle (fit {order.fit:.3f}"
+        if n <= 3:
+            title += f": always 1 for {n} channels)"
+        elif fit_baseline is not None:
+            title += f"; independent noise gives {fit_baseline:.2f})"
+        else:
+            title += ")"
+    ax.set_title(title, color=INK, fontsize=10, loc="left")
+    leg = [(h1, "position (filled: share ≥ 0.3)")]
+    if "weak" in handles:
+        leg.append((handles["weak"], "share < 0.3: position unreliable"))
+    if "interval" in handles:
+        leg.append((handles["interval"], "bootstrap interval" + (
+            f" ({100 * confidence:.0f}%)" if confidence is not None else "")))
+    if "windows" in handles:
+        leg.append((handles["windows"], "in rolling windows"))
+    from matplotlib.transforms import offset_copy
+    # under the axis label, at a fixed distance whatever the number of rows
+    ax.legend(*zip(*leg), frameon=False, fontsize=7, loc="upper left", ncol=len(leg),
+              bbox_to_anchor=(0.0, 0.0),
+              bbox_transform=offset_copy(ax.transAxes, ax.figure, y=-30, units="points"))
     return ax
 
 
-def lead_heatmap(A, names, order=None, ax=None, title="Lead matrix", label="A[i, j]"):
-    """Heat map of a skew-symmetric lead matrix, rows and columns in ``order``.
+# =========================================================================== pairs
+def pair_chart(areas, *, raw=None, significance=None, bootstrap=None, names=None, top=20,
+               alpha=0.05, ax=None, title=None):
+    """Every pair's lead with its direction and significance, strongest first.
 
-    Row i, column j is coloured by ``A[i, j]``: orange where row i leads
-    column j, teal where it lags.
+    Parameters
+    ----------
+    areas : AreaMatrix or array_like (n, n)
+        The matrix to chart (raw areas, or normalised: its ``normalize`` says which).
+    raw : AreaMatrix, optional
+        The raw areas, when ``areas`` is normalised (for the bootstrap intervals).
+    significance : SurrogateResult, optional
+        Its q-values decide each bar's fill: solid where q <= ``alpha``, hollow
+        where not; grey when no test was made.
+    bootstrap : BootstrapResult, optional
+        Intervals of the raw areas, drawn as whiskers when the chart shows raw areas.
+    top : int
+        Pairs shown (the strongest).
+
+    Each row is one pair written leader → lagger, so the direction is read in
+    the name; the bar's length is the size of the lead.
     """
-    A = as_float_array(A, "A", ndim=2, allow_nan=True)
-    if A.shape[0] != A.shape[1] or A.shape[0] == 0:
-        raise ValueError(f"A must be a non-empty square matrix, got shape {A.shape}")
-    names = _labels(names, A.shape[0])
-    order = _order(order, A.shape[0])
-    M = A[np.ix_(order, order)]
-    ax = _axes(ax)
-    lim = np.nanmax(np.abs(M)) or 1.0
-    im = ax.imshow(M, cmap=_diverging(), vmin=-lim, vmax=lim, interpolation="nearest")
-    labels = [names[k] for k in order]
-    ax.set_xticks(range(len(labels)), labels, rotation=45, ha="right")
-    ax.set_yticks(range(len(labels)), labels)
-    ax.set_xlabel("column: channel j")
-    ax.set_ylabel("row: channel i")
-    ax.set_title(title, color=_INK)
-    cb = ax.figure.colorbar(im, ax=ax, fraction=0.046, pad=0.04)
-    cb.set_label(label + "  (> 0: row leads column)")
-    return ax
-
-
-def phase_circle(phases, names, moduli=None, order=None, ax=None, title="Phase of each channel"):
-    """Channels placed on a circle at their phase (clockwise = later), radius = participation."""
-    phases = as_float_array(phases, "phases", ndim=1)
-    r = np.ones_like(phases) if moduli is None else as_float_array(moduli, "moduli", ndim=1)
-    if r.shape != phases.shape:
-        raise ValueError(f"moduli has {r.shape[0]} entries for {phases.shape[0]} phases")
-    names = _labels(names, phases.shape[0])
-    if order is not None:
-        order = _order(order, phases.shape[0]).tolist()
-    _, plt, _ = _mpl()
-    if ax is None:
-        fig = plt.figure(figsize=(5.5, 5.5), dpi=110)
-        ax = fig.add_subplot(projection="polar")
-    ax.set_theta_zero_location("N")
-    ax.set_theta_direction(-1)  # later phases further clockwise, like a clock
-    ax.plot(np.linspace(0, 2 * np.pi, 200), np.ones(200), color="#c9c2b4", lw=1)
-    if order is not None:
-        o = list(order) + [order[0]]
-        ax.plot(phases[o], r[o], color=_TEAL, lw=1.2, alpha=0.6)
-    ax.scatter(phases, r, s=80, color=_ORANGE, edgecolor=_INK, zorder=3)
-    for ph, rr, nm in zip(phases, r, names):
-        ax.annotate(nm, (ph, rr), xytext=(6, 6), textcoords="offset points", fontsize=9,
-                    color=_INK)
-    ax.set_rmax(1.15)
-    ax.set_rticks([0.25, 0.5, 0.75, 1.0])
-    ax.set_rlabel_position(200)
-    ax.tick_params(axis="y", labelsize=7, labelcolor="#8a857b")
-    ax.tick_params(axis="x", pad=6)
-    radius = "" if moduli is None else \
-        "\nradius: share in the cycle (largest = 1; near 0: phase unreliable)"
-    ax.set_title(title + "\nangle: degrees behind the first channel of the cycle" + radius,
-                 color=_INK, fontsize=9)
-    return ax
-
-
-def loop_faces(decomposition, xy=None, names=("x", "y"), ax=None, title="Loop and its faces",
-               max_faces=20000, curve=None):
-    """The curve in its plane with each face shaded by its winding number.
-
-    One colour per winding number present (teal for clockwise, negative;
-    orange for counter-clockwise, positive; deeper for larger ``|w|``).
-    ``curve`` draws ``xy`` over the faces (default: only when it has at most
-    2,000 samples, where it does not hide them).
-    """
-    from .planar import Decomposition
-    if not isinstance(decomposition, Decomposition):
-        raise TypeError(f"loop_faces needs a Decomposition (from wp.decompose), got "
-                        f"{type(decomposition).__name__}")
-    if xy is not None:
-        xy = as_float_array(xy, "xy", ndim=2, allow_nan=True)
-        if xy.shape[1] != 2:
-            raise ValueError(f"xy must have shape (T, 2), got {xy.shape}")
-    names = _labels(names, 2)
-    _, plt, _ = _mpl()
-    import shapely
-    from matplotlib.collections import PatchCollection
-    from matplotlib.colors import BoundaryNorm, ListedColormap
-    from matplotlib.patches import Polygon as MplPolygon
-
-    ax = _axes(ax, (6, 5.5))
-    faces, wind = decomposition.faces, np.asarray(decomposition.winding)
-    patches, values = [], []
-    if len(faces) > max_faces:  # keep the largest faces; a figure cannot show more
-        keep = np.argsort(-np.asarray(decomposition.areas))[:max_faces]
-        faces, wind = faces[keep], wind[keep]
-    for face, w in zip(faces, wind):
-        for poly in shapely.get_parts(face):
-            ext = np.asarray(poly.exterior.coords)
-            patches.append(MplPolygon(ext, closed=True))
-            values.append(w)
-    if patches:
-        vals = np.asarray(values, dtype=int)
-        lo, hi = min(int(vals.min()), 0), max(int(vals.max()), 0)
-        lim = max(1, -lo, hi)
-        levels = np.arange(lo, hi + 1)
-        # 0 is paper white; |w| = lim the deepest shade of its sign
-        colours = _diverging()(0.5 + 0.5 * levels / lim)
-        norm = BoundaryNorm(np.arange(lo, hi + 2) - 0.5, len(levels))
-        pc = PatchCollection(patches, cmap=ListedColormap(colours), norm=norm,
-                             edgecolor="none", alpha=0.9)
-        pc.set_array(vals.astype(float))
-        ax.add_collection(pc)
-        cb = ax.figure.colorbar(pc, ax=ax, fraction=0.046, pad=0.04)
-        step = max(1, int(math.ceil(len(levels) / 12)))
-        cb.set_ticks(levels[::step])
-        cb.set_label("winding number (counter-clockwise > 0)")
-    if xy is not None and (curve if curve is not None else xy.shape[0] <= 2000):
-        ax.plot(xy[:, 0], xy[:, 1], color=_INK, lw=0.4, alpha=0.5)
-    from matplotlib.ticker import MaxNLocator
-    ax.xaxis.set_major_locator(MaxNLocator(5))
-    ax.yaxis.set_major_locator(MaxNLocator(6))
-    if xy is not None and np.isfinite(xy).any():
-        _fit_limits(ax, xy)
+    M = _square(areas, "areas")
+    n = M.shape[0]
+    labels = _names(areas, names, n)
+    normalize = getattr(areas, "normalize", None)
+    q = None
+    if significance is not None:
+        q = _square(significance.qvalues, "qvalues")
+        if q.shape != M.shape:
+            raise ValueError(f"significance is for {q.shape[0]} channels, areas for {n}")
+    pairs = [(i, j) for i in range(n) for j in range(i + 1, n) if np.isfinite(M[i, j])]
+    pairs.sort(key=lambda ij: -abs(M[ij]))
+    shown = pairs[:int(top)]
+    ax = _axes(ax, (7.5, 1.4 + 0.3 * max(len(shown), 2)))
+    ys = np.arange(len(shown))
+    rows = []
+    for y, (i, j) in zip(ys, shown):
+        a, b = (i, j) if M[i, j] >= 0 else (j, i)
+        rows.append(f"{labels[a]} → {labels[b]}")
+        v = abs(M[i, j])
+        if q is None:
+            style = dict(color=LIGHT, edgecolor=GREY)
+        elif np.isfinite(q[i, j]) and q[i, j] <= alpha:
+            style = dict(color=SLATE, edgecolor=INK)
+        else:
+            style = dict(color="white", edgecolor=SLATE)
+        ax.barh(y, v, height=0.62, lw=0.9, zorder=3, **style)
+        if bootstrap is None or normalize is not None:     # no whisker there: the value
+            ax.annotate(f"{v:.3g}", (v, y), xytext=(3, 0), textcoords="offset points",
+                        va="center", fontsize=7, color=GREY)
+        if q is not None:
+            # q-values in a column of their own at the right, clear of bars and whiskers
+            ax.annotate(f"{q[i, j]:.3g}" if np.isfinite(q[i, j]) else "-", (1.0, y),
+                        xycoords=("axes fraction", "data"), xytext=(6, 0),
+                        textcoords="offset points", va="center", fontsize=7, color=INK)
+    if q is not None:
+        ax.annotate("q", (1.0, -0.6), xycoords=("axes fraction", "data"), xytext=(6, 2),
+                    textcoords="offset points", va="bottom", fontsize=7, color=GREY)
+    if bootstrap is not None and normalize is None:
+        lo, hi = np.asarray(bootstrap.low, dtype=float), np.asarray(bootstrap.high, dtype=float)
+        for y, (i, j) in zip(ys, shown):
+            s = 1.0 if M[i, j] >= 0 else -1.0
+            a, b = sorted((s * lo[i, j], s * hi[i, j]))
+            ax.plot([max(a, 0.0), b], [y, y], color=INK, lw=0.9, zorder=4)
+            ax.plot([v for v in (a, b) if v >= 0], [y] * sum(v >= 0 for v in (a, b)), "|",
+                    color=INK, ms=6, zorder=4)
+    ax.set_yticks(ys, rows)
+    ax.set_ylim(len(shown) - 0.5, -0.6)
+    ax.axvline(0, color=INK, lw=0.8)
+    what = (f"lead strength, normalised ({normalize})" if normalize else
+            "oriented area |A[i, j]| (raw)")
+    ax.set_xlabel(what, color=INK, fontsize=8)
+    ax.grid(axis="x", color=RULE, lw=0.5, zorder=0)
+    _style(ax)
+    ax.tick_params(axis="y", length=0)
+    if title is None:
+        title = "Who leads whom" + (f": the {len(shown)} strongest of {len(pairs)} pairs"
+                                    if len(shown) < len(pairs) else f": {len(pairs)} pairs")
+    ax.set_title(title, color=INK, fontsize=10, loc="left")
+    from matplotlib.patches import Patch
+    if q is not None:
+        leg = [Patch(facecolor=SLATE, edgecolor=INK, label=f"significant (q ≤ {alpha:g})"),
+               Patch(facecolor="white", edgecolor=SLATE, label="not significant")]
     else:
-        ax.autoscale_view()
-    ax.set_xlabel(names[0])
-    ax.set_ylabel(names[1])
-    ax.set_title(title, color=_INK)
-    ax.set_aspect("auto")
+        leg = [Patch(facecolor=LIGHT, edgecolor=GREY, label="not tested (no surrogates)")]
+    if bootstrap is not None and normalize is None:
+        from matplotlib.lines import Line2D
+        leg.append(Line2D([], [], color=INK, lw=1, label="bootstrap interval"))
+    from matplotlib.transforms import offset_copy
+    ax.legend(handles=leg, frameon=False, fontsize=7, loc="upper left", ncol=len(leg),
+              bbox_to_anchor=(0.0, 0.0),
+              bbox_transform=offset_copy(ax.transAxes, ax.figure, y=-30, units="points"))
+    xmax = max((abs(M[ij]) for ij in shown), default=1.0) or 1.0
+    if bootstrap is not None and normalize is None:
+        ends = [max(abs(lo[ij]), abs(hi[ij])) for ij in shown]
+        xmax = max([xmax] + [e for e in ends if np.isfinite(e)])
+        ax.set_xlim(0, 1.04 * xmax)
+    else:
+        ax.set_xlim(0, 1.12 * xmax)              # room for the values at the bars' ends
     return ax
 
 
-def _fit_limits(ax, xy, margin=0.04):
+# =========================================================================== rolling
+def rolling_pairs(rolling, *, names=None, pairs=None, top=6, xlabel="window centre",
+                  rows=False, title=None):
+    """Small multiples: the raw area of each of the strongest pairs over the windows.
+
+    Parameters
+    ----------
+    rolling : RollingAreas
+        From :func:`~wedgepath.rolling_area_matrix` (windows with their times).
+    pairs : sequence of (i, j), optional
+        The pairs to draw (default: the ``top`` of largest mean ``|A[i, j]|``,
+        each named the way round in which it leads on average).
+    rows : bool
+        Place windows by data row (from 1) instead of by time.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        One panel per pair, sharing both axes so that magnitudes compare.
+    """
+    if not hasattr(rolling, "start_time"):
+        raise TypeError(f"rolling_pairs needs a RollingAreas (from wp.rolling_area_matrix), "
+                        f"got {type(rolling).__name__}")
+    R = as_float_array(np.asarray(rolling), "rolling areas", ndim=3, allow_nan=True)
+    K, n = R.shape[0], R.shape[1]
+    if R.shape[2] != n:
+        raise ValueError(f"rolling areas must have shape (windows, n, n), got {R.shape}")
+    labels = _names(rolling, names, n)
+    if rows:
+        a = np.asarray(rolling.start, dtype=float) + 1
+        b = np.asarray(rolling.stop, dtype=float)
+    else:
+        a = np.asarray(rolling.start_time, dtype=float)
+        b = np.asarray(rolling.stop_time, dtype=float)
+    t = 0.5 * (a + b)
+    if pairs is None:
+        strength = np.nanmean(np.abs(R), axis=0) if K else np.zeros((n, n))
+        cand = sorted(((strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)),
+                      reverse=True)[:int(top)]
+        pairs = [(i, j) if np.nanmean(R[:, i, j]) >= 0 else (j, i) for _, i, j in cand]
+    else:
+        pairs = [tuple(int(v) for v in pq) for pq in pairs]
+        if any(len(pq) != 2 or not all(0 <= v < n for v in pq) for pq in pairs):
+            raise ValueError(f"pairs must be (i, j) channel index pairs below {n}")
+    _, plt = _mpl()
+    m = max(1, len(pairs))
+    ncol = 1 if m <= 3 else 2
+    nrow = int(math.ceil(m / ncol))
+    # one scale so that magnitudes compare, unless it would flatten a pair to a line
+    peaks = [np.nanmax(np.abs(R[:, i, j])) if K else 0.0 for i, j in pairs]
+    peaks = [p for p in peaks if np.isfinite(p) and p > 0]
+    shared = not peaks or max(peaks) <= 10 * min(peaks)
+    fig, axes = plt.subplots(nrow, ncol, figsize=(8.5 if ncol == 2 else 7, 0.6 + 1.7 * nrow),
+                             dpi=110, sharex=True, sharey=shared, squeeze=False,
+                             layout="constrained")
+    for k, axk in enumerate(axes.flat):
+        if k >= len(pairs):
+            axk.axis("off")
+            continue
+        i, j = pairs[k]
+        v = R[:, i, j]
+        axk.fill_between(t, 0, v, where=v >= 0, color=SLATE, alpha=0.25, lw=0,
+                         interpolate=True)
+        axk.fill_between(t, 0, v, where=v < 0, color=OCHRE, alpha=0.3, lw=0, interpolate=True)
+        axk.plot(t, v, color=INK, lw=1.0)
+        axk.axhline(0, color=GREY, lw=0.7)
+        axk.set_title(f"{labels[i]} → {labels[j]}", fontsize=8, color=INK, loc="left")
+        _style(axk)
+    for axk in axes[-1]:
+        axk.set_xlabel(xlabel, fontsize=8, color=INK)
+    for axk in axes[:, 0]:
+        axk.set_ylabel("raw A[i, j]", fontsize=8, color=INK)
+    fig.suptitle(title or "Rolling lead (raw areas per window)", fontsize=10, color=INK,
+                 x=0.02, ha="left")
+    # laid out when drawn (cheaper than laying out now and again when saved)
+    fig.supxlabel("above 0 (blue): the first channel leads in that window; below 0 "
+                  "(ochre): the second" + ("" if shared else
+                                           ". Each panel has its own scale (sizes differ by "
+                                           "more than 10 times)"), fontsize=7, color=GREY,
+                  x=0.02, ha="left")
+    return fig
+
+
+# =========================================================================== loops
+def _xy_of(curve, names):
+    from .calculus import Path
+    if isinstance(curve, Path):
+        xy = np.asarray(curve.points, dtype=float)
+        nm = names if names is not None else curve.names
+    else:
+        xy = as_float_array(curve, "xy", ndim=2, allow_nan=True)
+        nm = names
+    if xy.ndim != 2 or xy.shape[1] != 2:
+        raise ValueError(f"xy must have shape (T, 2), got {xy.shape}")
+    if xy.shape[0] < 2:
+        raise ValueError(f"xy needs at least 2 samples, got {xy.shape[0]}")
+    return xy, _names(None, nm if nm is not None else ("x", "y"), 2)
+
+
+def _fit_limits(ax, xy, margin=0.05):
+    if not np.isfinite(xy).any():
+        return
     lo, hi = np.nanmin(xy, axis=0), np.nanmax(xy, axis=0)
     pad = margin * np.where(hi > lo, hi - lo, 1.0)
     ax.set_xlim(lo[0] - pad[0], hi[0] + pad[0])
     ax.set_ylim(lo[1] - pad[1], hi[1] + pad[1])
 
 
-def loop_path(xy, names=("x", "y"), ax=None, title="The recorded curve", arrows=8):
-    """The curve itself, coloured from the first sample (light) to the last (dark).
+def loop_path(curve, *, names=None, cycles=None, ax=None, title=None, arrows=6):
+    """The recorded curve with its direction of travel, in the data's own units.
 
-    Arrows show the direction of travel (clockwise travel of a stress-strain
-    or p-V loop, with x = strain or volume, is energy dissipated); a ring
-    marks the first sample.  Gaps (NaN rows) stay gaps.
+    Parameters
+    ----------
+    curve : Path or array_like (T, 2)
+        The curve as recorded (a Path's names label the axes).
+    cycles : CycleAreas, optional
+        Cycles of the curve: each drawn in its own shade (light: first, dark:
+        last), so a loop traced many times stays readable; samples outside
+        every cycle are grey.  Without cycles the shade follows the rows.
+    arrows : int
+        Arrows along the curve showing the direction of travel.
+
+    The first sample is ringed.  Gaps (NaN rows) stay gaps.  For a
+    stress-strain or p-V loop with strain or volume on x, clockwise travel is
+    energy dissipated.
     """
-    xy = as_float_array(xy, "xy", ndim=2, allow_nan=True)
-    if xy.shape[1] != 2:
-        raise ValueError(f"xy must have shape (T, 2), got {xy.shape}")
-    if xy.shape[0] < 2:
-        raise ValueError(f"xy needs at least 2 samples, got {xy.shape[0]}")
-    names = _labels(names, 2)
-    arrows = int(arrows)
-    _, plt, _ = _mpl()
+    xy, labels = _xy_of(curve, names)
     from matplotlib.collections import LineCollection
     from matplotlib.colors import LinearSegmentedColormap
 
-    ax = _axes(ax, (6, 5.5))
+    ax = _axes(ax, (6, 5))
+    T = xy.shape[0]
     seg = np.stack([xy[:-1], xy[1:]], axis=1)
     ok = np.isfinite(seg).all(axis=(1, 2))
-    ramp = LinearSegmentedColormap.from_list("wedgepath_time", ["#9fc5c6", _TEAL, "#06323b"])
-    lc = LineCollection(seg[ok], cmap=ramp, linewidths=0.8)
-    lc.set_array(np.flatnonzero(ok).astype(float))
-    ax.add_collection(lc)
-    cb = ax.figure.colorbar(lc, ax=ax, fraction=0.046, pad=0.04)
-    cb.set_label("sample number")
+    ramp = LinearSegmentedColormap.from_list("wedgepath_cycles", ["#9fb3c8", SLATE, "#102a43"])
+    which = np.full(T - 1, -1.0)
+    count = 0
+    if cycles is not None:
+        start = np.asarray(cycles.start,
+                           dtype=float)
+        stop = np.asarray(cycles.stop, dtype=float)
+        count = start.size
+        mid = np.arange(T - 1) + 0.5
+        for k, (s0, s1) in enumerate(zip(start, stop)):
+            which[(mid >= s0) & (mid < s1)] = k
+    if count:
+        inside = ok & (which >= 0)
+        out = ok & (which < 0)
+        if out.any():
+            ax.add_collection(LineCollection(seg[out], colors=LIGHT, linewidths=0.8))
+        lc = LineCollection(seg[inside], cmap=ramp, linewidths=0.9)
+        lc.set_array(which[inside] + 1)
+        lc.set_clim(0.5, count + 0.5)
+        ax.add_collection(lc)
+        cb = ax.figure.colorbar(lc, ax=ax, fraction=0.046, pad=0.03)
+        cb.set_label("cycle", fontsize=8)
+        from matplotlib.ticker import MaxNLocator
+        cb.locator = MaxNLocator(integer=True, nbins=min(count, 6))
+        cb.update_ticks()
+    else:
+        lc = LineCollection(seg[ok], cmap=ramp, linewidths=0.9)
+        lc.set_array(np.flatnonzero(ok).astype(float) + 1)
+        ax.add_collection(lc)
+        cb = ax.figure.colorbar(lc, ax=ax, fraction=0.046, pad=0.03)
+        cb.set_label("data row", fontsize=8)
+    cb.ax.tick_params(labelsize=7)
     good = np.flatnonzero(ok)
     if arrows > 0 and good.size:
-        for k in good[np.linspace(0, good.size - 1, arrows + 2).astype(int)[1:-1]]:
+        for k in good[np.linspace(0, good.size - 1, int(arrows) + 2).astype(int)[1:-1]]:
             ax.annotate("", xy=xy[k + 1], xytext=xy[k],
-                        arrowprops=dict(arrowstyle="-|>", color=_ORANGE, lw=1.2,
-                                        mutation_scale=14))
+                        arrowprops=dict(arrowstyle="-|>", color=OCHRE, lw=1.6,
+                                        mutation_scale=22), zorder=5)
     first = np.flatnonzero(np.isfinite(xy).all(axis=1))
     if first.size:
-        ax.plot(*xy[first[0]], "o", mfc="none", mec=_ORANGE, ms=9, mew=1.6, label="first sample")
-        ax.legend(frameon=False, fontsize=8, loc="best")
-    if np.isfinite(xy).any():
-        _fit_limits(ax, xy)
-    ax.set_xlabel(names[0])
-    ax.set_ylabel(names[1])
-    ax.set_title(title, color=_INK)
+        ax.plot(*xy[first[0]], "o", mfc="none", mec=OCHRE, ms=9, mew=1.6, label="first sample")
+        ax.plot([], [], color=OCHRE, marker=">", ls="none", label="direction of travel")
+        ax.legend(frameon=False, fontsize=7, loc="best")
+    _fit_limits(ax, xy)
+    ax.set_xlabel(labels[0], color=INK, fontsize=8)
+    ax.set_ylabel(labels[1], color=INK, fontsize=8)
+    _style(ax)
+    ax.set_title(title or "The recorded curve", color=INK, fontsize=10, loc="left")
     return ax
 
 
-def rolling_lead(start_time, end_time, areas, names, pairs=None, ax=None, top=4,
-                 title="Rolling lead", xlabel="time at window centre"):
-    """``A[i, j]`` over sliding windows for the strongest pairs."""
-    areas = as_float_array(areas, "areas", ndim=3, allow_nan=True)
-    K, n = areas.shape[0], areas.shape[1]
-    if areas.shape[2] != n:
-        raise ValueError(f"areas must have shape (windows, n, n), got {areas.shape}")
-    t0 = as_float_array(start_time, "start_time", ndim=1)
-    t1 = as_float_array(end_time, "end_time", ndim=1)
-    if t0.shape != (K,) or t1.shape != (K,):
-        raise ValueError(f"start_time and end_time need {K} entries (one per window), got "
-                         f"{t0.shape[0]} and {t1.shape[0]}")
-    names = _labels(names, n)
-    if pairs is not None:
-        pairs = [tuple(int(v) for v in pq) for pq in pairs]
-        if any(len(pq) != 2 or not all(0 <= v < n for v in pq) for pq in pairs):
-            raise ValueError(f"pairs must be (i, j) channel index pairs below {n}")
-    t = 0.5 * (t0 + t1)
-    if pairs is None:
-        strength = np.nanmean(np.abs(areas), axis=0)
-        cand = [(strength[i, j], i, j) for i in range(n) for j in range(i + 1, n)]
-        pairs = [(i, j) for _, i, j in sorted(cand, reverse=True)[:top]]
-        # each pair named the way round in which it leads on average: lines above zero
-        pairs = [(i, j) if np.nanmean(areas[:, i, j]) >= 0 else (j, i) for i, j in pairs]
-    ax = _axes(ax, (7, 4))
-    palette = [_ORANGE, _TEAL, "#8a6d3b", "#5b4a8a", "#2f7d3b", "#a33b5c"]
-    for k, (i, j) in enumerate(pairs):
-        ax.plot(t, areas[:, i, j], color=palette[k % len(palette)], lw=1.6,
-                label=f"{names[i]} over {names[j]}")
-    ax.axhline(0, color="#9a9488", lw=0.8)
-    ax.set_xlabel(xlabel)
-    ax.set_ylabel("A[i, j] per window  (> 0: i leads)")
-    ax.set_title(title, color=_INK)
-    ax.legend(frameon=False, fontsize=8, loc="best")
-    return ax
+def loop_faces(decomposition, *, names=("x", "y"), ax=None, title=None, max_faces=20000):
+    """The faces of a closed curve, shaded by winding number, on axes of their own.
 
-
-def cycle_bars(values, ax=None, title="Per-cycle loop integral", ylabel="value per cycle",
-               reference=None, reference_label="expected"):
-    """Per-cycle values as points on a scale fitted to them, with the mean and +-1 std band.
-
-    ``reference`` draws a known or expected value as a dashed line.  Cycles
-    with no value (NaN) are marked on the axis.
+    Blue for counter-clockwise (w > 0), ochre for clockwise (w < 0), deeper
+    for larger ``|w|``.  The faces are those of the closed curve that was
+    measured (for ``closure="detrend"`` the detrended curve), so they are never
+    drawn over the recorded data.
     """
-    vals = as_float_array(values, "values", ndim=1, allow_nan=True)
+    from .planar import Decomposition
+    if not isinstance(decomposition, Decomposition):
+        raise TypeError(f"loop_faces needs a Decomposition (from wp.decompose), got "
+                        f"{type(decomposition).__name__}")
+    labels = _names(None, names, 2)
+    _, plt = _mpl()
+    import shapely
+    from matplotlib.collections import PatchCollection
+    from matplotlib.colors import to_rgb
+    from matplotlib.patches import Polygon as MplPolygon
+
+    ax = _axes(ax, (6, 5))
+    faces, wind = decomposition.faces, np.asarray(decomposition.winding)
+    if len(faces) > max_faces:  # keep the largest faces; a figure cannot show more
+        keep = np.argsort(-np.asarray(decomposition.areas))[:max_faces]
+        faces, wind = faces[keep], wind[keep]
+    lim = max(1, int(np.abs(wind).max())) if wind.size else 1
+    patches, colours = [], []
+    for face, w in zip(faces, wind):
+        base = np.array(to_rgb(SLATE if w > 0 else OCHRE))
+        t = 0.0 if w == 0 else 0.35 + 0.65 * abs(int(w)) / lim
+        colour = (1 - t) * np.ones(3) + t * base
+        for poly in shapely.get_parts(face):
+            patches.append(MplPolygon(np.asarray(poly.exterior.coords), closed=True))
+            colours.append(colour)
+    if patches:
+        ax.add_collection(PatchCollection(patches, facecolors=colours, edgecolors=INK,
+                                          linewidths=0.3))
+        bounds = np.array([f.bounds for f in faces])
+        lo, hi = bounds[:, :2].min(axis=0), bounds[:, 2:].max(axis=0)
+        pad = 0.05 * np.where(hi > lo, hi - lo, 1.0)
+        ax.set_xlim(lo[0] - pad[0], hi[0] + pad[0])
+        ax.set_ylim(lo[1] - pad[1], hi[1] + pad[1])
+    from matplotlib.patches import Patch
+    present = sorted({int(w) for w in wind}, key=lambda w: (-abs(w), -w))[:6]
+    leg = []
+    for w in sorted(present):
+        base = np.array(to_rgb(SLATE if w > 0 else OCHRE))
+        t = 0.0 if w == 0 else 0.35 + 0.65 * abs(w) / lim
+        leg.append(Patch(facecolor=(1 - t) * np.ones(3) + t * base, edgecolor=INK, lw=0.3,
+                         label=f"w = {w:+d}" if w else "w = 0"))
+    if leg:
+        ax.legend(handles=leg, frameon=False, fontsize=7, loc="upper left",
+                  bbox_to_anchor=(1.0, 1.0), title="winding number", title_fontsize=7)
+    ax.set_xlabel(labels[0], color=INK, fontsize=8)
+    ax.set_ylabel(labels[1], color=INK, fontsize=8)
+    _style(ax)
+    ax.set_title(title or "Faces by winding number", color=INK, fontsize=10, loc="left")
+    return ax
+
+
+def cycle_values(cycles, *, ax=None, title="Per-cycle integral", ylabel="value per cycle",
+                 reference=None, reference_label="expected"):
+    """Per-cycle values with their mean and a ±1 standard deviation band (ddof=1).
+
+    ``cycles``: a :class:`~wedgepath.CycleAreas` (its mean and std are drawn:
+    the numbers the text reports) or an array of values (None: no cycle).
+    ``reference`` draws a known or expected value as a dashed line.  Cycles
+    with no value (NaN: a gap) are marked on the axis.
+    """
+    if cycles is None:
+        vals = np.zeros(0)
+        mean = sd = math.nan
+    elif hasattr(cycles, "count") and hasattr(cycles, "mean") and not isinstance(cycles,
+                                                                              np.ndarray):
+        vals = as_float_array(cycles.values,
+                              "values", ndim=1, allow_nan=True)
+        mean, sd = float(cycles.mean), float(cycles.std)
+    else:
+        vals = as_float_array(cycles, "values", ndim=1, allow_nan=True)
+        ok = np.isfinite(vals)
+        mean = float(np.mean(vals[ok])) if ok.any() else math.nan
+        sd = float(np.std(vals[ok], ddof=1)) if ok.sum() > 1 else math.nan
     if reference is not None:
         reference = float(as_float_array(reference, "reference", ndim=0))
     ax = _axes(ax, (8, 3.6))
     k = np.arange(1, vals.size + 1)
     ok = np.isfinite(vals)
-    ax.plot(k[ok], vals[ok], "o-", color=_TEAL, ms=6, lw=0.8, label="cycle")
+    if np.isfinite(mean):
+        if np.isfinite(sd) and sd > 0:
+            ax.axhspan(mean - sd, mean + sd, color=SLATE, alpha=0.13, lw=0,
+                       label=f"±1 std {sd:.3g} (ddof=1)")
+        ax.axhline(mean, color=SLATE, lw=1.4, label=f"mean {mean:.6g}")
+    ax.plot(k[ok], vals[ok], "o-", color=INK, ms=5, lw=0.7, label="cycle", zorder=3)
     if (~ok).any():
         ax.plot(k[~ok], np.full((~ok).sum(), np.nanmin(vals) if ok.any() else 0), "x",
-                color="#8a857b", label="no value")
-    if ok.any():
-        m, sd = float(np.mean(vals[ok])), float(np.std(vals[ok]))
-        ax.axhline(m, color=_ORANGE, lw=1.5, label=f"mean {m:.4g}")
-        if sd > 0:
-            ax.axhspan(m - sd, m + sd, color=_ORANGE, alpha=0.12, lw=0, label=f"+-1 std ({sd:.2g})")
+                color=GREY, label="no value (gap)")
     if reference is not None:
-        ax.axhline(reference, color=_INK, lw=1.2, ls="--", label=f"{reference_label} {reference:.4g}")
-    ax.set_xlabel("cycle")
-    ax.set_ylabel(ylabel)
-    ax.set_title(title, color=_INK)
+        ax.axhline(reference, color=OCHRE, lw=1.3, ls="--",
+                   label=f"{_literal(reference_label)} {reference:.6g}")
+    if not vals.size:
+        ax.text(0.5, 0.5, "no complete cycle", transform=ax.transAxes, ha="center",
+                va="center", color=INK)
+    ax.set_xlabel("cycle", color=INK, fontsize=8)
+    ax.set_ylabel(_literal(ylabel), color=INK, fontsize=8)
+    ax.set_title(_literal(title), color=INK, fontsize=10, loc="left")
     if vals.size:
         ax.set_xlim(0.4, vals.size + 0.6)
     from matplotlib.ticker import MaxNLocator
     ax.xaxis.set_major_locator(MaxNLocator(integer=True))
-    ax.legend(frameon=False, fontsize=8, loc="upper left", bbox_to_anchor=(1.01, 1.0))
+    _style(ax)
+    if ax.get_legend_handles_labels()[0]:
+        ax.legend(frameon=False, fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0))
     return ax
 
 
-def _png(fig):
-    _, plt, _ = _mpl()
-    buf = io.BytesIO()
-    fig.tight_layout()
-    fig.savefig(buf, format="png", facecolor="white")
-    plt.close(fig)
-    return buf.getvalue()
+def loop_overview(report, *, reference=None, reference_label="expected"):
+    """The figure of a :class:`~wedgepath.report.LoopReport`: the loop and what it measures.
 
-
-def _with_unit(name, units):
-    """``name [unit]`` (text from the data: escaped by :func:`_labels` where it is drawn)."""
-    unit = (units or {}).get(name)
-    return f"{name} [{unit}]" if unit else str(name)
-
-
-def _literal_text():
-    """rc settings under which labels are plain text (a user's usetex would read LaTeX)."""
-    matplotlib, _, _ = _mpl()
-    return matplotlib.rc_context({"text.usetex": False})
-
-
-def leadlag_figures(report, units=None) -> dict:
-    """PNG files (name -> bytes) for a lead-lag report made by the command line.
-
-    ``units`` maps column names (channels or the time column) to units for the axis labels.
-    A report without a cyclic order (a zero area matrix) gets a ``phases.png`` that says so.
-    Names and units are drawn literally (a ``$`` is not math).
+    Left: the recorded curve with its direction, one shade per cycle
+    (:func:`loop_path`).  Right: the faces by winding number when they tell
+    something (lobes of opposite sign on a curve traced about once, see
+    ``LoopReport.faces_informative``), drawn on their own axes (the closed
+    curve that was measured, e.g. detrended), else the per-cycle values
+    (:func:`cycle_values`).  Returns the Figure.
     """
-    with _literal_text():
-        return _leadlag_figures(report, units)
-
-
-def _leadlag_figures(report, units):
-    names = report["channels"]
-    A = np.asarray(report["area_matrix"], dtype=float)
-    idx = {nm: k for k, nm in enumerate(names)}
-    co = report["cyclic_order"]
-    order = None if co is None else [idx[nm] for nm in co["order"]]
-    label = "lead strength" if report.get("normalize") else "oriented area A[i, j]"
-    out = {}
-    ax = lead_heatmap(A, names, order, label=label,
-                      title="Lead matrix" + ("" if co is None else ", channels in cyclic order"))
-    out["lead_matrix.png"] = _png(ax.figure)
-    if co is None:
-        # always drawn (the set of files is known before the run): says why it is empty
-        _, plt, _ = _mpl()
-        fig, ax = plt.subplots(figsize=(5.5, 5.5), dpi=110)
-        ax.axis("off")
-        ax.text(0.5, 0.5, "No cyclic order:\nthe area matrix is zero\n(no channel leads "
-                "another)", ha="center", va="center", color=_INK, transform=ax.transAxes)
-        out["phases.png"] = _png(fig)
+    _, plt = _mpl()
+    x, y = report.names
+    labels = (_unit_label(x, report.units), _unit_label(y, report.units))   # escaped there
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(12, 4.8), dpi=110,
+                                 gridspec_kw={"width_ratios": [1.1, 1]}, layout="constrained")
+    sa = report.signed_area
+    dec = report.decomposition
+    if dec.mixed_signs and dec.cancellation >= 0.01:
+        turn = "lobes turning both ways"
     else:
-        ph = np.array([co["positions_rad"][nm] for nm in names])
-        mod = np.array([co["moduli"][nm] for nm in names])
-        ax = phase_circle(ph, names, mod, order,
-                          title=f"Phase of each channel (fit {co['fit']:.2f})")
-        out["phases.png"] = _png(ax.figure)
-    if "rolling" in report:
-        r = report["rolling"]
-        tcol = (report.get("input") or {}).get("time_column")
-        xlabel = ("window centre, " + _literal(_with_unit(tcol, units))) if tcol else \
-            "window centre (sample number)"
-        ax = rolling_lead(r["start_time"], r["end_time"], r["areas"], names,
-                          title=f"Rolling lead, windows of {r['window']} samples "
-                                "(raw areas)" if report.get("normalize") else
-                                f"Rolling lead, windows of {r['window']} samples",
-                          xlabel=xlabel)
-        out["rolling_lead.png"] = _png(ax.figure)
-    return out
-
-
-def loop_figures(xy, names, report, closure="chord", units=None, reference=None,
-                 reference_label="expected", decomposition=None) -> dict:
-    """PNG files (name -> bytes) for a loop report made by the command line.
-
-    ``loop.png``: the faces by winding number beside the curve itself with its
-    direction; ``cycles.png``: the per-cycle values (``reference``: a known
-    value to draw beside them; an empty chart when there is no complete
-    cycle).  ``units`` maps the two names to units.  ``decomposition``: the
-    curve's :func:`~wedgepath.decompose` when already computed.  Names and
-    units are drawn literally (a ``$`` is not math).
-    """
-    with _literal_text():
-        return _loop_figures(xy, names, report, closure, units, reference, reference_label,
-                             decomposition)
-
-
-def _loop_figures(xy, names, report, closure, units, reference, reference_label,
-                  decomposition):
-    from .planar import decompose
-    _, plt, _ = _mpl()
-    out = {}
-    labels = [_with_unit(n, units) for n in names]
-    dec = decomposition if decomposition is not None else \
-        decompose(np.asarray(xy, dtype=float), closure=closure)
-    fig, (a1, a2) = plt.subplots(1, 2, figsize=(11, 4.8), dpi=110)
-    loop_faces(dec, xy, labels, ax=a1, title="Faces by winding number")
-    loop_path(xy, labels, ax=a2, title="The curve and its direction")
-    fig.suptitle(f"{_literal(names[1])} against {_literal(names[0])}", color=_INK)
-    out["loop.png"] = _png(fig)
-    c = report["cycles"]
-    # always drawn, so that the set of files is known before the run (an empty chart says so)
-    unit = " x ".join(f"[{(units or {}).get(n)}]" for n in names[::-1] if (units or {}).get(n))
-    ax = cycle_bars(c["values"], title=f"{c['quantity']} ({len(c['values'])} cycles)",
-                    ylabel="per cycle" + (f", {_literal(unit)}" if unit else ""),
-                    reference=reference, reference_label=reference_label)
-    if not len(c["values"]):
-        ax.text(0.5, 0.5, "no complete cycle", transform=ax.transAxes, ha="center",
-                va="center", color=_INK)
-    out["cycles.png"] = _png(ax.figure)
-    return out
-
-
-def _degrees(rad):
-    return rad * 180.0 / math.pi
+        turn = "counter-clockwise" if sa > 0 else "clockwise" if sa < 0 else "no net turn"
+    loop_path(report.path, names=labels, cycles=report.cycles, ax=a1,
+              title=f"The recorded curve: {turn}, signed area {sa:.4g}")
+    if report.faces_informative():
+        how = "" if report.closure in ("chord", "none", "require") else \
+            f" (of the curve after closure={report.closure})"
+        loop_faces(report.decomposition, names=labels, ax=a2,
+                   title="Faces by winding number" + how)
+    else:
+        cycle_values(report.cycles, ax=a2, title=f"{report.quantity} per cycle",
+                     ylabel=report._value_label(), reference=reference,
+                     reference_label=reference_label)
+    fig.suptitle(f"{_literal(y)} against {_literal(x)}", color=INK, fontsize=11, x=0.02,
+                 ha="left")
+    return fig

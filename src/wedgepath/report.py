@@ -1,0 +1,1272 @@
+"""Reports: the library's results on one recording, gathered for people and programs.
+
+Two jobs, one function and one report type each:
+
+:func:`leadlag` -> :class:`LeadLagReport`
+    Which channel leads which: the area matrix, the cyclic order with each
+    channel's position in the cycle (radians) and the fit, leaders and
+    laggers, and optionally rolling windows, surrogate significance and a
+    block bootstrap of the positions.
+:func:`loop` -> :class:`LoopReport`
+    A loop in one plane: signed and absolute area, faces and lobes, the
+    per-cycle integral (energy per cycle) and optionally a region integral of
+    a weight formula.
+
+A report holds the library's own result objects (``report.areas`` is the
+:class:`~wedgepath.AreaMatrix`, ``report.order`` the
+:class:`~wedgepath.CyclicOrder`, ...) and renders them four ways:
+
+``to_dict()``
+    The JSON result (``schema`` names the format and its version).
+``tables()``
+    File name -> pandas DataFrame (the CSV tables of the command line).
+``summary()``
+    Text lines for people.
+``figures()``
+    File name -> matplotlib Figure (needs the ``plot`` extra).
+
+The names of the files a report will give are known before computing it:
+:func:`leadlag_files` and :func:`loop_files` (and ``report.planned_files``,
+which agrees with them).  The command line (``wedgepath leadlag``,
+``wedgepath loop``) and the demo are thin layers over this module.
+
+Row numbers: wherever a report names a row of the data (a gap-free stretch,
+a window, a cycle's start without times), it counts data rows from 1, the
+first row after the header, in the text and in the JSON alike.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import warnings
+from dataclasses import dataclass, field
+from typing import Mapping
+
+import numpy as np
+
+__all__ = ["leadlag", "loop", "leadlag_stream", "LeadLagReport", "LoopReport", "leadlag_files",
+           "loop_files", "SCHEMA_VERSION", "ENERGY_FORMS", "WEIGHT_WORK_LIMIT", "weight_levels",
+           "parse_weight"]
+
+#: version of the JSON results (``wedgepath.leadlag/N``, ``wedgepath.loop/N``): it changes
+#: when a key changes meaning or disappears.  3: row numbers (``significance.rows``, the
+#: rows of windows, cycle bounds without times) count from 1, as in the text.
+SCHEMA_VERSION = 3
+
+#: the per-cycle integrals a loop report can give
+ENERGY_FORMS = ("y_dx", "x_dy")
+
+ZERO_MATRIX_NOTE = ("the area matrix is zero: no channel leads another (constant or "
+                    "proportional channels, or no closed stretch); there is no cyclic order")
+
+#: how many pairs the summary lists by name
+LISTED_PAIRS = 10
+
+
+# =========================================================================== file names
+def leadlag_files(figures: bool = False, *, window: bool = False, significance: bool = False,
+                  json_name: str = "result.json") -> list:
+    """The files a lead-lag report gives with these options (``manifest.json`` not included).
+
+    Examples
+    --------
+    >>> from wedgepath import report
+    >>> report.leadlag_files(figures=True, window=True)
+    ['result.json', 'area_matrix.csv', 'pairs.csv', 'rolling.csv', 'positions.png', \
+'pairs.png', 'rolling.png']
+    """
+    names = [json_name, "area_matrix.csv", "pairs.csv"]
+    if window:
+        names.append("rolling.csv")
+    if significance:
+        names += ["pvalues.csv", "qvalues.csv"]
+    if figures:
+        names += ["positions.png", "pairs.png"] + (["rolling.png"] if window else [])
+    return names
+
+
+def loop_files(figures: bool = False, *, json_name: str = "result.json") -> list:
+    """The files a loop report gives (``manifest.json`` not included).
+
+    Examples
+    --------
+    >>> from wedgepath import report
+    >>> report.loop_files(figures=True)
+    ['result.json', 'cycles.csv', 'loop.png', 'cycles.png']
+    """
+    return [json_name, "cycles.csv"] + (["loop.png", "cycles.png"] if figures else [])
+
+
+# =========================================================================== fields
+def _rolling_parts(r):
+    """(areas, first row, last row, start time, stop time) of a RollingAreas (rows from 1)."""
+    return (np.asarray(r.areas, dtype=float), np.asarray(r.start, dtype=np.int64) + 1,
+            np.asarray(r.stop, dtype=np.int64), np.asarray(r.start_time, dtype=float),
+            np.asarray(r.stop_time, dtype=float))
+
+
+def _cycle_parts(c):
+    """(values, start, stop, start time, stop time) of a CycleAreas."""
+    return (np.asarray(c.values, dtype=float), np.asarray(c.start, dtype=float),
+            np.asarray(c.stop, dtype=float), c.start_time, c.stop_time)
+
+
+# =========================================================================== input
+def _unpack(data, times, names, what="data"):
+    """``(values (T, n) float, times or None, names tuple of str)`` of a report's input.
+
+    ``data``: an :class:`~wedgepath.io.Table` (its times and names are used), a pandas
+    DataFrame (its columns name the channels), a :class:`~wedgepath.Path`, or an array
+    (T, n).  The caller's arrays are never changed.
+    """
+    from .calculus import Path
+    from .io import Table
+
+    if isinstance(data, Table):
+        values, t, nm = data.values, data.times, data.names
+    elif isinstance(data, Path):
+        values, t, nm = data.points, data.times, data.names
+    elif hasattr(data, "columns") and hasattr(data, "to_numpy"):   # a pandas DataFrame
+        values, t, nm = data.to_numpy(dtype=float), None, [str(c) for c in data.columns]
+    else:
+        values, t, nm = data, None, None
+    from ._validation import as_float_array
+    values = as_float_array(values, what, ndim=2, allow_nan=True)
+    if times is not None:
+        t = times
+    if t is not None:
+        t = as_float_array(t, "times", ndim=1)
+        if t.shape[0] != values.shape[0]:
+            raise ValueError(f"times has {t.shape[0]} entries for {values.shape[0]} samples")
+    if names is not None:
+        nm = names
+    if nm is None:
+        nm = [str(k) for k in range(values.shape[1])]
+    if isinstance(nm, str) or len(nm) != values.shape[1]:
+        raise ValueError(f"names must name the {values.shape[1]} channels, got {nm!r}")
+    nm = tuple(str(n) for n in nm)
+    if len(set(nm)) != len(nm):
+        raise ValueError(f"names repeat: {list(nm)}")
+    return values, t, nm
+
+
+def _longest_gap_free(values):
+    """Row range [a, b) (from 0) of the longest run without NaN."""
+    good = ~np.isnan(values).any(axis=1)
+    edges = np.flatnonzero(np.diff(np.concatenate(([0], good.view(np.int8), [0]))))
+    if edges.size == 0:
+        return 0, 0
+    starts, stops = edges[0::2], edges[1::2]
+    k = int(np.argmax(stops - starts))
+    return int(starts[k]), int(stops[k])
+
+
+# =========================================================================== text helpers
+def _jsonable(obj):
+    if isinstance(obj, Mapping):
+        return {str(k): _jsonable(v) for k, v in obj.items()}
+    if isinstance(obj, (list, tuple)):
+        return [_jsonable(v) for v in obj]
+    if isinstance(obj, np.ndarray):
+        return _jsonable(obj.tolist())
+    if isinstance(obj, (bool, np.bool_)):
+        return bool(obj)
+    if isinstance(obj, np.integer):
+        return int(obj)
+    if isinstance(obj, (float, np.floating)):
+        v = float(obj)
+        return None if not math.isfinite(v) else v
+    return obj
+
+
+def sig3(v) -> str:
+    """A number to 3 significant digits (``0.028000000000000004`` -> ``0.028``)."""
+    v = float(v)
+    return "nan" if math.isnan(v) else f"{v:.3g}"
+
+
+def _plural(k, word, plural=None):
+    return f"{k} {word if k == 1 else (plural or word + 's')}"
+
+
+def matrix_lines(M, names, indent="  ", digits=4, max_name=16):
+    """A matrix as text with a name column and columns always at least two spaces apart.
+
+    Examples
+    --------
+    >>> from wedgepath.report import matrix_lines
+    >>> print("\\n".join(matrix_lines([[0, -8.122e-05], [8.122e-05, 0]], ["a", "b"])))
+                  a           b
+      a           0  -8.122e-05
+      b   8.122e-05           0
+    """
+    M = np.asarray(M, dtype=float)
+    cells = [[("nan" if math.isnan(v) else f"{v:.{digits}g}") for v in row] for row in M]
+    shown = [n if len(n) <= max_name else n[:max_name - 1] + "…" for n in names]
+    w = max([len(c) for row in cells for c in row] + [len(n) for n in shown] + [1])
+    first = max(len(n) for n in shown)
+    lines = [indent + " " * first + "".join("  " + n.rjust(w) for n in shown)]
+    for n, row in zip(shown, cells):
+        lines.append(indent + n.ljust(first) + "".join("  " + c.rjust(w) for c in row))
+    return lines
+
+
+# =========================================================================== the result mixin
+class _Report:
+    """What every report shares: a short repr, an HTML table for notebooks, file names."""
+
+    __slots__ = ()
+
+    def _summary_items(self):  # pragma: no cover - each report defines it
+        raise NotImplementedError
+
+    def __repr__(self):
+        items = ", ".join(f"{k}={v}" for k, v in self._summary_items())
+        text = f"{type(self).__name__}({items})"
+        return text if len(text) <= 120 else text[:116] + "...)"
+
+    def _repr_html_(self):
+        import html
+        rows = "".join(f"<tr><th style='text-align:left'>{html.escape(k)}</th>"
+                       f"<td>{html.escape(str(v))}</td></tr>" for k, v in self._summary_items())
+        head = f"<b>{html.escape(type(self).__name__)}</b>"
+        try:
+            frame = self.to_frame().head(10)._repr_html_()
+        except ImportError:
+            frame = ""
+        return f"<div>{head}<table>{rows}</table>{frame}</div>"
+
+    def text(self) -> str:
+        """The summary as one string."""
+        return "\n".join(self.summary())
+
+    def files(self, figures: bool = False) -> dict:
+        """Every file of the report (name -> str, bytes, DataFrame or Figure) by its plan.
+
+        The JSON result is text; tables are DataFrames; figures are matplotlib Figures
+        (``wedgepath._outputs.encode`` turns each into bytes).
+        """
+        from ._outputs import json_text
+        out = {self.planned_files(False)[0]: json_text(self.to_dict())}
+        out.update(self.tables())
+        if figures:
+            out.update(self.figures())
+        return out
+
+
+# =========================================================================== lead-lag
+@dataclass(frozen=True, slots=True, repr=False, eq=False)
+class LeadLagReport(_Report):
+    """Which channel leads which, for one recording: the result of :func:`leadlag`.
+
+    Attributes
+    ----------
+    names : tuple of str
+        The channels.
+    samples : int
+        Rows of the recording.
+    closure, normalize : str, str or None
+        The conventions of the area matrix.
+    areas : AreaMatrix
+        The matrix as reported (normalised when ``normalize`` is set).
+    raw : AreaMatrix
+        The oriented areas (the same object as ``areas`` without ``normalize``).
+    order : CyclicOrder or None
+        The cyclic order; None when the area matrix is zero (a note says so).
+    fit_baseline : float or None
+        The fit that independent noise gives for this many channels
+        (:func:`~wedgepath.noise_fit_baseline`).
+    net_lead : numpy.ndarray (n,)
+        Row sums of the matrix: how much each channel leads all the others.
+    top : int
+        How many leaders and laggers the summary lists.
+    rolling : RollingAreas or None
+        Raw areas over sliding windows (``window``, ``step`` samples).
+    significance : SurrogateResult or None
+        Surrogate test of every pair, on the longest gap-free stretch
+        ``significance_rows`` (first and last data row, from 1).
+    bootstrap : BootstrapResult or None
+        Block bootstrap of the area matrix on the same stretch (replicates
+        kept), which gives the intervals of the positions.
+    position_low, position_high : numpy.ndarray (n,) or None
+        Percentile interval (radians, at the bootstrap's confidence) of each
+        channel's position in the cycle, from the cyclic orders of the
+        bootstrap replicates; ``position_low`` may exceed ``position_high``
+        where the interval wraps past 2π.
+    notes : tuple of str
+        Warnings of the library and remarks; the summary prints them.
+    times_given : bool
+        Whether the rows had sample times (else windows are placed by row).
+    time_name : str or None
+        Name of the time column, for labels.
+    units : dict
+        Channel or time column name -> unit text (labels only).
+    source : dict
+        Where the data came from (``table``, ``time_column``), recorded in the JSON.
+    streamed, chunk_rows
+        Whether the table was read in chunks (:func:`leadlag_stream`).
+    """
+
+    names: tuple
+    samples: int
+    closure: str
+    normalize: str | None
+    areas: object
+    raw: object
+    order: object
+    fit_baseline: float | None
+    net_lead: np.ndarray
+    top: int = 3
+    rolling: object = None
+    window: int | None = None
+    step: int | None = None
+    significance: object = None
+    significance_rows: tuple | None = None
+    bootstrap: object = None
+    position_low: np.ndarray | None = None
+    position_high: np.ndarray | None = None
+    notes: tuple = ()
+    times_given: bool = False
+    time_name: str | None = None
+    units: Mapping = field(default_factory=dict)
+    source: Mapping = field(default_factory=dict)
+    streamed: bool = False
+    chunk_rows: int | None = None
+    json_name: str = "result.json"
+
+    # ------------------------------------------------------------------ views
+    @property
+    def matrix(self) -> np.ndarray:
+        """The reported matrix as an array (n, n)."""
+        return np.asarray(self.areas, dtype=float)
+
+    @property
+    def raw_matrix(self) -> np.ndarray:
+        return np.asarray(self.raw, dtype=float)
+
+    def leaders(self):
+        """The ``top`` channels of largest net lead (none for a zero matrix)."""
+        if self.order is None:
+            return []
+        rank = np.argsort(-self.net_lead, kind="stable")
+        return [self.names[i] for i in rank[:min(self.top, len(self.names))]]
+
+    def laggers(self):
+        if self.order is None:
+            return []
+        rank = np.argsort(-self.net_lead, kind="stable")
+        return [self.names[i] for i in rank[::-1][:min(self.top, len(self.names))]]
+
+    def significant_pairs(self, alpha=0.05):
+        """``[(i, j), ...]`` (i < j) with q <= alpha, strongest first."""
+        if self.significance is None:
+            return []
+        q = np.asarray(self.significance.qvalues, dtype=float)
+        M = self.matrix
+        n = len(self.names)
+        pairs = [(i, j) for i in range(n) for j in range(i + 1, n)
+                 if np.isfinite(q[i, j]) and q[i, j] <= alpha]
+        return sorted(pairs, key=lambda ij: (-abs(M[ij]), q[ij]))
+
+    def to_frame(self):
+        """One row per pair i < j, strongest first: ``channel_i, channel_j, area, normalized,
+        direction, p, q, low, high`` (NaN where not computed; ``low``/``high`` the
+        bootstrap interval of the raw area)."""
+        import pandas as pd
+        n = len(self.names)
+        raw, M = self.raw_matrix, self.matrix
+        p = q = lo = hi = None
+        if self.significance is not None:
+            p = np.asarray(self.significance.pvalues, dtype=float)
+            q = np.asarray(self.significance.qvalues, dtype=float)
+        if self.bootstrap is not None:
+            lo = np.asarray(self.bootstrap.low, dtype=float)
+            hi = np.asarray(self.bootstrap.high, dtype=float)
+        rows = []
+        for i in range(n):
+            for j in range(i + 1, n):
+                v = M[i, j]
+                direction = "none" if v == 0 or not np.isfinite(v) else \
+                    ("i leads j" if v > 0 else "j leads i")
+                rows.append({
+                    "i": i, "j": j, "channel_i": self.names[i], "channel_j": self.names[j],
+                    "area": raw[i, j],
+                    "normalized": v if self.normalize else math.nan,
+                    "direction": direction,
+                    "p": p[i, j] if p is not None else math.nan,
+                    "q": q[i, j] if q is not None else math.nan,
+                    "low": lo[i, j] if lo is not None else math.nan,
+                    "high": hi[i, j] if hi is not None else math.nan,
+                })
+        frame = pd.DataFrame(rows, columns=["i", "j", "channel_i", "channel_j", "area",
+                                            "normalized", "direction", "p", "q", "low", "high"])
+        key = frame["normalized"].abs() if self.normalize else frame["area"].abs()
+        return frame.iloc[np.argsort(-key.to_numpy(), kind="stable")].reset_index(drop=True)
+
+    def _summary_items(self):
+        items = [("channels", len(self.names)), ("samples", self.samples),
+                 ("closure", repr(self.closure))]
+        if self.normalize:
+            items.append(("normalize", repr(self.normalize)))
+        if self.order is not None:
+            items.append(("order", "->".join(self.names[k] for k in self.order.order)))
+            items.append(("fit", f"{self.order.fit:.3f}"))
+        if self.significance is not None:
+            items.append(("significant_pairs", len(self.significant_pairs())))
+        return items
+
+    def planned_files(self, figures: bool = False) -> list:
+        """The names of the files of this report (as :func:`leadlag_files` gives them)."""
+        return leadlag_files(figures, window=self.rolling is not None,
+                             significance=self.significance is not None,
+                             json_name=self.json_name)
+
+    # ------------------------------------------------------------------ the JSON
+    def to_dict(self) -> dict:
+        """The JSON result (plain Python: dicts, lists, numbers, None for non-finite)."""
+        from . import __version__
+        names = list(self.names)
+        n = len(names)
+        d = {
+            "schema": f"wedgepath.leadlag/{SCHEMA_VERSION}",
+            "wedgepath_version": __version__,
+            "channels": names,
+            "samples": int(self.samples),
+            "closure": self.closure,
+            "normalize": self.normalize,
+            "area_matrix": self.matrix,
+            "raw_area_matrix": self.raw_matrix,
+        }
+        co = self.order
+        if co is None:
+            d["cyclic_order"] = None
+        else:
+            pos = np.asarray(co.positions, dtype=float)
+            mod = np.asarray(co.moduli, dtype=float)
+            d["cyclic_order"] = {
+                "order": [names[i] for i in co.order],
+                "positions_rad": {names[i]: float(pos[i]) for i in range(n)},
+                "fit": float(co.fit),
+                "noise_fit": self.fit_baseline,
+                "moduli": {names[i]: float(mod[i]) for i in range(n)},
+            }
+            if self.position_low is not None:
+                d["cyclic_order"]["positions_low_rad"] = dict(zip(names, self.position_low))
+                d["cyclic_order"]["positions_high_rad"] = dict(zip(names, self.position_high))
+                d["cyclic_order"]["confidence"] = float(self.bootstrap.confidence)
+        d["net_lead"] = {names[i]: float(self.net_lead[i]) for i in range(n)}
+        d["leaders"] = self.leaders()
+        d["laggers"] = self.laggers()
+        d["notes"] = list(self.notes)
+        if self.rolling is not None:
+            areas, r0, r1, t0, t1 = _rolling_parts(self.rolling)
+            d["rolling"] = {"window": self.window, "step": self.step,
+                            "first_row": r0, "last_row": r1,
+                            "start_time": t0 if self.times_given else r0.astype(float),
+                            "end_time": t1 if self.times_given else r1.astype(float),
+                            "areas": areas}
+        if self.significance is not None:
+            s = self.significance
+            d["significance"] = {
+                "rows": list(self.significance_rows),
+                "method": s.method, "n_surrogates": int(s.n_surrogates),
+                "seed": s.seed,
+                "pvalues": np.asarray(s.pvalues, dtype=float),
+                "qvalues": np.asarray(s.qvalues, dtype=float),
+                "significant_pairs": [[names[i], names[j]] for i, j in self.significant_pairs()],
+            }
+        if self.bootstrap is not None:
+            b = self.bootstrap
+            d["bootstrap"] = {"rows": list(self.significance_rows),
+                              "n_boot": int(b.n_boot), "block": int(b.block),
+                              "confidence": float(b.confidence),
+                              "low": np.asarray(b.low, dtype=float),
+                              "high": np.asarray(b.high, dtype=float)}
+        if self.streamed:
+            d["streamed"] = True
+            d["chunk_rows"] = self.chunk_rows
+        d["input"] = dict(self.source)
+        d["units"] = dict(self.units)
+        return _jsonable(d)
+
+    # ------------------------------------------------------------------ tables
+    def tables(self) -> dict:
+        """CSV tables, file name -> pandas DataFrame.
+
+        ``area_matrix.csv`` (the matrix shown, rows and columns by channel),
+        ``pairs.csv`` (:meth:`to_frame`), ``rolling.csv`` (one row per window:
+        rows, times and the raw ``A[i, j]`` of every pair ``i|j``),
+        ``pvalues.csv``/``qvalues.csv`` (matrix layout).
+        """
+        import pandas as pd
+        names = list(self.names)
+
+        def matrix(M):
+            f = pd.DataFrame(np.asarray(M, dtype=float), index=names, columns=names)
+            f.index.name = "channel"
+            return f
+        out = {"area_matrix.csv": matrix(self.matrix), "pairs.csv": self.to_frame()}
+        if self.rolling is not None:
+            areas, r0, r1, t0, t1 = _rolling_parts(self.rolling)
+            n = len(names)
+            cols = {"first_row": r0, "last_row": r1}
+            if self.times_given:
+                cols["start_time"], cols["end_time"] = t0, t1
+            for i in range(n):
+                for j in range(i + 1, n):
+                    cols[f"{names[i]}|{names[j]}"] = areas[:, i, j]
+            out["rolling.csv"] = pd.DataFrame(cols)
+        if self.significance is not None:
+            out["pvalues.csv"] = matrix(self.significance.pvalues)
+            out["qvalues.csv"] = matrix(self.significance.qvalues)
+        return out
+
+    # ------------------------------------------------------------------ text
+    def summary(self) -> list:
+        """The report for people, as text lines."""
+        names = list(self.names)
+        n = len(names)
+        what = f"lead strength ({self.normalize})" if self.normalize else "area matrix"
+        lines = [f"{n} channels, {self.samples} samples, closure={self.closure}"
+                 + (f", read in chunks of {self.chunk_rows} rows" if self.streamed else ""),
+                 f"\n{what}: A[i, j] > 0 means row i leads column j"]
+        lines += matrix_lines(self.matrix, names)
+        co = self.order
+        if co is None:
+            lines.append("\nno channel leads another: the area matrix is zero")
+        elif n == 2:
+            M = self.matrix
+            a, b = (0, 1) if M[0, 1] >= 0 else (1, 0)
+            lines.append(f"\n{names[a]} leads {names[b]} (A = {abs(M[0, 1]):.6g})")
+        else:
+            seq = [names[i] for i in co.order]
+            lines.append("\ncyclic order (each leads the next): " + " -> ".join(seq)
+                         + f" -> {seq[0]}")
+            pos = np.asarray(co.positions, dtype=float)
+            ref = int(co.order[0])
+            if self.position_low is None:
+                shown = ", ".join(f"{names[i]} {pos[i]:.2f}" for i in co.order[1:])
+            else:
+                shown = ", ".join(f"{names[i]} {pos[i]:.2f} [{self.position_low[i]:.2f}, "
+                                  f"{self.position_high[i]:.2f}]" for i in co.order[1:])
+            lines.append(f"positions in the cycle after {names[ref]} (rad, 0 to 2π; they keep "
+                         "the order, not the delays): " + shown)
+            if self.position_low is not None:
+                wraps = bool(np.any(self.position_low > self.position_high))
+                lines.append(f"  [low, high]: {100 * float(self.bootstrap.confidence):.0f}% "
+                             f"interval from {self.bootstrap.n_boot} block-bootstrap replicates "
+                             f"(blocks of {self.bootstrap.block} samples)"
+                             + ("; low > high: the interval wraps past 2π" if wraps else ""))
+            fit, base = float(co.fit), self.fit_baseline
+            verdict = ("well above" if fit >= base + 0.5 * (1 - base) else
+                       "above" if fit > base + 0.1 * (1 - base) else "not above")
+            if n <= 3:
+                lines.append(f"fit {fit:.3f}: always 1 for {n} channels (it says nothing here)")
+            else:
+                lines.append(f"fit {fit:.3f}: {verdict} the {base:.2f} that independent noise "
+                             f"gives for {n} channels" + ("" if verdict != "not above" else
+                                                          " (treat the order with caution)"))
+            lines.append("strongest leaders: " + ", ".join(self.leaders()))
+            lines.append("strongest laggers: " + ", ".join(self.laggers()))
+        if self.rolling is not None:
+            K = len(np.asarray(self.rolling))
+            lines.append(f"\nrolling windows: {_plural(K, 'window')} of {self.window} samples, "
+                         f"step {self.step} (raw areas)")
+        if self.significance is not None:
+            s = self.significance
+            pairs = self.significant_pairs()
+            q = np.asarray(s.qvalues, dtype=float)
+            M = self.matrix
+            head = (f"\nsignificance ({s.method} surrogates, {s.n_surrogates}, seed "
+                    f"{s.seed}): {_plural(len(pairs), 'pair')} at 5% false "
+                    "discovery rate")
+            if len(pairs) > LISTED_PAIRS:
+                head += f"; the {LISTED_PAIRS} strongest:"
+            elif pairs:
+                head += ":"
+            lines.append(head)
+            for i, j in pairs[:LISTED_PAIRS]:
+                a, b = (i, j) if M[i, j] > 0 else (j, i)
+                lines.append(f"  {names[a]} leads {names[b]}: A = {abs(M[i, j]):.4g}, "
+                             f"q = {sig3(q[i, j])}")
+        for note in self.notes:
+            lines.append("note: " + note)
+        return lines
+
+    # ------------------------------------------------------------------ figures
+    def figures(self) -> dict:
+        """Figures, file name -> matplotlib Figure (needs matplotlib).
+
+        ``positions.png``: each channel's position in the cycle on a line from 0 to
+        2π rad, one row per channel in cyclic order, with its bootstrap interval and
+        its share in the cycle; ``pairs.png``: every pair's lead with its direction
+        and significance; ``rolling.png`` (with windows): small multiples of the
+        strongest pairs' raw areas over the windows.
+        """
+        from . import plotting
+        with plotting.literal_text():
+            out = {"positions.png": plotting.cycle_positions(
+                       self.order, names=self.names, low=self.position_low,
+                       high=self.position_high, rolling=self.rolling,
+                       fit_baseline=self.fit_baseline,
+                       confidence=None if self.bootstrap is None else
+                       float(self.bootstrap.confidence)).figure,
+                   "pairs.png": plotting.pair_chart(
+                       self.areas, raw=self.raw, significance=self.significance,
+                       bootstrap=self.bootstrap).figure}
+            if self.rolling is not None:
+                tcol = self.time_name
+                xlabel = (f"window centre, {plotting.with_unit(tcol, self.units)}"
+                          if self.times_given and tcol else
+                          "window centre, time" if self.times_given else
+                          "window centre (data row)")
+                out["rolling.png"] = plotting.rolling_pairs(
+                    self.rolling, names=self.names, xlabel=xlabel,
+                    rows=not self.times_given,
+                    title=f"Rolling lead: raw areas A[i, j] in windows of {self.window} "
+                          f"samples, step {self.step}")
+        return out
+
+
+def _order_of(A, names):
+    """(CyclicOrder or None, fit baseline or None, notes) of a matrix."""
+    from .signals import cyclic_order
+    from .signals.order import noise_fit_baseline
+    Afin = np.nan_to_num(np.asarray(A, dtype=float), nan=0.0)
+    if not np.any(Afin):
+        return None, None, [ZERO_MATRIX_NOTE]
+    co = cyclic_order(Afin)
+    return co, float(noise_fit_baseline(len(names))), []
+
+
+def _position_intervals(order, boot, confidence):
+    """Percentile intervals of each channel's position from the bootstrap replicates.
+
+    Each replicate's cyclic order is taken from the same reference channel; the
+    deviations from the estimate's positions are wrapped into (-π, π] so that an
+    interval may cross 0 = 2π.
+    """
+    from .signals import cyclic_order
+    reps = np.asarray(boot.replicates, dtype=float)
+    ref = int(order.order[0])
+    est = np.asarray(cyclic_order(np.asarray(boot.estimate, dtype=float), start=ref).positions)
+    devs = []
+    for R in reps:
+        if not np.any(R):
+            continue
+        p = np.asarray(cyclic_order(R, start=ref).positions)
+        devs.append(np.angle(np.exp(1j * (p - est))))
+    devs = np.asarray(devs)
+    a = (1 - confidence) / 2
+    lo = np.quantile(devs, a, axis=0)
+    hi = np.quantile(devs, 1 - a, axis=0)
+    base = np.asarray(order.positions, dtype=float)
+    two_pi = 2 * np.pi
+    return np.mod(base + lo, two_pi), np.mod(base + hi, two_pi)
+
+
+def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, window=None,
+            step=None, n_surrogates=None, surrogate_method="shift", seed=0, n_boot=None,
+            confidence=0.95, top=3, progress=None, tol=None, time_name=None, units=None,
+            source=None) -> LeadLagReport:
+    """The lead-lag report of a recording.
+
+    Parameters
+    ----------
+    data : io.Table, pandas DataFrame, Path or array_like (T, n)
+        The channels (NaN rows are gaps).
+    times : array_like (T,), optional
+        Sample times (default: those of ``data``, if any).
+    names : sequence of str, optional
+        Channel names (default: from ``data``, else ``"0", "1", ...``).
+    closure, normalize, tol
+        As for :func:`~wedgepath.area_matrix`.
+    window, step : int, optional
+        Also compute raw area matrices over sliding windows of ``window``
+        samples (``step`` defaults to ``window // 4``).
+    n_surrogates : int, optional
+        Test every pair against this many surrogates
+        (:func:`~wedgepath.surrogate_test`, ``surrogate_method``, ``seed``).
+    n_boot : int, optional
+        Block-bootstrap the area matrix this many times
+        (:func:`~wedgepath.bootstrap_area`, ``confidence``, ``seed``) and give
+        each channel's position in the cycle an interval.
+    top : int
+        Leaders and laggers listed.
+    progress : bool or None
+        Progress indicator for the surrogates and the bootstrap.
+    time_name, units, source
+        Labels: the time column's name, units of columns, where the data came from.
+
+    Returns
+    -------
+    LeadLagReport
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from wedgepath import report
+    >>> t = np.linspace(0, 6 * np.pi, 600)
+    >>> X = np.column_stack([np.sin(t), np.sin(t - 1), np.sin(t - 2)])
+    >>> r = report.leadlag(X, names=["a", "b", "c"])
+    >>> [line for line in r.summary() if "cyclic order" in line]
+    ['\\ncyclic order (each leads the next): c -> a -> b -> c']
+    >>> r.to_dict()["schema"], r.planned_files()
+    ('wedgepath.leadlag/3', ['result.json', 'area_matrix.csv', 'pairs.csv'])
+    """
+    from .signals import area_matrix, bootstrap_area, rolling_area_matrix
+
+    values, times, names = _unpack(data, times, names)
+    n = values.shape[1]
+    if n < 2:
+        raise ValueError(f"lead-lag needs at least 2 channels, got {n}")
+    if window is None and step is not None:
+        raise ValueError("step needs window")
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        A = area_matrix(values, times=times, closure=closure, normalize=normalize,
+                        names=list(names), tol=tol)
+        raw = A if normalize is None else area_matrix(values, times=times, closure=closure,
+                                                      names=list(names), tol=tol)
+    notes = [str(w.message) for w in caught]
+    order, base, more = _order_of(A, names)
+    notes += more
+    M = np.nan_to_num(np.asarray(A, dtype=float), nan=0.0)
+    kw = dict(names=names, samples=int(values.shape[0]), closure=closure, normalize=normalize,
+              areas=A, raw=raw, order=order, fit_baseline=base, net_lead=M.sum(axis=1),
+              top=int(top), times_given=times is not None, time_name=time_name,
+              units=dict(units or {}), source=dict(source or {}))
+    if window is not None:
+        st = step if step is not None else max(1, window // 4)
+        if window > values.shape[0]:
+            raise ValueError(f"window={window} is longer than the {values.shape[0]} samples")
+        kw["rolling"] = rolling_area_matrix(values, window, st, times=times, names=list(names))
+        kw["window"], kw["step"] = int(window), int(st)
+        if normalize is not None:
+            notes.append("rolling windows hold raw areas A[i, j]; the normalisation applies "
+                         "to the whole-recording matrix only")
+    if n_surrogates is not None or n_boot is not None:
+        a, b = _longest_gap_free(values)
+        if b - a < (8 if n_boot is not None else 4):
+            raise ValueError("significance needs a gap-free stretch of at least "
+                             f"{8 if n_boot is not None else 4} samples")
+        if (a, b) != (0, values.shape[0]):
+            notes.append(f"surrogates and the bootstrap use the longest gap-free stretch, "
+                         f"rows {a + 1}-{b} of {values.shape[0]}")
+        kw["significance_rows"] = (a + 1, b)
+        part = values[a:b]
+        tpart = None if times is None else times[a:b]
+        if n_surrogates is not None:
+            from .signals import surrogate_test
+            kw["significance"] = surrogate_test(part, method=surrogate_method,
+                                                n_surrogates=n_surrogates, seed=seed,
+                                                times=tpart, progress=progress,
+                                                names=list(names))
+        if n_boot is not None:
+            boot = bootstrap_area(part, n_boot=n_boot, confidence=confidence, seed=seed,
+                                  keep=True, progress=progress, names=list(names))
+            kw["bootstrap"] = boot
+            if order is not None:
+                kw["position_low"], kw["position_high"] = _position_intervals(order, boot,
+                                                                              confidence)
+    kw["notes"] = tuple(notes)
+    return LeadLagReport(**kw)
+
+
+def leadlag_stream(source, *, columns=None, time_column=None, delimiter=None,
+                   chunk_rows=50_000, top=3, progress=None, units=None,
+                   table_label=None) -> LeadLagReport:
+    """The lead-lag report of a table read in chunks (area matrix and cyclic order only).
+
+    Memory stays about one chunk whatever the file's length
+    (:func:`wedgepath.io.stream_area_matrix`).  ``progress`` shows the rows read
+    (None: for files, estimated from their size).
+    """
+    from .io import stream_area_matrix
+
+    A = stream_area_matrix(source, columns=columns, time_column=time_column,
+                           delimiter=delimiter, chunk_rows=chunk_rows, progress=progress)
+    names = tuple(A.names)
+    order, base, notes = _order_of(A, names)
+    M = np.nan_to_num(np.asarray(A, dtype=float), nan=0.0)
+    return LeadLagReport(names=names, samples=int(A.samples), closure="chord", normalize=None,
+                         areas=A, raw=A, order=order, fit_baseline=base,
+                         net_lead=M.sum(axis=1), top=int(top), notes=tuple(notes),
+                         times_given=time_column is not None, time_name=time_column,
+                         units=dict(units or {}),
+                         source={"table": table_label if table_label is not None else
+                                 str(source), "time_column": time_column},
+                         streamed=True, chunk_rows=int(chunk_rows))
+
+
+# =========================================================================== weights
+#: work units (about nanoseconds of numpy on one core) that integrating a weight may take:
+#: evaluation points x (formula.POINT_OVERHEAD + formula.evaluation_cost(formula)); see
+#: docs/cli.md and benchmarks/bench_formulas.py
+WEIGHT_WORK_LIMIT = 1e9
+#: the library's default refinement depth of adaptive region integrals
+_ADAPTIVE_LEVELS = 30
+#: points of the first adaptive pass per segment (4x4 and 5x5 Gauss rules)
+_ADAPTIVE_POINTS = 41
+#: work units per point of adaptive integration on top of the formula (the bookkeeping of
+#: the cells; measured by benchmarks/bench_formulas.py)
+ADAPTIVE_OVERHEAD = 40
+
+
+def parse_weight(text, symbols):
+    """A weight formula as sympy (the safe parser); errors start ``weight:``."""
+    from .formula import parse_formula
+    try:
+        return parse_formula(text, {s.name: s for s in symbols})
+    except ValueError as exc:
+        raise ValueError("weight: " + str(exc).removeprefix("formula: ")) from None
+
+
+def _segments(xy):
+    """Segments of the closed loop (an upper bound): one per complete sample."""
+    return int((~np.isnan(xy).any(axis=1)).sum())
+
+
+def weight_levels(expr, symbols, segments, limit=None):
+    """Refinement levels that keep integrating ``expr`` over ``segments`` within the work limit.
+
+    A polynomial weight is integrated exactly with a fixed number of points per
+    segment: refused (ValueError) when they cost more than the limit.  Any other
+    weight is integrated adaptively; each level of refinement at most doubles
+    the cells, so ``L`` levels cost at most ``(2**(L+1) - 1)`` times the first
+    pass, and ``L`` is the largest that stays within the limit (at most the
+    library's 30).
+    """
+    from .calculus.forms import Coefficient
+    from .calculus.quadrature import points_needed
+    from .formula import POINT_OVERHEAD, evaluation_cost
+
+    limit = WEIGHT_WORK_LIMIT if limit is None else limit
+    try:
+        coef = Coefficient.from_sympy(expr, symbols)
+    except ValueError as exc:
+        raise ValueError("weight: " + str(exc).replace("form coefficient", "the formula")) \
+            from None
+    if coef.kind == "constant" or segments == 0:
+        return _ADAPTIVE_LEVELS
+    per_point = POINT_OVERHEAD + evaluation_cost(expr)
+    if coef.poly_degree is not None:
+        d = coef.poly_degree
+        points = segments * points_needed(d + 1) * points_needed(d)
+        if points * per_point > limit:
+            raise ValueError(f"weight: exact integration of this degree-{d} polynomial over "
+                             f"{segments} segments takes {points:.3g} evaluations of "
+                             f"{per_point} work units each, above the limit of {limit:.0e} "
+                             "units; use a formula of lower degree or fewer samples")
+        return _ADAPTIVE_LEVELS
+    per_point += ADAPTIVE_OVERHEAD
+    first = segments * _ADAPTIVE_POINTS * per_point
+    if first > limit:
+        raise ValueError(f"weight: one pass of adaptive integration over {segments} segments "
+                         f"takes {segments * _ADAPTIVE_POINTS:.3g} evaluations of {per_point} "
+                         f"work units each, above the limit of {limit:.0e} units; use a "
+                         "simpler formula or fewer samples")
+    return int(min(_ADAPTIVE_LEVELS, math.floor(math.log2(limit / first + 1)) - 1))
+
+
+def _weight_evaluations(expr):
+    """Evaluations of the weight formula that fit within the work limit."""
+    from .formula import POINT_OVERHEAD, evaluation_cost
+    return max(1, int(WEIGHT_WORK_LIMIT // (POINT_OVERHEAD + evaluation_cost(expr)
+                                            + ADAPTIVE_OVERHEAD)))
+
+
+def _weight_message(msg, weight):
+    """A library error of the weight's integral, in the report's words."""
+    import re
+    m = re.match(r"f is not finite at the point \[(.*?)\](.*)$", msg)
+    if m:
+        return f"weight {weight!r} is not finite at (x, y) = ({m.group(1)}){m.group(2)}"
+    if "overflows float64" in msg:
+        return (f"the region integral of weight {weight!r} overflows float64: the weight's "
+                "values or the coordinates are too large (rescale the data or the formula)")
+    return msg
+
+
+# =========================================================================== loop
+@dataclass(frozen=True, slots=True, repr=False, eq=False)
+class LoopReport(_Report):
+    """A loop in one plane: the result of :func:`loop`.
+
+    Attributes
+    ----------
+    names : tuple of str
+        ``(x, y)``: the horizontal and the vertical channel.
+    path : Path
+        The recorded curve (as given: never the detrended or closed one).
+    closure : str
+        How each gap-free piece was closed.
+    signed_area : float
+        ½∮(x dy − y dx), counter-clockwise positive.
+    decomposition : Decomposition
+        Faces, winding numbers and lobes of the closed curve.
+    moments : RegionMoments
+    cycles : CycleAreas or None
+        The per-cycle integral ``quantity`` of each cycle cut at the upward
+        crossings of ``cycles_by``; None when that channel is constant.
+    energy : str
+        ``"y_dx"`` (∮ y dx per cycle) or ``"x_dy"`` (∮ x dy).
+    weight, weighted : str, Integral or None
+        The weight formula and its region integral.
+    notes, times_given, time_name, units, source
+        As in :class:`LeadLagReport`.
+    """
+
+    names: tuple
+    path: object
+    closure: str
+    signed_area: float
+    decomposition: object
+    moments: object
+    cycles: object
+    cycles_by: str
+    energy: str = "y_dx"
+    level: float | None = None
+    hysteresis: float = 0.0
+    weight: str | None = None
+    weighted: object = None
+    notes: tuple = ()
+    times_given: bool = False
+    time_name: str | None = None
+    units: Mapping = field(default_factory=dict)
+    source: Mapping = field(default_factory=dict)
+    json_name: str = "result.json"
+
+    @property
+    def x(self):
+        return self.names[0]
+
+    @property
+    def y(self):
+        return self.names[1]
+
+    @property
+    def samples(self) -> int:
+        return int(np.asarray(self.path.points).shape[0])
+
+    @property
+    def quantity(self) -> str:
+        """Which integral the per-cycle values are, in the channels' names."""
+        x, y = self.names
+        return f"∮ {y} d({x})" if self.energy == "y_dx" else f"∮ {x} d({y})"
+
+    def cycle_stats(self):
+        """(values, count, mean, std with ddof=1) of the per-cycle integral."""
+        if self.cycles is None:
+            return np.zeros(0), 0, math.nan, math.nan
+        values = _cycle_parts(self.cycles)[0]
+        return values, int(self.cycles.count), float(self.cycles.mean), float(self.cycles.std)
+
+    def _bounds(self):
+        """(start, stop) of each cycle: times, or data rows from 1 without times."""
+        if self.cycles is None:
+            return np.zeros(0), np.zeros(0)
+        _, s0, s1, t0, t1 = _cycle_parts(self.cycles)
+        if self.times_given and t0 is not None:
+            return np.asarray(t0, dtype=float), np.asarray(t1, dtype=float)
+        return s0 + 1.0, s1 + 1.0
+
+    def to_frame(self):
+        """One row per cycle: ``cycle, start, stop, value, complete`` (start and stop as
+        times, or as data rows counted from 1 -- fractional between rows -- without times)."""
+        import pandas as pd
+        values = self.cycle_stats()[0]
+        start, stop = self._bounds()
+        return pd.DataFrame({"cycle": np.arange(1, values.size + 1), "start": start,
+                             "stop": stop, "value": values, "complete": np.isfinite(values)})
+
+    def _summary_items(self):
+        values, count, mean, std = self.cycle_stats()
+        items = [("x", self.x), ("y", self.y), ("samples", self.samples),
+                 ("closure", repr(self.closure)), ("signed_area", f"{self.signed_area:.6g}"),
+                 ("cycles", count)]
+        if count:
+            items.append(("mean", f"{mean:.6g}"))
+        return items
+
+    def planned_files(self, figures: bool = False) -> list:
+        return loop_files(figures, json_name=self.json_name)
+
+    def faces_informative(self) -> bool:
+        """Whether a picture of the faces tells something the curve does not.
+
+        True when the curve has lobes of opposite sign (a figure-eight, a
+        twisted loop) and is traced about once (no winding number beyond
+        ±2); a loop traced many times gives nested faces that only repeat its
+        outline.
+        """
+        dec = self.decomposition
+        w = np.asarray(dec.winding)
+        return bool(dec.mixed_signs and w.size and np.abs(w).max() <= 2
+                    and dec.cancellation >= 0.01)
+
+    # ------------------------------------------------------------------ the JSON
+    def to_dict(self) -> dict:
+        from . import __version__
+        dec = self.decomposition
+        values, count, mean, std = self.cycle_stats()
+        start, stop = self._bounds()
+        centroid = getattr(self.moments, "centroid", None)
+        d = {
+            "schema": f"wedgepath.loop/{SCHEMA_VERSION}",
+            "wedgepath_version": __version__,
+            "x": self.x, "y": self.y,
+            "samples": self.samples,
+            "closure": self.closure,
+            "signed_area": float(self.signed_area),
+            "absolute_area": float(dec.absolute_area),
+            "area_by_winding": {str(k): float(v)
+                                for k, v in sorted(dec.area_by_winding.items())},
+            "faces": int(len(dec.faces)),
+            "lobes": [{"sign": int(lb.sign), "signed_area": float(lb.signed_area),
+                       "area": float(lb.area), "faces": int(lb.n_faces)} for lb in dec.lobes],
+            "mixed_signs": bool(dec.mixed_signs),
+            "cancellation": float(dec.cancellation),
+            "centroid": None if centroid is None else [float(c) for c in centroid],
+            "notes": list(self.notes),
+            "cycles": {"reference": self.cycles_by, "quantity": self.quantity,
+                       "energy": self.energy, "count": count, "values": values,
+                       "start": start, "stop": stop,
+                       "bounds": "time" if self.times_given else "row",
+                       "mean": mean, "std": std, "ddof": 1},
+        }
+        if self.weighted is not None:
+            r = self.weighted
+            d["weighted_integral"] = {"formula": self.weight, "value": float(r),
+                                      "error": r.error, "exact": r.exact, "method": r.method}
+        d["input"] = dict(self.source)
+        d["units"] = dict(self.units)
+        return _jsonable(d)
+
+    def tables(self) -> dict:
+        """``cycles.csv``: :meth:`to_frame` (one row per cycle)."""
+        return {"cycles.csv": self.to_frame()}
+
+    # ------------------------------------------------------------------ text
+    def summary(self) -> list:
+        dec = self.decomposition
+        lines = [f"loop of {self.y} (vertical) against {self.x} (horizontal), "
+                 f"{self.samples} samples, closure={self.closure}",
+                 f"\nsigned area (counter-clockwise > 0): {self.signed_area:.6g}",
+                 f"absolute area (|winding| weighted):  {dec.absolute_area:.6g}",
+                 f"faces: {len(dec.faces)}, lobes: {len(dec.lobes)}"]
+        items = sorted(dec.area_by_winding.items())
+        if items:
+            shown = items if len(items) <= 10 else \
+                sorted(sorted(items, key=lambda kv: -abs(kv[1]))[:8])
+            more = f" (the {len(shown)} largest of {len(items)}; all in the JSON result)" \
+                if len(shown) < len(items) else ""
+            lines.append("area by winding number" + more + ": " + ", ".join(
+                f"{k}: {v:.4g}" for k, v in shown))
+        for k, lb in enumerate(dec.lobes[:6]):
+            lines.append(f"  lobe {k + 1}: {'counter-clockwise' if lb.sign > 0 else 'clockwise'}, "
+                         f"signed area {lb.signed_area:.4g} over {_plural(lb.n_faces, 'face')}")
+        if dec.mixed_signs and dec.cancellation >= 0.01:
+            lines.append(f"warning: lobes of opposite sign cancel {100 * dec.cancellation:.0f}% "
+                         "of the absolute area; the net area alone hides them")
+        elif dec.mixed_signs:
+            lines.append(f"note: small lobes of opposite sign ({100 * dec.cancellation:.2g}% of "
+                         "the absolute area), typically made by noise where the curve crosses "
+                         "itself")
+        values, count, mean, std = self.cycle_stats()
+        lines.append(f"\ncycles (upward crossings of {self.cycles_by}): {count} complete")
+        if count:
+            lines.append(f"{self.quantity} per cycle: mean {mean:.6g}, "
+                         + (f"std {std:.3g} (ddof=1)" if count > 1 else "no spread (one cycle)"))
+        if self.weighted is not None:
+            r = self.weighted
+            how = "exact" if r.exact else f"error estimate {r.error:.2g}"
+            lines.append(f"\nregion integral of {self.weight}: {float(r):.8g} ({how})")
+        for note in self.notes:
+            lines.append("note: " + note)
+        return lines
+
+    # ------------------------------------------------------------------ figures
+    def figures(self, reference=None, reference_label="expected") -> dict:
+        """Figures, file name -> matplotlib Figure (needs matplotlib).
+
+        ``loop.png``: the recorded curve in its own units, one shade per cycle,
+        with arrows for its direction; beside it the faces by winding number
+        when they tell something (:meth:`faces_informative`; drawn on their own
+        axes, of the closed curve that was measured), else the per-cycle values.
+        ``cycles.png``: the per-cycle values with their mean and ±1 standard
+        deviation (ddof=1, as in the text); ``reference`` draws a known value.
+        """
+        from . import plotting
+        with plotting.literal_text():
+            return {"loop.png": plotting.loop_overview(self, reference=reference,
+                                                       reference_label=reference_label),
+                    "cycles.png": plotting.cycle_values(
+                        self.cycles, ax=None, title=f"{self.quantity} per cycle",
+                        ylabel=self._value_label(), reference=reference,
+                        reference_label=reference_label).figure}
+
+    def _value_label(self):
+        ux, uy = (self.units.get(n) for n in self.names)
+        unit = " x ".join(u for u in ((uy, ux) if self.energy == "y_dx" else (ux, uy)) if u)
+        return "value per cycle" + (f" [{unit}]" if unit else "")
+
+
+def _decompose(path, closure, max_crossings, progress):
+    """decompose, with a refusal for size that says what to pass."""
+    from .planar import decompose
+    from .planar.arrangement import MAX_CROSSINGS, ArrangementTooLarge
+
+    limit = MAX_CROSSINGS if max_crossings is None else max_crossings
+    try:
+        return decompose(path, closure=closure, max_crossings=limit, progress=progress)
+    except ArrangementTooLarge as exc:
+        msg = str(exc).removeprefix("decompose: ")
+        if exc.cause == "memory":
+            raise ValueError("the loop's arrangement does not fit in memory: " + msg) from None
+        msg = msg.split(": pass max_crossings=")[0]
+        # the count is an estimate: suggest half as much again, rounded up to 2 digits
+        want = 1.5 * exc.crossings
+        step = 10 ** max(0, int(math.log10(want)) - 1)
+        need = int(math.ceil(want / step) * step)
+        raise ValueError(f"the loop is too tangled to split into faces: {msg}; to build it "
+                         f"anyway pass max_crossings={need} or more") from None
+
+
+#: loops of at least this many samples show their stages on standard error (progress=None)
+STAGES_FROM = 20_000
+
+
+def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycles_by=None,
+         level=None, hysteresis=0.0, energy="y_dx", weight=None, max_crossings=None,
+         progress=None, tol=None, time_name=None, units=None, source=None) -> LoopReport:
+    """The loop report of two channels.
+
+    Parameters
+    ----------
+    data : io.Table, pandas DataFrame, Path or array_like (T, k)
+        The recording.  ``x`` and ``y`` name (or index) the horizontal and the
+        vertical channel (default: the first two).
+    cycles_by : str or int, optional
+        The channel whose upward crossings of ``level`` (default: its mean; a
+        dead band of ``hysteresis``) cut cycles (default: ``x``).
+    energy : {"y_dx", "x_dy"}
+        The per-cycle integral: ∮ y dx (the work of stress over strain with x =
+        strain, of pressure over volume with x = V) or ∮ x dy (e.g. H dB with
+        x = H).  They differ only in sign.
+    weight : str, optional
+        A formula in x and y (parsed safely) integrated over the region, its
+        work bounded by :data:`WEIGHT_WORK_LIMIT` before it starts.
+    max_crossings : int, optional
+        Refuse a loop that crosses itself more often before splitting it into faces.
+    progress : bool or None
+        Stages on standard error (None: for loops of 20,000 samples or more).
+
+    Returns
+    -------
+    LoopReport
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from wedgepath import report
+    >>> t = np.linspace(0, 4 * np.pi, 401)
+    >>> r = report.loop(np.column_stack([np.cos(t), np.sin(t)]), names=["u", "v"])
+    >>> r.quantity, r.cycles.count, round(r.cycle_stats()[2], 3)
+    ('∮ v d(u)', 1, -3.141)
+    """
+    import sympy as sp
+
+    from ._bars import Stages
+    from .calculus import Path
+    from .planar import region_integral, region_moments, signed_area
+    from .signals import cycle_areas
+
+    values, times, all_names = _unpack(data, times, names)
+    if energy not in ENERGY_FORMS:
+        raise ValueError(f"energy must be one of {', '.join(ENERGY_FORMS)}, got {energy!r}")
+
+    def col(key, what):
+        if key is None:
+            return None
+        if isinstance(key, str):
+            if key not in all_names:
+                raise ValueError(f"{what} names no channel: {key!r}; channels are "
+                                 f"{', '.join(all_names)}")
+            return all_names.index(key)
+        k = int(key)
+        if not 0 <= k < len(all_names):
+            raise ValueError(f"{what}={k} is out of range for {len(all_names)} channels")
+        return k
+    if values.shape[1] < 2:
+        raise ValueError(f"a loop needs 2 channels, got {values.shape[1]}")
+    ix = col(x, "x") if x is not None else 0
+    iy = col(y, "y") if y is not None else 1
+    if ix == iy:
+        raise ValueError("x and y name the same channel")
+    ir = col(cycles_by, "cycles_by")
+    xy = values[:, [ix, iy]]
+    pair = (all_names[ix], all_names[iy])
+    expr = None
+    if weight is not None:
+        # parsed and its work bounded before anything is computed (a refusal comes at once)
+        sx, sy = sp.symbols("x y", real=True)
+        expr = parse_weight(weight, (sx, sy))
+        weight_levels(expr, (sx, sy), _segments(xy))
+    path = Path(xy, times=times, names=list(pair))
+    measured = path.close("require", tol=tol) if closure == "require" and tol is not None \
+        else path          # closed within tol: exactly closed after
+    steps = ["areas and faces", "moments and cycles"] + (["weight"] if weight else [])
+    show = (xy.shape[0] >= STAGES_FROM) if progress is None else bool(progress)
+    notes = []
+    with Stages("loop", steps, enabled=show) as stages:
+        stages.start("areas and faces")
+        sa = signed_area(measured, closure=closure)
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            dec = _decompose(measured, closure, max_crossings,
+                             False if (show or progress is False) else None)
+            stages.start("moments and cycles")
+            mom = region_moments(measured, closure=closure)
+        notes += [str(w.message) for w in caught]
+        ref_col = ix if ir is None else ir
+        ref_name = all_names[ref_col]
+        data3 = np.column_stack([xy, values[:, ref_col]])
+        # A[i, j] = ∮ x_i dx_j on each closed cycle: y dx is A[1, 0], x dy is A[0, 1]
+        i, j = (1, 0) if energy == "y_dx" else (0, 1)
+        try:
+            cyc = cycle_areas(data3, i, j, reference=2, level=level, hysteresis=hysteresis,
+                              times=times)
+        except ValueError as exc:
+            if "is constant, so it has no crossings" in str(exc):
+                cyc = None          # a valid answer: no cycle at all, said in a note
+                notes.append(f"no cycles: the column {ref_name!r} is constant, so it never "
+                             "crosses a level (choose another cycles_by)")
+            elif "has no samples" in str(exc):
+                raise ValueError(f"cycles_by: the column {ref_name!r} that cuts cycles has no "
+                                 "values (every cell is empty); choose another") from None
+            else:
+                raise
+        weighted = None
+        if weight is not None:
+            stages.start("weight")
+            sx, sy = sp.symbols("x y", real=True)
+            with warnings.catch_warnings(record=True) as caught:
+                warnings.simplefilter("always")
+                try:
+                    weighted = region_integral(expr, measured, closure=closure,
+                                               symbols=(sx, sy),
+                                               max_evaluations=_weight_evaluations(expr))
+                except ValueError as exc:
+                    raise ValueError(_weight_message(str(exc), weight)) from None
+            wn = [str(w.message) for w in caught]
+            if any("limit of" in n for n in wn):
+                wn.append(f"the refinement of the weight's integral was capped by the work "
+                          f"limit ({WEIGHT_WORK_LIMIT:.0e} units, docs/cli.md)")
+            notes += wn
+    return LoopReport(names=pair, path=path, closure=closure, signed_area=float(sa),
+                      decomposition=dec, moments=mom, cycles=cyc, cycles_by=ref_name,
+                      energy=energy, level=level, hysteresis=hysteresis, weight=weight,
+                      weighted=weighted, notes=tuple(notes), times_given=times is not None,
+                      time_name=time_name, units=dict(units or {}), source=dict(source or {}))
