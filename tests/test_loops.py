@@ -296,12 +296,15 @@ class TestSegmentation:
         # weeks across missing rows -- the behaviour the default now avoids
         t, vol, inflow = weekly_series()
         X = np.column_stack([vol, inflow])
-        old = wp.cycle_areas(X, 0, 1, times=t, gap=None)
+        # no band: the weather noise also makes 'cycles' of a few weeks (and says so)
+        with pytest.warns(CycleLengthWarning):
+            old = wp.cycle_areas(X, 0, 1, times=t, gap=None)
         steps = np.diff(t)
         spans = [steps[int(np.floor(s)):int(np.ceil(e))].max() > 7
                  for s, e, ok in zip(old.start, old.stop, old.complete) if ok]
         assert any(spans)
-        new = wp.cycle_areas(X, 0, 1, times=t)
+        with pytest.warns(CycleLengthWarning):
+            new = wp.cycle_areas(X, 0, 1, times=t)
         spans = [steps[int(np.floor(s)):int(np.ceil(e))].max() > 7
                  for s, e, ok in zip(new.start, new.stop, new.complete) if ok]
         assert not any(spans)
@@ -347,6 +350,18 @@ class TestSegmentation:
         with pytest.warns(CycleLengthWarning):
             raw = wp.loop_cycles(np.column_stack([x, y]), hysteresis=0.0)
         assert raw.count > 100
+
+    def test_irregular_logging(self):
+        # random logging instants: uneven steps are not gaps and not noise; a real outage
+        # (a missing stretch of one and a half periods) is a gap
+        rng = np.random.default_rng(8)
+        t = np.sort(rng.uniform(0, 8 * 2 * np.pi, 3200))
+        t = t[(t < 20.0) | (t > 29.5)]
+        u, F = np.sin(t), np.sin(t) + 0.3 * np.cos(t)
+        r = wp.loop_cycles(np.column_stack([u, F]), times=t)
+        assert r.gaps == 1 and r.noise < 1e-3
+        assert (r.status == "partial-gap").sum() == 2 and r.count == 5
+        assert np.allclose(r.energy[r.complete], 0.3 * np.pi, rtol=1e-3)
 
     def test_nan_rows_are_gaps(self):
         t, u, F = kelvin_voigt(5.0, 0.5, 1.0, 1.0, cycles=6, per_cycle=100)
@@ -446,3 +461,111 @@ def test_cautions_are_stated():
 
     assert "codes" in loops.CAUTION and "engineers" in loops.CAUTION
     assert "codes" in loops.__doc__
+
+
+# --------------------------------------------------------------------------- command line
+class TestCommandLine:
+    def _damper_csv(self, tmp_path):
+        t, u, F = kelvin_voigt(50.0, 2.0, np.pi, 4.0, cycles=5, per_cycle=400)
+        f = tmp_path / "damper.csv"
+        pd.DataFrame({"t_s": t, "disp": u, "force": F}).to_csv(f, index=False)
+        return f, t, u, F
+
+    def test_loop_reports_the_api_numbers_with_units(self, tmp_path, capsys):
+        import json
+
+        from wedgepath import cli
+
+        f, t, u, F = self._damper_csv(tmp_path)
+        code = cli.main(["loop", str(f), "--x", "disp", "--y", "force", "--time", "t_s",
+                         "--kind", "force-displacement", "--units", "x=mm,y=kN", "--quiet",
+                         "--json"])
+        out = json.loads(capsys.readouterr().out)
+        assert code == 0
+        api = wp.loop_cycles(pd.DataFrame({"disp": u, "force": F}), "disp", "force",
+                             kind="force-displacement", units={"x": "mm", "y": "kN"}, times=t)
+        eng = out["engineering"]
+        assert eng["column_units"]["energy"] == "J" and eng["column_units"]["stiffness"] == "kN/mm"
+        got = np.array(eng["per_cycle"]["energy"], dtype=float)
+        assert np.array_equal(np.isnan(got), np.isnan(api.energy))
+        assert np.allclose(got[api.complete], api.energy[api.complete], rtol=1e-13)
+        # Chopra's closed forms (see TestOutsideFacts): pi c w u0^2 and c w / (2k)
+        assert eng["complete_cycles"]["energy"]["mean"] == pytest.approx(
+            np.pi * 2.0 * np.pi * 16.0, rel=1e-4)
+        assert eng["complete_cycles"]["damping_ratio"]["mean"] == pytest.approx(
+            2.0 * np.pi / 100.0, rel=1e-4)
+        assert "codes" in eng["caution"]
+
+    def test_summary_states_cycles_partials_and_caution(self, tmp_path, capsys):
+        from wedgepath import cli
+
+        f, *_ = self._damper_csv(tmp_path)
+        out_dir = tmp_path / "out"
+        code = cli.main(["loop", str(f), "--x", "disp", "--y", "force", "--time", "t_s",
+                         "--kind", "force-displacement", "--units", "disp=mm,force=kN",
+                         "--out", str(out_dir), "--no-figures"])
+        text = capsys.readouterr().out
+        assert code == 0
+        assert "cycles (valleys of disp, band" in text and "4 complete" in text
+        assert "1 at the start, 1 at the end" in text
+        assert "equivalent viscous damping ratio zeta_eq" in text and " J (std" in text
+        assert "caution:" in text and "licensed" in text
+        frame = pd.read_csv(out_dir / "cycles.csv")
+        assert frame["status"].tolist() == ["partial-start"] + ["complete"] * 4 + ["partial-end"]
+        assert frame.loc[frame["complete"], "energy"].notna().all()
+        assert frame.loc[~frame["complete"], "energy"].isna().all()
+
+    def test_units_pint_does_not_know_label_only_without_a_kind(self, tmp_path, capsys):
+        from wedgepath import cli
+
+        f, *_ = self._damper_csv(tmp_path)
+        code = cli.main(["loop", str(f), "--x", "disp", "--y", "force", "--units",
+                         "x=furlongz,y=kN", "--quiet"])
+        text = capsys.readouterr().out
+        assert code == 0
+        assert "note: unknown unit 'furlongz' for x (disp)" in text
+        assert "the engineering quantities are in the data's own units" in text
+
+    def test_weekly_series_with_gaps_through_the_command_line(self, tmp_path, capsys):
+        from wedgepath import cli
+
+        t, vol, inflow = weekly_series()
+        f = tmp_path / "reservoir.csv"
+        pd.DataFrame({"day": t, "volume": vol, "inflow": inflow}).to_csv(f, index=False)
+        out_dir = tmp_path / "out"
+        code = cli.main(["loop", str(f), "--x", "volume", "--y", "inflow", "--time", "day",
+                         "--out", str(out_dir), "--no-figures"])
+        text = capsys.readouterr().out
+        assert code == 0
+        frame = pd.read_csv(out_dir / "cycles.csv")
+        done = frame[frame["complete"]]
+        # only whole cycles are complete: none spans a missing week, all about a year long
+        steps = np.diff(t)
+        for s, e in zip(np.searchsorted(t, done["start"]), np.searchsorted(t, done["stop"])):
+            assert steps[s:e].max() == 7.0
+        assert ((done["stop"] - done["start"]) - 365.25).abs().max() < 60
+        # the rest is flagged, with its reason, and said in the summary
+        assert set(frame.loc[~frame["complete"], "status"]) <= {"partial-start", "partial-end",
+                                                                "partial-gap"}
+        assert f"{len(done)} complete" in text and "next to a gap" in text
+        assert "14 gaps in the record" in text
+
+    @pytest.mark.parametrize("opts, message", [
+        (["--kind", "force-displacement", "--units", "x=furlongz,y=kN"],
+         "unknown unit 'furlongz' for x (disp)"),
+        (["--kind", "force-displacement", "--units", "x=s,y=kN"], "do not give J"),
+        (["--kind", "B-H", "--energy", "y_dx"], "--energy y_dx contradicts it"),
+        (["--level", "0", "--cut", "reversal"], "--level applies to --cut crossing only"),
+        (["--hysteresis", "big"], "argument --hysteresis"),
+        (["--gap", "0"], "argument --gap"),
+    ])
+    def test_errors_are_one_line(self, tmp_path, capsys, opts, message):
+        from wedgepath import cli
+
+        f, *_ = self._damper_csv(tmp_path)
+        code = cli.main(["loop", str(f), "--x", "disp", "--y", "force", "--time", "t_s",
+                         "--quiet", *opts])
+        assert code == 2
+        err = capsys.readouterr().err
+        assert message in err and err.count("\n") == 1
+

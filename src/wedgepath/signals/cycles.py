@@ -187,8 +187,9 @@ def cycle_areas(X, i=0, j=1, *, reference=None, cut="crossing", level=None, hyst
         reversals, 4 for the crossing half-width).
     gap : "auto", None or float
         A time step longer than this is a gap (``"auto"``: 1.5 times the
-        median step; None: only missing values are gaps).  Used only when
-        the rows have times.
+        median step for regular sampling, 5 times the 99% quantile of the
+        steps for irregular logging; None: only missing values are gaps).
+        Used only when the rows have times.
     boundaries : array_like of float, optional
         Cycle boundaries as (fractional) sample positions, increasing,
         within ``[0, T - 1]``; replaces the crossing detection.  To use

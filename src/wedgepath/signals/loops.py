@@ -357,7 +357,8 @@ def loop_cycles(X, x=0, y=1, *, kind=None, units=None, cut="reversal", reference
         of the reference, estimated from its second differences.
     gap : "auto", None or float
         Longest time step that is not a gap (``"auto"``: 1.5 times the
-        median step).  Used only with times.
+        median step for regular sampling, 5 times the 99% quantile of the
+        steps for irregular logging).  Used only with times.
     boundaries : array_like of int, optional
         Cycle boundaries as sample indices (replaces the detection).
     curve : {"linear", "spline"}

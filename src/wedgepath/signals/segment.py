@@ -2,9 +2,11 @@
 
 A recording is first split into gap-free pieces: a gap is a row with a
 missing value (NaN) in a channel that is used, or -- when the rows have
-times -- a time step longer than ``gap`` (by default 1.5 times the median
-step, so one missing weekly row in a weekly series is a gap).  A cycle never
-spans a gap.
+times -- a time step longer than ``gap``.  By default (``gap="auto"``), for
+regular sampling (the 10% and 90% quantiles of the steps within 25% of each
+other) that is 1.5 times the median step, so one missing weekly row in a
+weekly series is a gap; for irregular logging it is 5 times the 99% quantile
+of the steps, so that only real outages count.  A cycle never spans a gap.
 
 Within a piece, cycle boundaries come from the reference channel, in one of
 two ways (``cut=``):
@@ -21,6 +23,9 @@ two ways (``cut=``):
 ``hysteresis="auto"`` chooses the band from the data's own noise: the noise
 standard deviation sigma is estimated from the differences of order k = 1..6
 of the reference channel, ``sigma_k = 1.4826 * MAD(d_k) / sqrt(C(2k, k))``
+(with times, also from each sample's residual from the line through its two
+neighbours in time, which unevenly spaced samples of a smooth signal do not
+inflate)
 (the k-th difference of white noise has variance ``C(2k, k) sigma^2``;
 1.4826 turns a median absolute deviation into a standard deviation for
 normal data), taking the smallest: the signal itself adds to every
@@ -59,6 +64,9 @@ AUTO_BAND_SIGMAS = 8.0
 NOISE_ORDERS = 6
 #: a time step longer than this many median steps is a gap (gap="auto")
 AUTO_GAP_FACTOR = 1.5
+#: irregular sampling (10% and 90% quantiles of the steps more than 25% apart): a step
+#: longer than this many times the 99% quantile of the steps is a gap
+IRREGULAR_GAP_FACTOR = 5.0
 #: complete cycles longer than this many times the median length (or shorter than
 #: its inverse) trigger a CycleLengthWarning
 LENGTH_SPREAD = 1.8
@@ -90,8 +98,26 @@ def noise_level(r) -> float:
     return _noise([r])
 
 
-def _noise(runs) -> float:
+def _noise(runs, time_runs=None) -> float:
     best = math.inf
+    if time_runs is not None:
+        # irregular sampling: the residual of each sample from the straight line through its
+        # two neighbours in time, e = r_k - (a r_{k-1} + b r_{k+1}), has variance
+        # (1 + a^2 + b^2) sigma^2 for white noise (a + b = 1); it reduces to the second
+        # difference for equal steps, while index differences would mistake the uneven
+        # steps of a smooth signal for noise
+        es = []
+        for x, t in zip(runs, time_runs):
+            if x.size < 3:
+                continue
+            h0, h1 = t[1:-1] - t[:-2], t[2:] - t[1:-1]
+            a_, b_ = h1 / (h0 + h1), h0 / (h0 + h1)
+            e = (x[1:-1] - (a_ * x[:-2] + b_ * x[2:])) / np.sqrt(1 + a_ ** 2 + b_ ** 2)
+            es.append(e)
+        e = np.concatenate(es) if es else np.empty(0)
+        e = e[np.isfinite(e)]
+        if e.size >= 2:
+            best = 1.4826 * float(np.median(np.abs(e - np.median(e))))
     for k in range(1, NOISE_ORDERS + 1):
         d = [np.diff(x, k) for x in runs if x.size > k]
         d = np.concatenate(d) if d else np.empty(0)
@@ -225,13 +251,21 @@ def gap_mask(valid, times, gap):
         if isinstance(gap, str):
             if gap != "auto":
                 raise TypeError(f"gap must be a real number > 0, 'auto' or None, got {gap!r}")
-            limit = AUTO_GAP_FACTOR * float(np.median(dt))
+            limit = auto_gap(dt)
         else:
             limit = as_real(gap, "gap")
             if not limit > 0:
                 raise ValueError(f"gap must be a positive time step, got {limit}")
         brk |= dt > limit
     return brk
+
+
+def auto_gap(dt) -> float:
+    """The longest time step that is not a gap, by default (see the module docstring)."""
+    q10, q50, q90, q99 = np.quantile(dt, [0.1, 0.5, 0.9, 0.99])
+    if q90 <= 1.25 * q10:                    # regular sampling: one missing row is a gap
+        return AUTO_GAP_FACTOR * float(q50)
+    return IRREGULAR_GAP_FACTOR * float(q99)  # irregular logging: only real outages
 
 
 def _pieces(valid, breaks):
@@ -266,7 +300,8 @@ def segment(r, valid, times=None, *, cut="reversal", level=None, hysteresis="aut
     breaks = gap_mask(valid, times, gap) if T > 1 else np.zeros(0, dtype=bool)
     pieces = _pieces(valid, breaks)
     # noise from the joined pieces only (never across a gap)
-    noise = _noise([r[a:b + 1] for a, b in pieces])
+    noise = _noise([r[a:b + 1] for a, b in pieces],
+                   None if times is None else [times[a:b + 1] for a, b in pieces])
     if isinstance(hysteresis, str):
         if hysteresis != "auto":
             raise TypeError(f"hysteresis must be a real number >= 0 or 'auto', got {hysteresis!r}")
