@@ -514,7 +514,7 @@ def loop_path(curve, *, names=None, cycles=None, ax=None, title=None, arrows=6):
         for k, (s0, s1) in enumerate(zip(start, stop)):
             if whole[k]:                 # partial cycles (ends, gaps) stay grey
                 which[(mid >= s0) & (mid < s1)] = k
-    if count:
+    if count and (which >= 0).any():     # else (no complete cycle): shade by data row
         inside = ok & (which >= 0)
         out = ok & (which < 0)
         if out.any():
