@@ -244,7 +244,8 @@ def test_positions_in_the_cycle_are_radians_and_say_so():
 def test_one_sign_convention_for_per_cycle_integrals(tmp_path, capsys):
     """``cycle_areas(X, i, j)`` is ``∮ x_i dx_j``; the command line's ``--energy y_dx``
     (``∮ y dx``) is ``cycle_areas(X, y, x, reference=x)`` and ``x_dy`` is
-    ``cycle_areas(X, x, y)``: the same numbers for the same integral."""
+    ``cycle_areas(X, x, y)`` (with the command line's cut: valleys, band from the noise),
+    and ``loop_cycles(X, x, y).energy``: the same numbers for the same integral."""
     import json
 
     from wedgepath import cli
@@ -253,8 +254,10 @@ def test_one_sign_convention_for_per_cycle_integrals(tmp_path, capsys):
     df = pd.DataFrame({"ssn": 50 + 40 * np.sin(t), "ssn_rate": 40 * np.cos(t - 0.3)})
     f = tmp_path / "s.csv"
     df.to_csv(f, index=False)
-    xdy = wp.cycle_areas(df, "ssn", "ssn_rate")
-    ydx = wp.cycle_areas(df, "ssn_rate", "ssn", reference="ssn")
+    # the command line cuts cycles at the valleys of --x, with the band from the noise level
+    xdy = wp.cycle_areas(df, "ssn", "ssn_rate", cut="reversal", hysteresis="auto")
+    ydx = wp.cycle_areas(df, "ssn_rate", "ssn", reference="ssn", cut="reversal",
+                         hysteresis="auto")
     assert xdy.quantity == "∮ ssn d(ssn_rate)" and ydx.quantity == "∮ ssn_rate d(ssn)"
     # swapping i and j flips the sign (partial cycles are NaN in both)
     assert np.allclose(ydx.values, -xdy.values, rtol=1e-12, equal_nan=True)
@@ -267,8 +270,12 @@ def test_one_sign_convention_for_per_cycle_integrals(tmp_path, capsys):
                          "--json", "--quiet"])
         out = json.loads(capsys.readouterr().out)
         assert code == 0
-        assert np.allclose(out["cycles"]["values"], lib.values, rtol=1e-12, atol=0)
+        got = np.array([np.nan if v is None else v for v in out["cycles"]["values"]])
+        assert np.allclose(got, lib.values, rtol=1e-12, atol=0, equal_nan=True)
         assert out["cycles"]["mean"] == pytest.approx(lib.mean, rel=1e-12)
+    # and loop_cycles reports ∮ y dx of the same cycles as its energy
+    eng = wp.loop_cycles(df, "ssn", "ssn_rate")
+    assert np.allclose(eng.energy, ydx.values, rtol=1e-12, equal_nan=True)
 
 
 # --------------------------------------------------------------------------- one rescaling

@@ -159,7 +159,8 @@ def cycle_areas(X, i=0, j=1, *, reference=None, cut="crossing", level=None, hyst
     volume): positive when stress leads strain, as for any lossy material.
     ``wedgepath loop --x strain --y stress`` reports the same number
     (``--energy y_dx``, its default: ``∮ y dx``, cycles cut by ``--x``), that
-    is ``cycle_areas(X, "stress", "strain", reference="strain")``; see
+    is ``cycle_areas(X, "stress", "strain", reference="strain", cut="reversal",
+    hysteresis="auto")`` and ``loop_cycles(X, "strain", "stress").energy``; see
     ``docs/conventions.md``.
 
     Parameters
