@@ -569,3 +569,37 @@ class TestCommandLine:
         err = capsys.readouterr().err
         assert message in err and err.count("\n") == 1
 
+
+
+def test_rainflow_through_the_command_line(tmp_path, capsys):
+    import json
+
+    from wedgepath import cli
+
+    rng = np.random.default_rng(5)
+    rev = np.cumsum(rng.uniform(0.5, 3.0, 30) * np.where(np.arange(30) % 2, -1, 1))
+    u = np.concatenate([np.linspace(a, b, 9, endpoint=False) for a, b in zip(rev[:-1], rev[1:])]
+                       + [[rev[-1]]])
+    F = elastic_plastic_history(u)
+    f = tmp_path / "rig.csv"
+    pd.DataFrame({"disp": u, "force": F}).to_csv(f, index=False)
+    out_dir = tmp_path / "out"
+    code = cli.main(["loop", str(f), "--x", "disp", "--y", "force", "--rainflow",
+                     "--units", "x=mm,y=kN", "--kind", "force-displacement",
+                     "--out", str(out_dir), "--no-figures"])
+    text = capsys.readouterr().out
+    assert code == 0
+    api = wp.rainflow(np.column_stack([u, F]), x=0, y=1)
+    frame = pd.read_csv(out_dir / "rainflow.csv")
+    assert list(frame.columns[:5]) == ["range", "mean", "count", "start", "end"]
+    assert np.allclose(frame["range"], api.range) and np.array_equal(frame["start"], api.start + 1)
+    assert np.allclose(frame["energy"], api.energy, atol=1e-12)      # kN x mm = J: factor 1
+    res = json.loads((out_dir / "result.json").read_text())
+    assert res["rainflow"]["energy_unit"] == "J"
+    assert res["rainflow"]["total_energy"] == pytest.approx(api.total_energy, rel=1e-12)
+    assert "rainflow cycles of disp (ASTM E1049-85 5.4.4)" in text
+    assert "rainflow.csv" in text
+
+
+def elastic_plastic_history(u, k=2.0, fy=3.0):
+    return elastoplastic(u, k, fy)

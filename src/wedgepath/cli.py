@@ -242,6 +242,9 @@ def build_parser():
                     help="with --time: a time step longer than STEP is a gap, which no cycle "
                     "spans ('auto', default: 1.5 times the median step; 'none': only empty "
                     "cells are gaps)")
+    lp.add_argument("--rainflow", action="store_true",
+                    help="also count the rainflow cycles of --x (ASTM E1049-85 5.4.4) with the "
+                    "energy ∮ y dx of each closed cycle's sub-loop; writes rainflow.csv")
     lp.add_argument("--energy", default=None, choices=list(ENERGY_FORMS),
                     help="per-cycle quantity: y_dx = ∮ y dx (stress over strain, p over V; "
                     "default) or x_dy = ∮ x dy (H dB with H horizontal; the default of "
@@ -251,7 +254,8 @@ def build_parser():
     lp.add_argument("--max-crossings", type=_positive_int, default=None, metavar="N",
                     help="refuse a loop that crosses itself more than N times before splitting "
                     "it into faces (default 500000: about 1.7 GB and half a minute)")
-    _add_common(lp, ["result.json", "cycles.csv", "loop.png", "cycles.png"])
+    _add_common(lp, ["result.json", "cycles.csv", "rainflow.csv (--rainflow)", "loop.png",
+                     "cycles.png"])
     lp.set_defaults(func=_cmd_loop)
 
     dm = sub.add_parser("demo", help="run both jobs on bundled invented data",
@@ -415,7 +419,7 @@ def _cmd_loop(args):
         import sympy as sp
         report.parse_weight(args.weight, sp.symbols("x y", real=True))  # a bad formula fails first
     figures = _want_figures(args)
-    plan = _plan(args, report.loop_files(figures), "loop")
+    plan = _plan(args, report.loop_files(figures, rainflow=args.rainflow), "loop")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
     tab = _load(args, cols + ([extra] if extra else []))
     # --units x=mm,y=kN: "x" and "y" name the roles unless they are columns
@@ -430,7 +434,7 @@ def _cmd_loop(args):
     _check_complete_rows(args.table, tab.values[:, :2], cols)
     rep = report.loop(tab, x=args.x, y=args.y, closure=args.closure, cycles_by=args.cycles_by,
                       cut=args.cut, level=args.level, hysteresis=args.hysteresis, gap=args.gap,
-                      energy=args.energy, kind=args.kind,
+                      energy=args.energy, kind=args.kind, rainflow=args.rainflow,
                       weight=args.weight, max_crossings=args.max_crossings,
                       progress=False if args.quiet else None, tol=args.tol,
                       time_name=args.time, units=args.units,

@@ -90,7 +90,8 @@ def leadlag_files(figures: bool = False, *, window: bool = False, significance: 
     return names
 
 
-def loop_files(figures: bool = False, *, json_name: str = "result.json") -> list:
+def loop_files(figures: bool = False, *, json_name: str = "result.json",
+               rainflow: bool = False) -> list:
     """The files a loop report gives (``manifest.json`` not included).
 
     Examples
@@ -99,7 +100,8 @@ def loop_files(figures: bool = False, *, json_name: str = "result.json") -> list
     >>> report.loop_files(figures=True)
     ['result.json', 'cycles.csv', 'loop.png', 'cycles.png']
     """
-    return [json_name, "cycles.csv"] + (["loop.png", "cycles.png"] if figures else [])
+    return ([json_name, "cycles.csv"] + (["rainflow.csv"] if rainflow else [])
+            + (["loop.png", "cycles.png"] if figures else []))
 
 
 # =========================================================================== fields
@@ -943,6 +945,7 @@ class LoopReport(_Report):
     engineering: object = None
     kind: str | None = None
     cut: str = "reversal"
+    rainflow: object = None
     weight: str | None = None
     weighted: object = None
     notes: tuple = ()
@@ -1015,7 +1018,7 @@ class LoopReport(_Report):
         return items
 
     def planned_files(self, figures: bool = False) -> list:
-        return loop_files(figures, json_name=self.json_name)
+        return loop_files(figures, json_name=self.json_name, rainflow=self.rainflow is not None)
 
     def faces_informative(self) -> bool:
         """Whether a picture of the faces tells something the curve does not.
@@ -1076,6 +1079,19 @@ class LoopReport(_Report):
                                                       ("mean", "std", "min", "max", "cycles")}
                                     for row in desc.to_dict("records")},
                 "ddof": 1, "caution": LOOP_CAUTION}
+        rf = self.rainflow
+        if rf is not None:
+            d["rainflow"] = {
+                "channel": self.x, "method": "ASTM E1049-85 section 5.4.4",
+                "energy": f"∮ {self.y} d({self.x}) of each closed cycle's own sub-loop; "
+                          "∫ y dx along the residue for half cycles",
+                "energy_unit": (dict(eng.column_units or {}).get("energy") if eng is not None
+                                else None),
+                "rows": "data rows from 1",
+                "range": rf.range, "mean": rf.mean, "count": rf.count,
+                "start": np.asarray(rf.start) + 1, "end": np.asarray(rf.end) + 1,
+                "cycles": rf.cycles, "energy_per_cycle": rf.energy,
+                "total_energy": rf.total_energy, "residue_energy": rf.residue_energy}
         if self.weighted is not None:
             r = self.weighted
             d["weighted_integral"] = {"formula": self.weight, "value": float(r),
@@ -1085,8 +1101,17 @@ class LoopReport(_Report):
         return _jsonable(d)
 
     def tables(self) -> dict:
-        """``cycles.csv``: :meth:`to_frame` (one row per cycle)."""
-        return {"cycles.csv": self.to_frame()}
+        """``cycles.csv``: :meth:`to_frame` (one row per cycle); ``rainflow.csv``: the
+        rainflow cycles of x (``RainflowCycles.to_frame()``, start and end as data rows from
+        1) when they were asked for."""
+        out = {"cycles.csv": self.to_frame()}
+        if self.rainflow is not None:
+            fr = self.rainflow.to_frame()
+            fr["start"] = fr["start"] + 1
+            fr["end"] = fr["end"] + 1
+            fr["close"] = fr["close"] + 1
+            out["rainflow.csv"] = fr
+        return out
 
     # ------------------------------------------------------------------ text
     def summary(self) -> list:
@@ -1116,6 +1141,19 @@ class LoopReport(_Report):
                          "itself")
         values, count, mean, std = self.cycle_stats()
         lines += self._cycle_lines(values, count, mean, std)
+        rf = self.rainflow
+        if rf is not None:
+            closed = rf.count == 1.0
+            lines.append(f"\nrainflow cycles of {self.x} (ASTM E1049-85 5.4.4): "
+                         f"{int(closed.sum())} closed, {int((~closed).sum())} half; "
+                         f"largest range {rf.range.max() if rf.range.size else float('nan'):.4g}")
+            u = ""
+            eng = self.engineering
+            if eng is not None and eng.column_units:
+                u = " " + eng.column_units.get("energy", "")
+            lines.append(f"  ∮ {self.y} d({self.x}): closed sub-loops {rf.energy[closed].sum():.6g}"
+                         f"{u} + residue {rf.residue_energy:.6g}{u} = total "
+                         f"{rf.total_energy:.6g}{u}")
         if self.weighted is not None:
             r = self.weighted
             how = "exact" if r.exact else f"error estimate {r.error:.2g}"
@@ -1217,6 +1255,15 @@ def _decompose(path, closure, max_crossings, progress):
                          f"anyway pass max_crossings={need} or more") from None
 
 
+def _scaled_rainflow(rf, k):
+    """A RainflowCycles with its energies multiplied by ``k`` (a unit conversion)."""
+    import dataclasses
+    if k == 1.0 or rf.energy is None:
+        return rf
+    return dataclasses.replace(rf, energy=rf.energy * k, total_energy=rf.total_energy * k,
+                               residue_energy=rf.residue_energy * k)
+
+
 def _loop_units(units, pair):
     """The units of the loop's two channels (by name or by the roles "x"/"y"), or None.
 
@@ -1239,7 +1286,7 @@ STAGES_FROM = 20_000
 
 def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycles_by=None,
          cut=None, level=None, hysteresis="auto", gap="auto", energy=None, kind=None,
-         weight=None, max_crossings=None, progress=None, tol=None, time_name=None,
+         rainflow=False, weight=None, max_crossings=None, progress=None, tol=None, time_name=None,
          units=None, source=None) -> LoopReport:
     """The loop report of two channels.
 
@@ -1265,6 +1312,10 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
     units : mapping, optional
         Units of the channels (channel name -> unit text; ``"x"``/``"y"``
         name the roles): the engineering quantities are converted (pint).
+    rainflow : bool
+        Also count the rainflow cycles of ``x`` (:func:`~wedgepath.rainflow`,
+        ASTM E1049-85 §5.4.4) with each closed cycle's sub-loop ``∮ y dx``
+        (in the engineering energy unit when units are known).
     weight : str, optional
         A formula in x and y (parsed safely) integrated over the region, its
         work bounded by :data:`WEIGHT_WORK_LIMIT` before it starts.
@@ -1294,6 +1345,7 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
     from .calculus import Path
     from .planar import region_integral, region_moments, signed_area
     from .signals import LOOP_KINDS, cycle_areas, loop_cycles
+    from .signals import rainflow as count_rainflow
 
     values, times, all_names = _unpack(data, times, names)
     if kind is not None and kind not in LOOP_KINDS:
@@ -1407,9 +1459,18 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
                 wn.append(f"the refinement of the weight's integral was capped by the work "
                           f"limit ({WEIGHT_WORK_LIMIT:.0e} units, docs/cli.md)")
             notes += wn
+    rf = None
+    if rainflow:
+        rf = count_rainflow(xy, x=0, y=1, gap=gap, times=times, names=list(pair))
+        eng_u = dict(eng.column_units or {}) if eng is not None else {}
+        pu = _loop_units(units, pair)
+        if pu is not None and "energy" in eng_u:
+            from .signals.loops import energy_factor
+            k = energy_factor(pu["x"], pu["y"], eng_u["energy"])
+            rf = _scaled_rainflow(rf, k)
     return LoopReport(names=pair, path=path, closure=closure, signed_area=float(sa),
                       decomposition=dec, moments=mom, cycles=cyc, cycles_by=ref_name,
                       energy=energy, level=level, hysteresis=hysteresis, engineering=eng,
-                      kind=kind, cut=cut, weight=weight,
+                      kind=kind, cut=cut, rainflow=rf, weight=weight,
                       weighted=weighted, notes=tuple(notes), times_given=times is not None,
                       time_name=time_name, units=dict(units or {}), source=dict(source or {}))

@@ -294,6 +294,13 @@ def _output_units(kind, ux_text, uy_text, energy_values, xname, yname):
     return f, cu
 
 
+def energy_factor(x_unit, y_unit, target) -> float:
+    """The factor that turns values in ``x_unit * y_unit`` into ``target`` (unit texts)."""
+    ux = _units.parse_unit(x_unit, "x")
+    uy = _units.parse_unit(y_unit, "y")
+    return _units.factor(ux * uy, _units.parse_unit(target, "output"))
+
+
 def _spline_energy(P, t, s, e, energy):
     """∮ of the cycle's samples ``s..e`` under the cubic spline model (chord-closed)."""
     from ..calculus import OneForm, Path, integrate
