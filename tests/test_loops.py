@@ -603,3 +603,17 @@ def test_rainflow_through_the_command_line(tmp_path, capsys):
 
 def elastic_plastic_history(u, k=2.0, fy=3.0):
     return elastoplastic(u, k, fy)
+
+
+def test_report_notes_the_cycle_length_warning():
+    # no band on a noisy record: tiny 'cycles' next to whole ones, and the report says so
+    from wedgepath import report
+
+    rng = np.random.default_rng(4)
+    t = np.arange(3000) * 2 * np.pi / 200
+    X = np.column_stack([np.sin(t) + 0.05 * rng.standard_normal(t.size), np.cos(t)])
+    rep = report.loop(X, names=["u", "f"], hysteresis=0.0, progress=False)
+    assert any("median cycle length" in n for n in rep.notes)
+    assert sum("median cycle length" in n for n in rep.notes) == 1      # said once
+    assert not any("median cycle length" in n for n in report.loop(
+        X, names=["u", "f"], progress=False).notes)                      # the default band
