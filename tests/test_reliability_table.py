@@ -975,6 +975,47 @@ row(CY, "option", "a constant reference channel",
 row(CY, "overflow", "channels near 1e200 (areas beyond float64)",
     lambda: wp.cycle_areas(np.tile(loop(2), (3, 1)) * 1e200), ValueError, "overflow float64")
 
+LC = "wp.loop_cycles(X, x, y)"
+array_rows(LC, wp.loop_cycles, 2, ndim=(ValueError, "must be 2-dimensional"),
+           empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
+           allnan=(ValueError, "reference channel has no samples (all NaN)"))
+row(LC, "option", "x == y", lambda: wp.loop_cycles(loop(3), 0, 0), ValueError,
+    "must be different channels")
+row(LC, "option", "kind='torque'", lambda: wp.loop_cycles(loop(2), kind="torque"), ValueError,
+    "unknown kind 'torque'")
+row(LC, "option", "cut='zero'", lambda: wp.loop_cycles(loop(2), cut="zero"), ValueError,
+    "unknown cut 'zero'")
+row(LC, "option", "level with cut='reversal'", lambda: wp.loop_cycles(loop(2), level=0.0),
+    ValueError, "level applies to cut='crossing' only")
+row(LC, "option", "hysteresis='a'", lambda: wp.loop_cycles(loop(2), hysteresis="a"), TypeError,
+    "hysteresis must be a real number")
+row(LC, "text", "an unknown unit", lambda: wp.loop_cycles(loop(2), units={"x": "furlongz",
+                                                                         "y": "N"}),
+    ValueError, "unknown unit 'furlongz' for x")
+row(LC, "text", "unit text that is code", lambda: wp.loop_cycles(
+    loop(2), units={"x": "__import__('os')", "y": "N"}), ValueError, "unknown unit")
+row(LC, "option", "units that do not make an energy", lambda: wp.loop_cycles(
+    loop(2), kind="force-displacement", units={"x": "s", "y": "N"}), ValueError,
+    "do not give J as a force-displacement loop needs")
+row(LC, "option", "the unit of one channel only", lambda: wp.loop_cycles(
+    loop(2), units={"x": "mm"}), ValueError, "give the unit of both channels")
+row(LC, "option", "a constant reference channel",
+    lambda: wp.loop_cycles(np.c_[np.ones(8), loop(1)]), ValueError, "reference channel is constant")
+
+RF = "wp.rainflow(X)"
+array_rows(RF, wp.rainflow, 1, ndim=(ValueError, "must be 2-dimensional"),
+           empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
+           allnan=(None, "no cycles (every row is a gap)", lambda r: len(r) == 0))
+row(RF, "option", "x of a 1-D history", lambda: wp.rainflow(T8, x=0), ValueError,
+    "this history is 1-D")
+row(RF, "option", "x == y", lambda: wp.rainflow(loop(2), x=0, y=0), ValueError,
+    "must be different channels")
+row(RF, "option", "hysteresis=-1", lambda: wp.rainflow(T8, hysteresis=-1), ValueError,
+    "hysteresis must be a finite number >= 0")
+returns(RF, "empty", "a monotone history", lambda: wp.rainflow(np.arange(5.0)),
+        "one half cycle: the whole range", lambda r: r.count.tolist() == [0.5]
+        and r.range.tolist() == [4.0])
+
 AL = "wp.align(channels, times)"
 row(AL, "length", "5 samples, 4 times", lambda: wp.align([T8[:5], T8], times=[T8[:4], T8]),
     ValueError, "has 5 samples but 4 times")
@@ -1530,13 +1571,14 @@ def public_calls():
     names = set()
     for name in wp.__all__:
         obj = getattr(wp, name)
-        if name.startswith("__") or isinstance(obj, (tuple, str)):
+        if name.startswith("__") or isinstance(obj, (tuple, str, dict)):
             continue
         if inspect.isclass(obj) and issubclass(obj, (Warning, Exception)):
             continue  # warning and error classes are raised by the library, not called
         if name in ("RegionMoments", "Decomposition", "Lobe", "CyclicOrder", "SurrogateResult",
                     "BootstrapResult", "CycleAreas", "RollingAreas", "FitTest", "DriftCheck",
-                    "ReferenceLags", "LeadSpectrum", "BandSignificance", "RollingSpectrum"):
+                    "ReferenceLags", "LeadSpectrum", "BandSignificance", "RollingSpectrum",
+                    "LoopCycles", "RainflowCycles"):
             continue  # result objects: built by the library, not by users
         names.add(f"wp.{name}")
     names |= {f"wp.io.{n}" for n in ("read_table", "iter_table_chunks", "table_columns",

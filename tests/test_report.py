@@ -113,7 +113,7 @@ class TestLoopReport:
         t = np.linspace(0, 6 * np.pi, 301)
         xy = np.column_stack([np.cos(t), np.sin(t + 0.3)])
         r = report.loop(xy, names=["x", "y"], progress=False)
-        c = wp.cycle_areas(xy, 1, 0, reference=0)              # ∮ y dx = A[1, 0]
+        c = wp.cycle_areas(xy, 1, 0, reference=0, cut="reversal", hysteresis="auto")              # ∮ y dx = A[1, 0]
         np.testing.assert_allclose(r.cycle_stats()[0], c.values)
         assert r.quantity == "∮ y d(x)"
         assert r.cycle_stats()[3] == pytest.approx(np.std(c.values[np.isfinite(c.values)],
@@ -154,7 +154,7 @@ class TestRowNumbersCountFromOne:
         t = np.linspace(0, 6 * np.pi, 301)
         xy = np.column_stack([np.cos(t), np.sin(t)])
         lr = report.loop(xy)
-        c = wp.cycle_areas(xy, 1, 0, reference=0)
+        c = wp.cycle_areas(xy, 1, 0, reference=0, cut="reversal", hysteresis="auto")
         np.testing.assert_allclose(lr.to_frame()["start"], c.start + 1)
         assert lr.to_dict()["cycles"]["bounds"] == "row"
 

@@ -70,7 +70,12 @@ FRAME_COLUMNS = {
     "CyclicOrder": ["rank", "channel", "position_rad", "modulus"],
     "RollingAreas": ["window", "start", "stop", "start_time", "stop_time", "i", "j",
                      "channel_i", "channel_j", "area"],
-    "CycleAreas": ["cycle", "start", "stop", "start_time", "stop_time", "value", "complete"],
+    "CycleAreas": ["cycle", "start", "stop", "start_time", "stop_time", "value", "complete",
+                   "status"],
+    "LoopCycles": ["cycle", "start", "stop", "start_time", "stop_time", "status", "complete",
+                   "energy", "x_min", "x_max", "y_min", "y_max", "y_at_x_min", "y_at_x_max",
+                   "stiffness", "strain_energy", "damping_ratio", "loss_factor"],
+    "RainflowCycles": ["range", "mean", "count", "start", "end", "close", "energy"],
     "SurrogateResult": ["i", "j", "channel_i", "channel_j", "area", "p", "q", "null_mean",
                         "null_std"],
     "BootstrapResult": ["i", "j", "channel_i", "channel_j", "area", "low", "high", "std"],
@@ -97,6 +102,8 @@ CONVENTIONS = {
     "CyclicOrder": ["closure", "normalize"],
     "RollingAreas": ["closure", "window", "step"],
     "CycleAreas": ["closure", "quantity", "reference", "level"],
+    "LoopCycles": ["kind", "quantity", "sign", "cut", "hysteresis", "level", "curve"],
+    "RainflowCycles": ["hysteresis"],
     "SurrogateResult": ["closure", "method", "n_surrogates", "seed", "min_shift"],
     "BootstrapResult": ["closure", "confidence", "block", "n_boot", "seed"],
     "Decomposition": ["closure"],
@@ -148,6 +155,8 @@ CALLS = {
         WAVES, bands=[0, 0.1, 0.5], n_surrogates=9, seed=0, progress=False)),
     "wedgepath.rolling_lead_spectrum": ("result", lambda: wp.rolling_lead_spectrum(
         WAVES, 32, 16, bands=[0, 0.1, 0.5])),
+    "wedgepath.loop_cycles": ("result", lambda: wp.loop_cycles(WAVES, "a", "b")),
+    "wedgepath.rainflow": ("result", lambda: wp.rainflow(WAVES, x="a", y="b")),
     "wedgepath.pair_table": ("frame", lambda: wp.pair_table(wp.area_matrix(WAVES))),
     "wedgepath.io.read_table": ("result", lambda: wio.read_table(_csv(), time_column="t")),
     "wedgepath.io.iter_table_chunks": ("results", lambda: list(wio.iter_table_chunks(
@@ -173,6 +182,7 @@ CALLS = {
 CLASSES = {
     # the result types (built by the library; the contract is checked on them)
     **{n: "result" for n in ("AreaMatrix", "CyclicOrder", "RollingAreas", "CycleAreas",
+                             "LoopCycles", "RainflowCycles",
                              "SurrogateResult", "BootstrapResult", "Decomposition", "Lobe",
                              "RegionMoments", "Table", "Integral", "FitTest", "DriftCheck",
                              "ReferenceLags", "LeadSpectrum", "BandSignificance",
@@ -184,6 +194,7 @@ CLASSES = {
     **{n: "exception" for n in ("IntegrationWarning", "DecompositionWarning",
                                 "ConstantChannelWarning", "SurrogateWarning", "ShapeWarning",
                                 "DriftWarning", "ResamplingWarning",
+                                "CycleLengthWarning",
                                 "TableError", "ChunkError", "ArrangementTooLarge")},
 }
 
@@ -387,10 +398,12 @@ def test_results_pickle():
     import pickle
 
     for r in (wp.area_matrix(WAVES), wp.cycle_areas(WAVES, "a", "b"),
+              wp.loop_cycles(WAVES, "a", "b"), wp.rainflow(WAVES, x="a", y="b"),
               wp.cyclic_order(wp.area_matrix(WAVES)), wp.rolling_area_matrix(WAVES, 16, 8)):
         back = pickle.loads(pickle.dumps(r))
         assert type(back) is type(r) and back.names == r.names
-        assert np.array_equal(np.asarray(back), np.asarray(r)) if r._array_field else True
+        assert np.array_equal(np.asarray(back), np.asarray(r), equal_nan=True) \
+            if r._array_field else True
 
 
 # --------------------------------------------------------------------------- the pair table

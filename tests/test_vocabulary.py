@@ -176,7 +176,7 @@ def test_counts_are_named_n_something():
 
 # --------------------------------------------------------------------------- confidence / level
 def test_confidence_is_a_confidence_and_level_a_crossing_level():
-    assert {q.rsplit(".", 1)[1] for q, _ in params("level")} == {"cycle_areas"}
+    assert {q.rsplit(".", 1)[1] for q, _ in params("level")} == {"cycle_areas", "loop_cycles"}
     assert {q.rsplit(".", 1)[1] for q, _ in params("confidence")} == {"bootstrap_area",
                                                                       "reference_lags"}
     assert "level" in {f.name for f in dataclasses.fields(wp.CycleAreas)}   # the crossing level
@@ -249,7 +249,8 @@ def test_positions_in_the_cycle_are_radians_and_say_so():
 def test_one_sign_convention_for_per_cycle_integrals(tmp_path, capsys):
     """``cycle_areas(X, i, j)`` is ``∮ x_i dx_j``; the command line's ``--energy y_dx``
     (``∮ y dx``) is ``cycle_areas(X, y, x, reference=x)`` and ``x_dy`` is
-    ``cycle_areas(X, x, y)``: the same numbers for the same integral."""
+    ``cycle_areas(X, x, y)`` (with the command line's cut: valleys, band from the noise),
+    and ``loop_cycles(X, x, y).energy``: the same numbers for the same integral."""
     import json
 
     from wedgepath import cli
@@ -258,10 +259,13 @@ def test_one_sign_convention_for_per_cycle_integrals(tmp_path, capsys):
     df = pd.DataFrame({"ssn": 50 + 40 * np.sin(t), "ssn_rate": 40 * np.cos(t - 0.3)})
     f = tmp_path / "s.csv"
     df.to_csv(f, index=False)
-    xdy = wp.cycle_areas(df, "ssn", "ssn_rate")
-    ydx = wp.cycle_areas(df, "ssn_rate", "ssn", reference="ssn")
+    # the command line cuts cycles at the valleys of --x, with the band from the noise level
+    xdy = wp.cycle_areas(df, "ssn", "ssn_rate", cut="reversal", hysteresis="auto")
+    ydx = wp.cycle_areas(df, "ssn_rate", "ssn", reference="ssn", cut="reversal",
+                         hysteresis="auto")
     assert xdy.quantity == "∮ ssn d(ssn_rate)" and ydx.quantity == "∮ ssn_rate d(ssn)"
-    assert np.allclose(ydx.values, -xdy.values, rtol=1e-12)     # swapping i and j flips the sign
+    # swapping i and j flips the sign (partial cycles are NaN in both)
+    assert np.allclose(ydx.values, -xdy.values, rtol=1e-12, equal_nan=True)
     # ssn_rate = 40 sin(t + 1.27) leads ssn = 50 + 40 sin t: the loop in the (ssn, ssn_rate)
     # plane turns clockwise, so x dy (the signed area, counter-clockwise positive) is negative
     assert xdy.mean < 0 and wp.signed_area(df.to_numpy()) < 0
@@ -271,8 +275,12 @@ def test_one_sign_convention_for_per_cycle_integrals(tmp_path, capsys):
                          "--json", "--quiet"])
         out = json.loads(capsys.readouterr().out)
         assert code == 0
-        assert np.allclose(out["cycles"]["values"], lib.values, rtol=1e-12, atol=0)
+        got = np.array([np.nan if v is None else v for v in out["cycles"]["values"]])
+        assert np.allclose(got, lib.values, rtol=1e-12, atol=0, equal_nan=True)
         assert out["cycles"]["mean"] == pytest.approx(lib.mean, rel=1e-12)
+    # and loop_cycles reports ∮ y dx of the same cycles as its energy
+    eng = wp.loop_cycles(df, "ssn", "ssn_rate")
+    assert np.allclose(eng.energy, ydx.values, rtol=1e-12, equal_nan=True)
 
 
 # --------------------------------------------------------------------------- one rescaling

@@ -45,6 +45,8 @@ from .io import TableError, read_table
 #: the per-cycle integrals of ``loop --energy`` (as wedgepath.report.ENERGY_FORMS; listed
 #: here so that building the parser imports nothing heavy)
 ENERGY_FORMS = ("y_dx", "x_dy")
+#: the loop families of ``loop --kind`` (as wedgepath.signals.LOOP_KINDS)
+LOOP_KINDS = ("force-displacement", "stress-strain", "B-H", "p-V")
 
 __all__ = ["main", "build_parser", "CLIError"]
 
@@ -136,6 +138,23 @@ def _check_units(args, columns):
                        f"columns used: {', '.join(columns)}")
 
 
+def _hysteresis_band(text):
+    if text.strip().lower() == "auto":
+        return "auto"
+    return _nonnegative_float(text)
+
+
+def _gap(text):
+    t = text.strip().lower()
+    if t in ("auto", "none"):
+        return None if t == "none" else "auto"
+    v = _finite_float(text)
+    if v <= 0:
+        raise argparse.ArgumentTypeError(f"expected a positive time step, 'auto' or 'none', "
+                                         f"got {text!r}")
+    return v
+
+
 def _positive_int(text):
     try:
         v = int(text)
@@ -170,7 +189,7 @@ def _positive_float(text):
     return v
 
 
-def _band(text):
+def _period_band(text):
     parts = text.split(",")
     if len(parts) != 2:
         raise argparse.ArgumentTypeError(f"expected LOW,HIGH (two periods), got {text!r}")
@@ -253,7 +272,7 @@ def build_parser():
                     help="remove each channel's least-squares straight line first")
     ll.add_argument("--difference", action="store_true",
                     help="take first differences of every channel first")
-    ll.add_argument("--bandpass", type=_band, metavar="LOW,HIGH",
+    ll.add_argument("--bandpass", type=_period_band, metavar="LOW,HIGH",
                     help="keep periods from LOW to HIGH, in the time column's units "
                     "(samples without --time), by a zero-phase filter (e.g. 6,32 quarters)")
     ll.add_argument("--highpass", type=_positive_float, metavar="P",
@@ -273,27 +292,52 @@ def build_parser():
     ll.set_defaults(func=_cmd_leadlag)
 
     lp = sub.add_parser("loop", help="areas of a loop in one plane (energy per cycle, lobes)",
-                        description="Region quantities of the loop traced by two columns.")
+                        description="Region quantities of the loop traced by two columns, and "
+                        "per cycle its energy, peaks, effective stiffness and damping. These "
+                        "numbers describe the measurement: acceptance of dampers, bearings or "
+                        "joints and fatigue life are governed by the applicable codes and "
+                        "decided by qualified (licensed) engineers.")
     _add_table(lp)
     lp.add_argument("--x", required=True, metavar="COL", help="horizontal channel (e.g. strain)")
     lp.add_argument("--y", required=True, metavar="COL", help="vertical channel (e.g. stress)")
     lp.add_argument("--closure", default="chord", choices=["chord", "detrend", "require", "none"],
                     help="how each gap-free piece is closed (default: chord)")
     _add_tol(lp)
+    lp.add_argument("--kind", choices=list(LOOP_KINDS),
+                    help="loop family: fixes the per-cycle integral and its sign "
+                    "(force-displacement, stress-strain, p-V: ∮ y dx, clockwise positive; B-H: "
+                    "∮ H dB with H on --x, counter-clockwise positive), the units of the "
+                    "results and whether stiffness and damping are reported")
     lp.add_argument("--cycles-by", metavar="COL",
-                    help="split into cycles at upward mean crossings of this column (default: --x)")
+                    help="the column that cuts cycles (default: --x): at its valleys, or with "
+                    "--cut crossing at its upward crossings of --level")
+    lp.add_argument("--cut", choices=["reversal", "crossing"], default=None,
+                    help="cycles from valley to valley of --cycles-by (reversal; the default) or "
+                    "between its upward crossings of --level (crossing; the default when "
+                    "--level is given)")
     lp.add_argument("--level", type=_finite_float, help="crossing level (default: the mean)")
-    lp.add_argument("--hysteresis", type=_finite_float, default=0.0,
-                    help="dead band against noisy crossings (default 0)")
-    lp.add_argument("--energy", default="y_dx", choices=list(ENERGY_FORMS),
+    lp.add_argument("--hysteresis", type=_hysteresis_band, default="auto", metavar="BAND",
+                    help="band against noise: a valley counts once the column has risen from "
+                    "it by BAND (with --cut crossing: half-width of a dead band); 'auto' "
+                    "(default): 8 (crossing: 4) times the noise level estimated from the data")
+    lp.add_argument("--gap", type=_gap, default="auto", metavar="STEP",
+                    help="with --time: a time step longer than STEP is a gap, which no cycle "
+                    "spans ('auto', default: 1.5 times the median step; 'none': only empty "
+                    "cells are gaps)")
+    lp.add_argument("--rainflow", action="store_true",
+                    help="also count the rainflow cycles of --x (ASTM E1049-85 5.4.4) with the "
+                    "energy ∮ y dx of each closed cycle's sub-loop; writes rainflow.csv")
+    lp.add_argument("--energy", default=None, choices=list(ENERGY_FORMS),
                     help="per-cycle quantity: y_dx = ∮ y dx (stress over strain, p over V; "
-                    "default) or x_dy = ∮ x dy (H dB with H horizontal)")
+                    "default) or x_dy = ∮ x dy (H dB with H horizontal; the default of "
+                    "--kind B-H)")
     lp.add_argument("--weight", metavar="FORMULA",
                     help="also integrate this weight over the region, in x and y, e.g. 'x**2*y'")
     lp.add_argument("--max-crossings", type=_positive_int, default=None, metavar="N",
                     help="refuse a loop that crosses itself more than N times before splitting "
                     "it into faces (default 500000: about 1.7 GB and half a minute)")
-    _add_common(lp, ["result.json", "cycles.csv", "loop.png", "cycles.png"])
+    _add_common(lp, ["result.json", "cycles.csv", "rainflow.csv (--rainflow)", "loop.png",
+                     "cycles.png"])
     lp.set_defaults(func=_cmd_loop)
 
     dm = sub.add_parser("demo", help="run both jobs on bundled invented data",
@@ -497,13 +541,22 @@ def _cmd_loop(args):
         import sympy as sp
         report.parse_weight(args.weight, sp.symbols("x y", real=True))  # a bad formula fails first
     figures = _want_figures(args)
-    plan = _plan(args, report.loop_files(figures), "loop")
+    plan = _plan(args, report.loop_files(figures, rainflow=args.rainflow), "loop")
     extra = args.cycles_by if args.cycles_by not in (None, args.x, args.y) else None
     tab = _load(args, cols + ([extra] if extra else []))
+    # --units x=mm,y=kN: "x" and "y" name the roles unless they are columns
+    for role, col in (("x", args.x), ("y", args.y)):
+        if role in args.units and role not in tab.names and role != args.time:
+            unit = args.units.pop(role)
+            if col in args.units and args.units[col] != unit:
+                raise CLIError(f"--units gives {col!r} two units: {args.units[col]!r} and "
+                               f"{unit!r} (as {role})")
+            args.units[col] = unit
     _check_units(args, list(tab.names) + ([args.time] if args.time else []))
     _check_complete_rows(args.table, tab.values[:, :2], cols)
     rep = report.loop(tab, x=args.x, y=args.y, closure=args.closure, cycles_by=args.cycles_by,
-                      level=args.level, hysteresis=args.hysteresis, energy=args.energy,
+                      cut=args.cut, level=args.level, hysteresis=args.hysteresis, gap=args.gap,
+                      energy=args.energy, kind=args.kind, rainflow=args.rainflow,
                       weight=args.weight, max_crossings=args.max_crossings,
                       progress=False if args.quiet else None, tol=args.tol,
                       time_name=args.time, units=args.units,
@@ -541,6 +594,9 @@ _WORDS = [
     (r"^(?:X|points|path) has no complete sample: every row contains NaN",
      "no row has a value in every column used: every row has a gap"),
     (r"^(?:X|points) contains", "the table contains"),
+    (r"\benergy='(\w+)'", r"--energy \1"),
+    (r"\bcut='(\w+)'", r"--cut \1"),
+    (r"^level applies to", "--level applies to"),
     (r"\bn_surrogates\b", "--surrogates"),
     (r"\bn_boot\b", "--bootstrap"),
     (r"^window=(\d+)", r"--window \1"),

@@ -646,7 +646,8 @@ def loop_path(curve, *, names=None, cycles=None, ax=None, title=None, arrows=6):
     cycles : CycleAreas, optional
         Cycles of the curve: each drawn in its own shade (light: first, dark:
         last), so a loop traced many times stays readable; samples outside
-        every cycle are grey.  Without cycles the shade follows the rows.
+        every complete cycle (partial cycles at the ends or next to a gap)
+        are grey.  Without cycles the shade follows the rows.
     arrows : int
         Arrows along the curve showing the direction of travel.
 
@@ -669,11 +670,14 @@ def loop_path(curve, *, names=None, cycles=None, ax=None, title=None, arrows=6):
         start = np.asarray(cycles.start,
                            dtype=float)
         stop = np.asarray(cycles.stop, dtype=float)
+        whole = np.asarray(getattr(cycles, "complete", np.ones(start.size, dtype=bool)),
+                           dtype=bool)
         count = start.size
         mid = np.arange(T - 1) + 0.5
         for k, (s0, s1) in enumerate(zip(start, stop)):
-            which[(mid >= s0) & (mid < s1)] = k
-    if count:
+            if whole[k]:                 # partial cycles (ends, gaps) stay grey
+                which[(mid >= s0) & (mid < s1)] = k
+    if count and (which >= 0).any():     # else (no complete cycle): shade by data row
         inside = ok & (which >= 0)
         out = ok & (which < 0)
         if out.any():
@@ -807,7 +811,7 @@ def cycle_values(cycles, *, ax=None, title="Per-cycle integral", ylabel="value p
     ax.plot(k[ok], vals[ok], "o-", color=INK, ms=5, lw=0.7, label="cycle", zorder=3)
     if (~ok).any():
         ax.plot(k[~ok], np.full((~ok).sum(), np.nanmin(vals) if ok.any() else 0), "x",
-                color=GREY, label="no value (gap)")
+                color=GREY, label="partial cycle (no value)")
     if reference is not None:
         ax.axhline(reference, color=OCHRE, lw=1.3, ls="--",
                    label=f"{_literal(reference_label)} {reference:.6g}")

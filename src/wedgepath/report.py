@@ -57,6 +57,10 @@ SCHEMA_VERSION = 3
 
 #: the per-cycle integrals a loop report can give
 ENERGY_FORMS = ("y_dx", "x_dy")
+#: what the command line and the loop report say about engineering decisions
+LOOP_CAUTION = ("these numbers describe the measured loop only; acceptance of dampers, "
+                "bearings or joints and fatigue life are governed by the applicable codes "
+                "and decided by qualified (licensed) engineers")
 
 ZERO_MATRIX_NOTE = ("the area matrix is zero: no channel leads another (constant or "
                     "proportional channels, or no closed stretch); there is no cyclic order")
@@ -94,7 +98,8 @@ def leadlag_files(figures: bool = False, *, window: bool = False, significance: 
     return names
 
 
-def loop_files(figures: bool = False, *, json_name: str = "result.json") -> list:
+def loop_files(figures: bool = False, *, json_name: str = "result.json",
+               rainflow: bool = False) -> list:
     """The files a loop report gives (``manifest.json`` not included).
 
     Examples
@@ -103,7 +108,8 @@ def loop_files(figures: bool = False, *, json_name: str = "result.json") -> list
     >>> report.loop_files(figures=True)
     ['result.json', 'cycles.csv', 'loop.png', 'cycles.png']
     """
-    return [json_name, "cycles.csv"] + (["loop.png", "cycles.png"] if figures else [])
+    return ([json_name, "cycles.csv"] + (["rainflow.csv"] if rainflow else [])
+            + (["loop.png", "cycles.png"] if figures else []))
 
 
 # =========================================================================== fields
@@ -1343,8 +1349,15 @@ class LoopReport(_Report):
         Faces, winding numbers and lobes of the closed curve.
     moments : RegionMoments
     cycles : CycleAreas or None
-        The per-cycle integral ``quantity`` of each cycle cut at the upward
-        crossings of ``cycles_by``; None when that channel is constant.
+        The per-cycle integral ``quantity`` of each cycle cut by
+        ``cycles_by`` (its valleys, or its upward crossings of ``level``);
+        complete cycles plus the partial ones flagged; None when that
+        channel is constant.
+    engineering : LoopCycles or None
+        The same cycles' engineering quantities (:func:`~wedgepath.loop_cycles`):
+        energy, peaks, stiffness, damping, in ``units`` when given.
+    kind : str or None
+        The loop family (:data:`~wedgepath.LOOP_KINDS`).
     energy : str
         ``"y_dx"`` (∮ y dx per cycle) or ``"x_dy"`` (∮ x dy).
     weight, weighted : str, Integral or None
@@ -1363,7 +1376,11 @@ class LoopReport(_Report):
     cycles_by: str
     energy: str = "y_dx"
     level: float | None = None
-    hysteresis: float = 0.0
+    hysteresis: object = "auto"
+    engineering: object = None
+    kind: str | None = None
+    cut: str = "reversal"
+    rainflow: object = None
     weight: str | None = None
     weighted: object = None
     notes: tuple = ()
@@ -1408,13 +1425,23 @@ class LoopReport(_Report):
         return s0 + 1.0, s1 + 1.0
 
     def to_frame(self):
-        """One row per cycle: ``cycle, start, stop, value, complete`` (start and stop as
-        times, or as data rows counted from 1 -- fractional between rows -- without times)."""
+        """One row per cycle: ``cycle, start, stop, value, complete, status`` (start and stop
+        as times, or as data rows counted from 1 -- fractional between rows -- without
+        times), then the engineering quantities of :attr:`engineering` (``energy, x_min,
+        x_max, y_min, y_max, y_at_x_min, y_at_x_max`` and, where they apply,
+        ``stiffness, strain_energy, damping_ratio, loss_factor``)."""
         import pandas as pd
         values = self.cycle_stats()[0]
         start, stop = self._bounds()
-        return pd.DataFrame({"cycle": np.arange(1, values.size + 1), "start": start,
-                             "stop": stop, "value": values, "complete": np.isfinite(values)})
+        d = {"cycle": np.arange(1, values.size + 1), "start": start, "stop": stop,
+             "value": values, "complete": np.isfinite(values)}
+        if self.cycles is not None:
+            d["status"] = np.asarray(self.cycles.status, dtype=object)
+        eng = self.engineering
+        if eng is not None and len(eng) == values.size:
+            for c in eng.columns:
+                d[c] = np.asarray(getattr(eng, c))
+        return pd.DataFrame(d)
 
     def _summary_items(self):
         values, count, mean, std = self.cycle_stats()
@@ -1426,7 +1453,7 @@ class LoopReport(_Report):
         return items
 
     def planned_files(self, figures: bool = False) -> list:
-        return loop_files(figures, json_name=self.json_name)
+        return loop_files(figures, json_name=self.json_name, rainflow=self.rainflow is not None)
 
     def faces_informative(self) -> bool:
         """Whether a picture of the faces tells something the curve does not.
@@ -1471,8 +1498,37 @@ class LoopReport(_Report):
                        "bounds": "time" if self.times_given else "row",
                        "time_unit": (self.cycles.time_unit if self.cycles is not None
                                      else None) if self.times_given else "row",
-                       "mean": mean, "std": std, "ddof": 1},
+                       "mean": mean, "std": std, "ddof": 1,
+                       "status": [] if self.cycles is None else list(self.cycles.status),
+                       "cut": self.cut,
+                       "band": None if self.cycles is None else self.cycles.hysteresis,
+                       "noise": None if self.cycles is None else self.cycles.noise,
+                       "gaps": 0 if self.cycles is None else int(self.cycles.gaps)},
         }
+        eng = self.engineering
+        if eng is not None:
+            desc = eng.describe()
+            d["engineering"] = {
+                "kind": eng.kind, "quantity": eng.quantity, "sign": eng.sign,
+                "column_units": dict(eng.column_units or {}),
+                "per_cycle": {c: np.asarray(getattr(eng, c)) for c in eng.columns},
+                "complete_cycles": {row["quantity"]: {k: row[k] for k in
+                                                      ("mean", "std", "min", "max", "cycles")}
+                                    for row in desc.to_dict("records")},
+                "ddof": 1, "caution": LOOP_CAUTION}
+        rf = self.rainflow
+        if rf is not None:
+            d["rainflow"] = {
+                "channel": self.x, "method": "ASTM E1049-85 section 5.4.4",
+                "energy": f"∮ {self.y} d({self.x}) of each closed cycle's own sub-loop; "
+                          "∫ y dx along the residue for half cycles",
+                "energy_unit": (dict(eng.column_units or {}).get("energy") if eng is not None
+                                else None),
+                "rows": "data rows from 1",
+                "range": rf.range, "mean": rf.mean, "count": rf.count,
+                "start": np.asarray(rf.start) + 1, "end": np.asarray(rf.end) + 1,
+                "cycles": rf.cycles, "energy_per_cycle": rf.energy,
+                "total_energy": rf.total_energy, "residue_energy": rf.residue_energy}
         if self.weighted is not None:
             r = self.weighted
             d["weighted_integral"] = {"formula": self.weight, "value": float(r),
@@ -1482,8 +1538,17 @@ class LoopReport(_Report):
         return _jsonable(d)
 
     def tables(self) -> dict:
-        """``cycles.csv``: :meth:`to_frame` (one row per cycle)."""
-        return {"cycles.csv": self.to_frame()}
+        """``cycles.csv``: :meth:`to_frame` (one row per cycle); ``rainflow.csv``: the
+        rainflow cycles of x (``RainflowCycles.to_frame()``, start and end as data rows from
+        1) when they were asked for."""
+        out = {"cycles.csv": self.to_frame()}
+        if self.rainflow is not None:
+            fr = self.rainflow.to_frame()
+            fr["start"] = fr["start"] + 1
+            fr["end"] = fr["end"] + 1
+            fr["close"] = fr["close"] + 1
+            out["rainflow.csv"] = fr
+        return out
 
     # ------------------------------------------------------------------ text
     def summary(self) -> list:
@@ -1512,16 +1577,72 @@ class LoopReport(_Report):
                          "the absolute area), typically made by noise where the curve crosses "
                          "itself")
         values, count, mean, std = self.cycle_stats()
-        lines.append(f"\ncycles (upward crossings of {self.cycles_by}): {count} complete")
-        if count:
-            lines.append(f"{self.quantity} per cycle: mean {mean:.6g}, "
-                         + (f"std {std:.3g} (ddof=1)" if count > 1 else "no spread (one cycle)"))
+        lines += self._cycle_lines(values, count, mean, std)
+        rf = self.rainflow
+        if rf is not None:
+            closed = rf.count == 1.0
+            lines.append(f"\nrainflow cycles of {self.x} (ASTM E1049-85 5.4.4): "
+                         f"{int(closed.sum())} closed, {int((~closed).sum())} half; "
+                         f"largest range {rf.range.max() if rf.range.size else float('nan'):.4g}")
+            u = ""
+            eng = self.engineering
+            if eng is not None and eng.column_units:
+                u = " " + eng.column_units.get("energy", "")
+            lines.append(f"  ∮ {self.y} d({self.x}): closed sub-loops {rf.energy[closed].sum():.6g}"
+                         f"{u} + residue {rf.residue_energy:.6g}{u} = total "
+                         f"{rf.total_energy:.6g}{u}")
         if self.weighted is not None:
             r = self.weighted
             how = "exact" if r.exact else f"error estimate {r.error:.2g}"
             lines.append(f"\nregion integral of {self.weight}: {float(r):.8g} ({how})")
         for note in self.notes:
             lines.append("note: " + note)
+        return lines
+
+    def _cycle_lines(self, values, count, mean, std):
+        cyc = self.cycles
+        if cyc is None:
+            return [f"\ncycles (cut by {self.cycles_by}): none"]
+        how = (f"valleys of {self.cycles_by}" if self.cut == "reversal"
+               else f"upward crossings of {self.cycles_by} through {cyc.level:.6g}")
+        band = cyc.hysteresis
+        band_txt = "" if band is None else (
+            f", band {band:.4g}" + (f" = 8 x noise {cyc.noise:.3g}"
+                                    if self.hysteresis == "auto" and self.cut == "reversal"
+                                    else f" = 4 x noise {cyc.noise:.3g}"
+                                    if self.hysteresis == "auto" else ""))
+        status = np.asarray(cyc.status, dtype=object)
+        parts = []
+        for key, word in (("partial-start", "at the start"), ("partial-end", "at the end"),
+                          ("partial-gap", "next to a gap")):
+            k = int(np.count_nonzero(status == key))
+            if k:
+                parts.append(f"{k} {word}")
+        lines = [f"\ncycles ({how}{band_txt}): {count} complete"
+                 + (f"; partial (not measured): {', '.join(parts)}" if parts else "")
+                 + (f"; {_plural(cyc.gaps, 'gap')} in the record" if cyc.gaps else "")]
+        if count:
+            lines.append(f"{self.quantity} per cycle: mean {mean:.6g}, "
+                         + (f"std {std:.3g} (ddof=1)" if count > 1 else "no spread (one cycle)"))
+        eng = self.engineering
+        if eng is not None and eng.count:
+            cu = dict(eng.column_units or {})
+            desc = eng.describe().set_index("quantity")
+            labels = {"energy": "energy per cycle" + (f" ({eng.quantity})" if eng.kind else ""),
+                      "stiffness": "effective stiffness k_eff", "strain_energy":
+                      "strain energy at peak E_S0", "damping_ratio":
+                      "equivalent viscous damping ratio zeta_eq", "loss_factor": "loss factor eta"}
+            lines.append(f"engineering quantities over the {_plural(eng.count, 'complete cycle')}"
+                         f" (mean, std with ddof=1); energy {eng.sign}:")
+            for key, label in labels.items():
+                if key not in desc.index:
+                    continue
+                row = desc.loc[key]
+                unit = cu.get(key, "")
+                unit = "" if unit in ("", "1") else f" {unit}"
+                sd = f"{row['std']:.3g}" if np.isfinite(row["std"]) else "n/a"
+                lines.append(f"  {label}: {row['mean']:.6g}{unit} (std {sd})")
+            lines.append("caution: " + LOOP_CAUTION)
         return lines
 
     # ------------------------------------------------------------------ figures
@@ -1571,13 +1692,39 @@ def _decompose(path, closure, max_crossings, progress):
                          f"anyway pass max_crossings={need} or more") from None
 
 
+def _scaled_rainflow(rf, k):
+    """A RainflowCycles with its energies multiplied by ``k`` (a unit conversion)."""
+    import dataclasses
+    if k == 1.0 or rf.energy is None:
+        return rf
+    return dataclasses.replace(rf, energy=rf.energy * k, total_energy=rf.total_energy * k,
+                               residue_energy=rf.residue_energy * k)
+
+
+def _loop_units(units, pair):
+    """The units of the loop's two channels (by name or by the roles "x"/"y"), or None.
+
+    Only when both channels have one are the engineering quantities converted (and the
+    units then checked); a unit of one channel alone labels the figures only.
+    """
+    if not units:
+        return None
+    got = {}
+    for role, name in zip(("x", "y"), pair):
+        u = units.get(name, units.get(role))
+        if u is not None:
+            got[role] = u
+    return got if len(got) == 2 else None
+
+
 #: loops of at least this many samples show their stages on standard error (progress=None)
 STAGES_FROM = 20_000
 
 
 def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycles_by=None,
-         level=None, hysteresis=0.0, energy="y_dx", weight=None, max_crossings=None,
-         progress=None, tol=None, time_name=None, units=None, source=None) -> LoopReport:
+         cut=None, level=None, hysteresis="auto", gap="auto", energy=None, kind=None,
+         rainflow=False, weight=None, max_crossings=None, progress=None, tol=None, time_name=None,
+         units=None, source=None) -> LoopReport:
     """The loop report of two channels.
 
     Parameters
@@ -1586,12 +1733,26 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
         The recording.  ``x`` and ``y`` name (or index) the horizontal and the
         vertical channel (default: the first two).
     cycles_by : str or int, optional
-        The channel whose upward crossings of ``level`` (default: its mean; a
-        dead band of ``hysteresis``) cut cycles (default: ``x``).
-    energy : {"y_dx", "x_dy"}
+        The channel that cuts cycles (default: ``x``): at its valleys
+        confirmed by a band of ``hysteresis`` (``cut="reversal"``, the
+        default; ``"auto"``: from the noise level) or at its upward crossings
+        of ``level`` (``cut="crossing"``, the default when ``level`` is
+        given).  A cycle never spans a gap (``gap``: see
+        :func:`~wedgepath.loop_cycles`); partial cycles are flagged.
+    energy : {"y_dx", "x_dy"}, optional
         The per-cycle integral: ∮ y dx (the work of stress over strain with x =
         strain, of pressure over volume with x = V) or ∮ x dy (e.g. H dB with
-        x = H).  They differ only in sign.
+        x = H).  They differ only in sign.  Default: the kind's, else y_dx.
+    kind : {"force-displacement", "stress-strain", "B-H", "p-V"}, optional
+        The loop family: its integral and sign, its output units and which
+        engineering quantities are reported (:data:`~wedgepath.LOOP_KINDS`).
+    units : mapping, optional
+        Units of the channels (channel name -> unit text; ``"x"``/``"y"``
+        name the roles): the engineering quantities are converted (pint).
+    rainflow : bool
+        Also count the rainflow cycles of ``x`` (:func:`~wedgepath.rainflow`,
+        ASTM E1049-85 §5.4.4) with each closed cycle's sub-loop ``∮ y dx``
+        (in the engineering energy unit when units are known).
     weight : str, optional
         A formula in x and y (parsed safely) integrated over the region, its
         work bounded by :data:`WEIGHT_WORK_LIMIT` before it starts.
@@ -1612,17 +1773,29 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
     >>> r = report.loop(np.column_stack([np.cos(t), np.sin(t)]), names=["u", "v"])
     >>> r.quantity, r.cycles.count, round(r.cycle_stats()[2], 3)
     ('∮ v d(u)', 1, -3.141)
+    >>> list(r.cycles.status)
+    ['partial-start', 'complete', 'partial-end']
     """
     import sympy as sp
 
     from ._bars import Stages
     from .calculus import Path
     from .planar import region_integral, region_moments, signed_area
-    from .signals import cycle_areas
+    from .signals import LOOP_KINDS, cycle_areas, loop_cycles
+    from .signals import rainflow as count_rainflow
 
     values, times, all_names = _unpack(data, times, names)
+    if kind is not None and kind not in LOOP_KINDS:
+        raise ValueError(f"unknown kind {kind!r}; choose one of {', '.join(LOOP_KINDS)}")
+    if energy is None:
+        energy = LOOP_KINDS[kind].energy if kind is not None else "y_dx"
     if energy not in ENERGY_FORMS:
         raise ValueError(f"energy must be one of {', '.join(ENERGY_FORMS)}, got {energy!r}")
+    if kind is not None and energy != LOOP_KINDS[kind].energy:
+        raise ValueError(f"a {kind} loop reports {LOOP_KINDS[kind].energy} "
+                         f"({LOOP_KINDS[kind].label}); energy={energy!r} contradicts it")
+    if cut is None:
+        cut = "crossing" if level is not None else "reversal"
 
     def col(key, what):
         if key is None:
@@ -1672,9 +1845,30 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
         data3 = np.column_stack([xy, values[:, ref_col]])
         # A[i, j] = ∮ x_i dx_j on each closed cycle: y dx is A[1, 0], x dy is A[0, 1]
         i, j = (1, 0) if energy == "y_dx" else (0, 1)
+        eng = None
         try:
-            cyc = cycle_areas(data3, i, j, reference=2, level=level, hysteresis=hysteresis,
-                              times=times)
+            with warnings.catch_warnings(record=True) as caught:
+                warnings.simplefilter("always")
+                cyc = cycle_areas(data3, i, j, reference=2, cut=cut, level=level,
+                                  hysteresis=hysteresis, gap=gap, times=times)
+                eng_units = _loop_units(units, pair)
+                try:
+                    eng = loop_cycles(data3, 0, 1, reference=2, kind=kind, units=eng_units,
+                                      cut=cut, level=level, hysteresis=hysteresis, gap=gap,
+                                      times=times, names=[pair[0], pair[1], "_reference"])
+                except ValueError as exc:
+                    # without a kind, units pint does not know (currencies, counts) label the
+                    # figures only; with a kind they must be physical units
+                    if kind is not None or eng_units is None or "unknown unit" not in str(exc):
+                        raise
+                    notes.append(f"{exc}; without a kind the units only label the output, and "
+                                 "the engineering quantities are in the data's own units")
+                    eng = loop_cycles(data3, 0, 1, reference=2, cut=cut, level=level,
+                                      hysteresis=hysteresis, gap=gap, times=times,
+                                      names=[pair[0], pair[1], "_reference"])
+            for w in caught:                  # the same segmentation warns twice: once here
+                if str(w.message) not in notes:
+                    notes.append(str(w.message))
         except ValueError as exc:
             if "is constant, so it has no crossings" in str(exc):
                 cyc = None          # a valid answer: no cycle at all, said in a note
@@ -1702,8 +1896,18 @@ def loop(data, *, x=None, y=None, times=None, names=None, closure="chord", cycle
                 wn.append(f"the refinement of the weight's integral was capped by the work "
                           f"limit ({WEIGHT_WORK_LIMIT:.0e} units, docs/cli.md)")
             notes += wn
+    rf = None
+    if rainflow:
+        rf = count_rainflow(xy, x=0, y=1, gap=gap, times=times, names=list(pair))
+        eng_u = dict(eng.column_units or {}) if eng is not None else {}
+        pu = _loop_units(units, pair)
+        if pu is not None and "energy" in eng_u:
+            from .signals.loops import energy_factor
+            k = energy_factor(pu["x"], pu["y"], eng_u["energy"])
+            rf = _scaled_rainflow(rf, k)
     return LoopReport(names=pair, path=path, closure=closure, signed_area=float(sa),
                       decomposition=dec, moments=mom, cycles=cyc, cycles_by=ref_name,
-                      energy=energy, level=level, hysteresis=hysteresis, weight=weight,
+                      energy=energy, level=level, hysteresis=hysteresis, engineering=eng,
+                      kind=kind, cut=cut, rainflow=rf, weight=weight,
                       weighted=weighted, notes=tuple(notes), times_given=times is not None,
                       time_name=time_name, units=dict(units or {}), source=dict(source or {}))

@@ -17,6 +17,9 @@ from ._kernel import ConstantChannelWarning, ShapeWarning
 from .align import align
 from .areas import NORMALIZATIONS, AreaMatrix, area_matrix, hilbert_energy
 from .cycles import CycleAreas, cycle_areas
+from .loops import LOOP_KINDS, LoopCycles, loop_cycles
+from .rainflow import RainflowCycles, rainflow
+from .segment import CycleLengthWarning
 from .order import CyclicOrder, cyclic_order, noise_fit_baseline
 from .pairs import pair_table
 from .rolling import RollingAreas, rolling_area_matrix
@@ -42,7 +45,8 @@ __all__ = [
     "surrogate_test", "SurrogateResult", "SURROGATE_METHODS", "bootstrap_area",
     "BootstrapResult", "benjamini_hochberg", "decorrelation_lag", "SurrogateWarning",
     # per-cycle loops
-    "cycle_areas", "CycleAreas",
+    "cycle_areas", "CycleAreas", "loop_cycles", "LoopCycles", "LOOP_KINDS", "CycleLengthWarning",
+    "rainflow", "RainflowCycles",
     # the table of pairs
     "pair_table",
     # calibrated verdicts and honest reading (docs/signals.md, "reading lead-lag honestly")

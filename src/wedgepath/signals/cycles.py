@@ -10,8 +10,9 @@ import numpy as np
 
 from .._results import ArrayResult, fmt_number
 from .._scaling import pow2_exponents, pow2_scale
-from .._validation import as_float_array, as_real
+from .._validation import as_float_array
 from ._kernel import signal_input
+from .segment import segment
 
 __all__ = ["cycle_areas", "CycleAreas"]
 
@@ -45,7 +46,11 @@ class CycleAreas(ArrayResult):
         What the boundary times are: ``"ISO-8601"``, ``"sample"`` (no
         times), ``"s"`` (timedeltas) or None (numbers without a unit).
     complete : ndarray of bool (C,)
-        False for a cycle that contains a gap (its value is NaN).
+        False for a partial cycle (its value is NaN).
+    status : ndarray of str (C,)
+        ``"complete"``; ``"partial-start"`` / ``"partial-end"`` for the
+        pieces before the first and after the last boundary of the record;
+        ``"partial-gap"`` for a piece cut by a gap (a cycle never spans one).
     mean, std : float
         Mean and sample standard deviation (ddof=1) of the complete cycles'
         values (NaN when there are too few).
@@ -54,8 +59,17 @@ class CycleAreas(ArrayResult):
     reference : str
         The channel whose upward crossings cut the cycles (None when the
         boundaries were given).
+    cut : str or None
+        ``"crossing"`` or ``"reversal"`` (None when the boundaries were given).
     level : float or None
-        The crossing level used (None when the boundaries were given).
+        The crossing level used (None for reversals and given boundaries).
+    hysteresis : float or None
+        The band used (crossing: half-width; reversal: full band).
+    noise : float or None
+        Noise standard deviation estimated from the reference channel
+        (what ``hysteresis="auto"`` scales).
+    gaps : int
+        Number of gaps (missing rows or long time steps) in the record.
     closure : str
         ``"chord"``: each cycle's loop is closed by its chord.
     units : mapping or None
@@ -63,7 +77,7 @@ class CycleAreas(ArrayResult):
         the unit of x_i times that of x_j).
 
     ``to_frame()`` has one row per cycle, columns ``cycle`` (0-based),
-    ``start, stop, start_time, stop_time, value, complete``.
+    ``start, stop, start_time, stop_time, value, complete, status``.
     """
 
     _array_field: ClassVar[str] = "values"
@@ -76,27 +90,32 @@ class CycleAreas(ArrayResult):
     start_time: np.ndarray
     stop_time: np.ndarray
     complete: np.ndarray
+    status: np.ndarray
     mean: float
     std: float
     count: int
     reference: str | None = None
+    cut: str | None = None
     level: float | None = None
+    hysteresis: float | None = None
+    noise: float | None = None
+    gaps: int = 0
     closure: str = "chord"
     units: Mapping | None = None
     time_unit: str | None = "sample"
 
     def to_frame(self):
-        """One row per cycle: ``cycle, start, stop, start_time, stop_time, value, complete``."""
+        """One row per cycle: ``cycle, start, stop, start_time, stop_time, value, complete, status``."""
         import pandas as pd
 
         return pd.DataFrame({"cycle": np.arange(self.values.shape[0]), "start": self.start,
                              "stop": self.stop, "start_time": self.start_time,
                              "stop_time": self.stop_time, "value": self.values,
-                             "complete": self.complete})
+                             "complete": self.complete, "status": self.status})
 
     def _summary_items(self):
-        return [("quantity", repr(self.quantity)), ("cycles", str(len(self))),
-                ("complete", str(self.count)), ("mean", fmt_number(self.mean)),
+        return [("quantity", repr(self.quantity)), ("complete", str(self.count)),
+                ("partial", str(len(self) - self.count)), ("mean", fmt_number(self.mean)),
                 ("std", fmt_number(self.std, 4))]
 
 
@@ -119,43 +138,20 @@ def _channel(key, names, n, what):
     return k % n
 
 
-def _crossings(r, level, hysteresis):
-    """Upward crossings of ``level`` as fractional positions (Schmitt trigger with a band)."""
-    lo_thr, hi_thr = level - hysteresis, level + hysteresis
-    with np.errstate(invalid="ignore"):
-        below = r < level
-        seg = np.flatnonzero(below[:-1] & (r[1:] >= level))     # plain level crossings
-    if seg.size == 0:
-        return np.empty(0)
-    if hysteresis > 0:
-        with np.errstate(invalid="ignore"):
-            low = r < lo_thr
-            high = r >= hi_thr
-        ev = np.flatnonzero(low | high)
-        if ev.size == 0:
-            return np.empty(0)
-        kind = high[ev]                              # True: high event, False: low event
-        fire = np.flatnonzero(kind[1:] & ~kind[:-1]) + 1
-        q = ev[fire]                                 # first high sample after a low one
-        # the last plain crossing before q
-        idx = np.searchsorted(seg, q, side="left") - 1
-        seg = np.unique(seg[idx[idx >= 0]])
-    k = seg
-    frac = (level - r[k]) / (r[k + 1] - r[k])
-    return k + frac
-
-
-def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boundaries=None,
-                times=None, names=None) -> CycleAreas:
+def cycle_areas(X, i=0, j=1, *, reference=None, cut="crossing", level=None, hysteresis=0.0,
+                gap="auto", boundaries=None, times=None, names=None) -> CycleAreas:
     """``∮ x_i dx_j`` over each cycle's loop, for one pair of channels.
 
     The recording is cut at cycle boundaries -- the upward crossings of a
     reference channel through ``level`` (its mean by default), located by
-    linear interpolation between samples, or boundaries you give -- and each
-    cycle's loop in the (x_i, x_j) plane is closed by its chord and
-    measured.  Cycles share their boundary points, so the loops tile the
-    recording between the first and last boundary; samples before the
-    first and after the last boundary are not used.
+    linear interpolation between samples (``cut="crossing"``), its valleys
+    confirmed by a hysteresis band (``cut="reversal"``), or boundaries you
+    give -- and each cycle's loop in the (x_i, x_j) plane is closed by its
+    chord and measured.  A cycle never spans a gap (a missing value, or a
+    time step longer than ``gap``).  The pieces before the first boundary,
+    after the last and next to a gap are listed as partial cycles (value
+    NaN, ``complete`` False, ``status`` says why) and left out of the mean.
+    See :mod:`wedgepath.signals.segment` for the rules.
 
     The value of a cycle is ``∮ x_i dx_j`` = ``A[i, j]`` of that cycle (as
     in :func:`area_matrix`): the signed area of the loop drawn with channel
@@ -168,24 +164,38 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
     volume): positive when stress leads strain, as for any lossy material.
     ``wedgepath loop --x strain --y stress`` reports the same number
     (``--energy y_dx``, its default: ``∮ y dx``, cycles cut by ``--x``), that
-    is ``cycle_areas(X, "stress", "strain", reference="strain")``; see
+    is ``cycle_areas(X, "stress", "strain", reference="strain", cut="reversal",
+    hysteresis="auto")`` and ``loop_cycles(X, "strain", "stress").energy``; see
     ``docs/conventions.md``.
 
     Parameters
     ----------
     X : array_like (T, n), DataFrame or Path
-        The recording (NaN rows are gaps; a cycle containing one is reported
-        as NaN and left out of the mean).
+        The recording (NaN rows are gaps).
     i, j : int or str
         The pair of channels (index or name); the result is ``∮ x_i dx_j``.
     reference : int or str, optional
         Channel whose upward crossings delimit the cycles; default ``i``.
+    cut : {"crossing", "reversal"}
+        How cycles are cut: upward level crossings of the reference (the
+        default here) or its valleys (drift-proof; the default of
+        :func:`loop_cycles`).
     level : float, optional
-        Crossing level; default the reference channel's mean.
-    hysteresis : float
-        Half-width of a dead band against noise: a crossing counts only
-        after the reference has been below ``level - hysteresis``, and only
-        the last crossing before it reaches ``level + hysteresis``.
+        Crossing level (``cut="crossing"``); default the reference
+        channel's mean.
+    hysteresis : float or "auto"
+        Band against noise.  Crossing: half-width of a dead band (a
+        crossing counts only after the reference has been below
+        ``level - hysteresis``, and only the last crossing before it reaches
+        ``level + hysteresis``).  Reversal: a valley counts once the
+        reference has risen from it by this much.  ``"auto"``: from the
+        noise level of the reference (8 noise standard deviations for
+        reversals, 4 for the crossing half-width).
+    gap : "auto", None or float
+        A time step longer than this is a gap (``"auto"``: 1.5 times the
+        median step for regular sampling, 5 times the 99% quantile of the
+        steps for irregular logging; None: only missing values are gaps).
+        Used only when the rows have times.
     boundaries : array_like of float, optional
         Cycle boundaries as (fractional) sample positions, increasing,
         within ``[0, T - 1]``; replaces the crossing detection.  To use
@@ -214,9 +224,11 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
     >>> X = np.column_stack([2.0 * np.sin(t + np.pi / 6), 0.5 * np.sin(t)])
     >>> res = wp.cycle_areas(X, 0, 1, reference=1)
     >>> len(res), res.count, res.quantity
-    (4, 4, '∮ 0 d(1)')
+    (6, 4, '∮ 0 d(1)')
+    >>> list(res.status[[0, -1]])
+    ['partial-start', 'partial-end']
     >>> exact = 10 * np.sin(2 * np.pi / 20) * 2.0 * 0.5 * np.sin(np.pi / 6)
-    >>> bool(np.allclose(res.values, exact, rtol=1e-12))
+    >>> bool(np.allclose(res.values[res.complete], exact, rtol=1e-12))
     True
     """
     data = signal_input(X, times, names)
@@ -230,18 +242,19 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
     if np.isinf(P).any():
         r = int(np.argwhere(np.isinf(P))[0][0])
         raise ValueError(f"X contains an infinite value at row {r}")
-    hysteresis = as_real(hysteresis, "hysteresis")
-    if not hysteresis >= 0:
-        raise ValueError(f"hysteresis must be a finite number >= 0, got {hysteresis}")
+    valid = ~np.isnan(P).any(axis=1)
     if boundaries is not None:
         if reference is not None or level is not None:
             raise ValueError("give either boundaries or reference/level, not both")
         pos = as_float_array(boundaries, "boundaries", ndim=1)
-        ref_name, lev = None, None
+        ref_name, lev, band, noise = None, None, None, None
         if pos.size and (pos[0] < 0 or pos[-1] > T - 1):
             raise ValueError(f"boundaries must lie within [0, {T - 1}] (sample positions)")
         if pos.size > 1 and not np.all(np.diff(pos) > 0):
             raise ValueError("boundaries must be strictly increasing")
+        st, sp = pos[:-1], pos[1:]
+        status = np.array(["complete"] * st.size, dtype=object)
+        n_gaps = 0
     else:
         ref = a if reference is None else _channel(reference, nm, n, "reference")
         r = np.asarray(data.values[:, ref], dtype=np.float64)
@@ -250,17 +263,16 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
         finite = r[~np.isnan(r)]
         if finite.size == 0:
             raise ValueError("the reference channel has no samples (all NaN)")
-        if level is None:
-            lev = float(finite.mean())
-        else:
-            lev = as_real(level, "level")
         if finite.max() == finite.min():
             raise ValueError("the reference channel is constant, so it has no crossings; "
                              "choose another reference or give boundaries")
-        pos = _crossings(r, lev, hysteresis)
+        seg = segment(r, valid, data.times, cut=cut, level=level, hysteresis=hysteresis,
+                      gap=gap)
+        st, sp, status = seg.start, seg.stop, seg.status
+        lev, band, noise, n_gaps = seg.level, seg.band, seg.noise, seg.n_gaps
         ref_name = data.labels[ref]
     pair = (data.labels[a], data.labels[b])
-    C = max(pos.size - 1, 0)
+    C = st.size
     if C == 0:
         areas = np.empty(0)
         good = np.zeros(0, dtype=bool)
@@ -269,7 +281,8 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
         # Each channel is scaled by a power of two (exact) so that no product,
         # square or sum overflows or underflows; results are scaled back.
         ex = pow2_exponents(P, axis=0)
-        areas = _loop_areas(pow2_scale(P, -ex), pos)
+        areas = interval_areas(pow2_scale(P, -ex), st, sp)
+        areas[status != "complete"] = np.nan
         good = ~np.isnan(areas)
         cnt = int(good.sum())
         mean = areas[good].mean() if cnt else np.nan
@@ -280,30 +293,30 @@ def cycle_areas(X, i=0, j=1, *, reference=None, level=None, hysteresis=0.0, boun
         if not (np.isfinite(areas[good]).all() and np.isfinite(std if cnt > 1 else 0.0)):
             raise ValueError("cycle_areas: the areas overflow float64 for data this large; "
                              "rescale the data (e.g. divide each channel by its largest value)")
-    st, sp = pos[:-1], pos[1:]
+        status = np.where(good | (status != "complete"), status, "partial-gap").astype(object)
     t_st, time_unit = data.report_times(st)      # in the input's form (ISO text for datetimes)
     t_sp, _ = data.report_times(sp)
     return CycleAreas(values=areas, quantity=quantity_text(*pair), names=pair, start=st, stop=sp,
-                      start_time=t_st, stop_time=t_sp, complete=good, mean=mean, std=std,
-                      count=int(good.sum()), reference=ref_name, level=lev,
-                      units=data.units_of(pair), time_unit=time_unit)
+                      start_time=t_st, stop_time=t_sp, complete=good, status=status,
+                      mean=mean, std=std, count=int(good.sum()), reference=ref_name, level=lev,
+                      cut=None if boundaries is not None else cut, hysteresis=band, noise=noise,
+                      gaps=n_gaps, units=data.units_of(pair), time_unit=time_unit)
 
 
-def _loop_areas(P, pos):
-    """Chord-closed area of the polyline between consecutive boundary positions."""
+def interval_areas(P, start, stop):
+    """``∮ x_0 dx_1`` of the polyline between each fractional ``start`` and ``stop``, chord-closed.
+
+    NaN for an interval that contains a missing sample.
+    """
     T = P.shape[0]
-    k = np.minimum(np.floor(pos).astype(np.int64), T - 2)
-    f = (pos - k)[:, None]
-    Q = P[k] + f * (P[k + 1] - P[k])                      # boundary points
-    # augmented sequence: samples with the boundary points inserted after row k
-    S = np.insert(P, k + 1, Q, axis=0)
-    at = k + 1 + np.arange(pos.size)                      # index of each boundary point in S
-    lo, hi = at[0], at[-1]
-    seg = np.arange(lo, hi)                               # segments S[t] -> S[t+1]
-    cyc = np.searchsorted(at, seg, side="right") - 1      # cycle of each segment
-    R = Q[cyc]
-    u = S[seg] - R
-    v = S[seg + 1] - R
-    term = 0.5 * (u[:, 0] * v[:, 1] - u[:, 1] * v[:, 0])
-    starts = at[:-1] - lo
-    return np.add.reduceat(term, starts)
+    out = np.empty(start.size)
+    for c, (s, e) in enumerate(zip(start, stop)):
+        ks = min(int(np.floor(s)), T - 2)
+        ke = min(int(np.floor(e)), T - 2)
+        fs, fe = s - ks, e - ke
+        qs = P[ks] + fs * (P[ks + 1] - P[ks]) if fs else P[ks]
+        qe = P[ke + 1] if fe == 1 else (P[ke] + fe * (P[ke + 1] - P[ke]) if fe else P[ke])
+        inner = P[ks + 1:int(np.ceil(e))] if e > ks + 1 else P[:0]
+        Q = np.vstack([qs[None, :], inner, qe[None, :]]) - qs
+        out[c] = 0.5 * float(np.sum(Q[:-1, 0] * Q[1:, 1] - Q[:-1, 1] * Q[1:, 0]))
+    return out
