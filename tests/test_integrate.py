@@ -361,7 +361,9 @@ def test_no_runtime_warnings_on_degenerate_paths():
         warnings.simplefilter("error")
         r = wp.integrate(wp.OneForm([lambda c: np.exp(c[:, 1]), lambda c: c[:, 0]]), pts)
         s = wp.integrate(wp.dx(0) ^ wp.dx(1), pts)
-    assert math.isfinite(float(r))
+    # by hand: (0,0)->(1,0) gives int e^0 dx = 1; (1,0)->(1,1) gives int x dy = 1;
+    # (1,1)->(0,0) along x = y = u, u from 1 to 0, gives (1 - e) - 1/2; total 5/2 - e
+    assert float(r) == pytest.approx(2.5 - math.e, rel=1e-12)
     assert float(s) == pytest.approx(0.5)
 
 
@@ -395,7 +397,16 @@ class TestSplineModel:
         p = wp.Path(pts, times=np.arange(8.0))
         w = wp.Form.from_sympy([-Y, X], (X, Y))
         r = wp.integrate(w, p, closure=closure, curve="spline")
-        assert np.isfinite(float(r)) and r.exact
+        # by hand, for -y dx + x dy.  Piece (0,0),(1,0): a straight segment on y = 0, 0.
+        # Piece (2,0),(3,1),(2,2) at t = 3, 4, 5: the not-a-knot cubic through three
+        # samples is the interpolating parabola, u = t - 4: x = 3 - u^2, y = u + 1, so
+        # the integrand is u^2 + 2u + 3 and its integral over [-1, 1] is 20/3.
+        # chord: the straight chord (2,2) -> (2,0) adds int 2 dy = -4 (the first
+        # piece's chord lies on y = 0).  detrend: the drift (0, 2) is removed, the
+        # piece becomes (2,0),(3,0),(2,0), on y = 0: 0.  The single sample adds nothing.
+        want = {"none": 20 / 3, "chord": 20 / 3 - 4, "detrend": 0.0}[closure]
+        assert r.exact
+        assert float(r) == pytest.approx(want, rel=1e-12, abs=1e-12)
 
     def test_spline_equals_linear_for_constant_forms(self):
         rng = np.random.default_rng(4)

@@ -630,7 +630,13 @@ class TestCycleAreas:
         X[45] = np.nan
         res = wp.cycle_areas(X, 0, 1)
         assert np.isnan(res.values).sum() == 1
-        assert res.count == len(res) - 1 and np.isfinite(res.mean)
+        # (sin t, cos t) sampled 20 times a cycle is the regular 20-gon of circumradius 1
+        # traced clockwise: each complete cycle has area -(N/2) sin(2 pi / N) (common
+        # practice, no source); the mean is over the complete cycles only
+        assert res.count == len(res) - 1
+        complete = res.values[~np.isnan(res.values)]
+        np.testing.assert_allclose(complete, -(N / 2) * np.sin(2 * np.pi / N), rtol=1e-9)
+        assert res.mean == pytest.approx(complete.mean(), rel=1e-12)
         assert res.complete.tolist() == (~np.isnan(res.values)).tolist()
 
     def test_errors(self):
