@@ -33,7 +33,7 @@ bench: $(VENV)/.installed-bench $(VENV)/.installed-dask
 docs: $(VENV)/.installed-docs
 	$(PY) -m sphinx -b html -W --keep-going -n -q docs docs/_build/html
 
-## reliability-table: regenerate the bad-input table of docs/reliability.md from tests/reliability_rows.py
+## reliability-table: regenerate the bad-input table of docs/reliability.md from tests/reliability/
 reliability-table: $(VENV)/.installed-test
 	$(PY) docs/reliability_table.py
 

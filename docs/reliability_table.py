@@ -1,6 +1,6 @@
 """Render the bad-input table of docs/reliability.md from the rows of the test suite.
 
-The rows (``ROWS``, ``CLASSES``) live in ``tests/reliability_rows.py``, where each is also a
+The rows (``ROWS``, ``CLASSES``) live by feature in ``tests/reliability/``, where each is also a
 test (``tests/test_reliability_table.py::test_row``); this script writes the generated part
 of the page, between the BEGIN/END markers, and leaves the rest of the page alone::
 
@@ -23,7 +23,7 @@ END = "<!-- END GENERATED TABLE -->"
 
 if str(ROOT / "tests") not in sys.path:
     sys.path.insert(0, str(ROOT / "tests"))
-from reliability_rows import CLASSES, ROWS, Row  # noqa: E402 - the rows live with the tests
+from reliability import CLASSES, ROWS, Row  # noqa: E402 - the rows live with the tests
 
 
 def _cell(text):

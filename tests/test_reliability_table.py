@@ -1,6 +1,6 @@
 """The bad-input table of docs/reliability.md: one test per row, and completeness.
 
-The rows live in ``reliability_rows.py`` (``ROWS``, ``CLASSES``); ``test_row`` runs every
+The rows live by feature in ``reliability/`` (``ROWS``, ``CLASSES``); ``test_row`` runs every
 row, ``test_every_public_call_has_rows`` fails when a public function, class or subcommand
 has no row, so the table cannot silently fall behind the API, and
 ``test_doc_table_is_current`` fails when the table in docs/reliability.md differs from what
@@ -19,7 +19,7 @@ import pytest
 import wedgepath as wp
 from wedgepath import symbolic
 
-from reliability_rows import ROWS, Row, wdask
+from reliability import ROWS, Row, wdask
 
 ROOT = FsPath(__file__).resolve().parents[1]
 
