@@ -4,7 +4,7 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 PIP    := $(PY) -m pip
 
-.PHONY: demo test bench doctest docs clean venv
+.PHONY: demo test bench doctest docs reliability-table clean venv
 
 $(VENV)/.created:
 	$(PYTHON) -m venv $(VENV)
@@ -32,6 +32,10 @@ bench: $(VENV)/.installed-bench $(VENV)/.installed-dask
 ## docs: install -e ".[docs]" and build the site into docs/_build/html (warnings are errors)
 docs: $(VENV)/.installed-docs
 	$(PY) -m sphinx -b html -W --keep-going -n -q docs docs/_build/html
+
+## reliability-table: regenerate the bad-input table of docs/reliability.md from tests/reliability/
+reliability-table: $(VENV)/.installed-test
+	$(PY) docs/reliability_table.py
 
 clean:
 	rm -rf $(VENV) build dist src/*.egg-info .pytest_cache .hypothesis

@@ -1,18 +1,57 @@
-"""Every public entry point the design page lists (../shared/DESIGN.md, section 3), called as
-listed, with its result checked against a value computed here independently.
+"""The stable public entry points, called as users call them, with each result checked
+against a value computed here independently.
 
-This is the contract users and acceptance checks rely on: a renamed or removed entry point
-fails here first.  Expected values are closed forms (common practice, no source) or exact
-rational arithmetic.
+``ENTRY_POINTS`` below is the list (with the methods and attributes users rely on); a renamed
+or removed entry point fails here first.  Expected values are closed forms (common practice,
+no source) or exact rational arithmetic.
 """
 
+import re
 from fractions import Fraction
+from pathlib import Path
 
 import numpy as np
 import pytest
 import sympy as sp
 
 import wedgepath as wp
+
+
+#: name in ``wedgepath`` -> methods / attributes of it (or of what it returns) that users call
+ENTRY_POINTS = {
+    "Path": ("plane", "window", "pieces", "reversed", "close"),
+    "Chain": ("coefficients", "boundary"),
+    "dx": (),
+    "OneForm": ("from_sympy",),
+    "Form": ("from_sympy", "d"),
+    "integrate": (),
+    "signed_area": (),
+    "winding_number": (),
+    "region_integral": (),
+    "decompose": (),
+    "cone": (),
+    "area_matrix": (),
+    "cyclic_order": (),
+    "rolling_area_matrix": (),
+    "AreaAccumulator": ("update", "merge", "result"),
+}
+
+
+def test_entry_points_are_public_and_exercised_here():
+    source = Path(__file__).read_text(encoding="utf-8")
+    body = source[source.index("def square("):]       # the tests below, not the list above
+    for name, members in ENTRY_POINTS.items():
+        assert name in wp.__all__, f"wp.{name} is not in wedgepath.__all__"
+        obj = getattr(wp, name)
+        assert callable(obj), f"wp.{name} is not callable"
+        assert re.search(rf"\bwp\.{name}\b", body), f"no test below calls wp.{name}"
+        for member in members:
+            assert re.search(rf"\.{member}\b", body), f"no test below uses .{member}"
+    for member in ("plane", "window", "reversed", "close"):
+        assert callable(getattr(wp.Path, member))
+    assert isinstance(wp.Path.pieces, property)
+    for member in ("update", "merge", "result"):
+        assert callable(getattr(wp.AreaAccumulator, member))
 
 
 def square(n_side=1):

@@ -270,9 +270,19 @@ def test_path(points, times, names):
         check(p.window, 1, None if p.times is None else None)
 
 
-@FUZZ
+# integrate is the costliest target per example (adaptive quadrature of callables, spline
+# fits); the CI budget is 40 examples, with the option errors and a spline on a gapped
+# path pinned as examples so that every run checks them.  The long run keeps its budget.
+INTEGRATE_FUZZ = FUZZ if _LONG else settings(FUZZ, max_examples=min(FUZZ.max_examples, 40))
+
+
+@INTEGRATE_FUZZ
 @given(arrays(), st.sampled_from(["dx0", "dx1", "dx0^dx1", "poly", "callable", "0form"]),
        CLOSURE, st.sampled_from(["linear", "spline", "bogus"]))
+@example(np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0]]), "callable", "circle", "linear")
+@example(np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0]]), "poly", "chord", "bogus")
+@example(np.array([[0.0, 0.0], [1.0, 0.0], [np.nan, 0.0], [2.0, 1.0], [3.0, 0.5], [2.5, 2.0]]),
+         "callable", "detrend", "spline")
 def test_integrate(points, which, closure, curve):
     form = {"dx0": wp.dx(0), "dx1": 2 * wp.dx(1) - wp.dx(0), "dx0^dx1": wp.dx(0) ^ wp.dx(1),
             "poly": wp.OneForm([lambda c: c[:, 1] ** 2, lambda c: c[:, 0]], poly_degree=2),

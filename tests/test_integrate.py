@@ -3,6 +3,7 @@
 import math
 import sys
 import warnings
+from fractions import Fraction
 
 import numpy as np
 import pytest
@@ -361,7 +362,9 @@ def test_no_runtime_warnings_on_degenerate_paths():
         warnings.simplefilter("error")
         r = wp.integrate(wp.OneForm([lambda c: np.exp(c[:, 1]), lambda c: c[:, 0]]), pts)
         s = wp.integrate(wp.dx(0) ^ wp.dx(1), pts)
-    assert math.isfinite(float(r))
+    # by hand: (0,0)->(1,0) gives int e^0 dx = 1; (1,0)->(1,1) gives int x dy = 1;
+    # (1,1)->(0,0) along x = y = u, u from 1 to 0, gives (1 - e) - 1/2; total 5/2 - e
+    assert float(r) == pytest.approx(2.5 - math.e, rel=1e-12)
     assert float(s) == pytest.approx(0.5)
 
 
@@ -369,8 +372,9 @@ class TestSplineModel:
     def test_polynomial_form_exact_on_the_spline_itself(self):
         # The spline model integrates along the cubic spline scipy builds through the
         # samples; a polynomial form pulled back to a cubic is a polynomial, so the
-        # Gauss rule must reproduce the exact integral along that very spline, which
-        # the symbolic layer computes piece by piece from the spline's coefficients.
+        # Gauss rule must reproduce the exact integral along that very spline, computed
+        # below piece by piece from the spline's coefficients in exact rational
+        # arithmetic (the same value as symbolic.line_integral gives, at a fraction of its cost).
         from scipy.interpolate import CubicSpline
         rng = np.random.default_rng(2)
         t = np.cumsum(rng.uniform(0.5, 1.5, 7))
@@ -378,13 +382,32 @@ class TestSplineModel:
         comps = [X**2 * Y, X - Y**3]
         got = wp.integrate(wp.Form.from_sympy(comps, (X, Y)), wp.Path(pts, times=t), curve="spline")
         cs = CubicSpline(t, pts, axis=0, bc_type="not-a-knot")
-        s = sp.Symbol("s")
-        exact = 0
+        # exact rational arithmetic on the spline's own (float, hence rational) coefficients:
+        # polynomials in s as coefficient lists, lowest degree first
+        F = Fraction
+
+        def mul(a, b):
+            out = [F(0)] * (len(a) + len(b) - 1)
+            for i, u in enumerate(a):
+                for j, v in enumerate(b):
+                    out[i + j] += u * v
+            return out
+
+        def add(a, b):
+            n = max(len(a), len(b))
+            return [(a[i] if i < len(a) else 0) + (b[i] if i < len(b) else 0) for i in range(n)]
+
+        def deriv(a):
+            return [m * a[m] for m in range(1, len(a))] or [F(0)]
+
+        exact = F(0)
         for k in range(len(t) - 1):
-            h = symbolic.to_rational(t[k + 1] - t[k])
-            curve = [sum(symbolic.to_rational(cs.c[p, k, d]) * s ** (3 - p) for p in range(4))
-                     for d in range(2)]
-            exact += symbolic.line_integral(comps, (X, Y), curve, s, (0, h))
+            h = F(float(t[k + 1] - t[k]))
+            x, y = ([F(float(cs.c[3 - m, k, d])) for m in range(4)] for d in range(2))
+            # the 1-form x^2 y dx + (x - y^3) dy pulled back along (x(s), y(s))
+            integrand = add(mul(mul(mul(x, x), y), deriv(x)),
+                            mul(add(x, [-c for c in mul(mul(y, y), y)]), deriv(y)))
+            exact += sum(c * h ** (m + 1) / (m + 1) for m, c in enumerate(integrand))
         assert got.exact
         assert float(got) == pytest.approx(float(exact), rel=1e-12)
 
@@ -395,7 +418,16 @@ class TestSplineModel:
         p = wp.Path(pts, times=np.arange(8.0))
         w = wp.Form.from_sympy([-Y, X], (X, Y))
         r = wp.integrate(w, p, closure=closure, curve="spline")
-        assert np.isfinite(float(r)) and r.exact
+        # by hand, for -y dx + x dy.  Piece (0,0),(1,0): a straight segment on y = 0, 0.
+        # Piece (2,0),(3,1),(2,2) at t = 3, 4, 5: the not-a-knot cubic through three
+        # samples is the interpolating parabola, u = t - 4: x = 3 - u^2, y = u + 1, so
+        # the integrand is u^2 + 2u + 3 and its integral over [-1, 1] is 20/3.
+        # chord: the straight chord (2,2) -> (2,0) adds int 2 dy = -4 (the first
+        # piece's chord lies on y = 0).  detrend: the drift (0, 2) is removed, the
+        # piece becomes (2,0),(3,0),(2,0), on y = 0: 0.  The single sample adds nothing.
+        want = {"none": 20 / 3, "chord": 20 / 3 - 4, "detrend": 0.0}[closure]
+        assert r.exact
+        assert float(r) == pytest.approx(want, rel=1e-12, abs=1e-12)
 
     def test_spline_equals_linear_for_constant_forms(self):
         rng = np.random.default_rng(4)

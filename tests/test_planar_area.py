@@ -214,10 +214,17 @@ def test_moments_match_symbolic_layer_exactly_for_rational_vertices():
         for key in ("area", "int_x", "int_y", "int_xx", "int_xy", "int_yy"):
             assert getattr(m, key) == pytest.approx(float(exact[key]), abs=1e-13 * scale)
         if exact["centroid"] is None:
-            assert m.centroid is None or abs(m.area) < 1e-12
+            # the vertices are exact in binary, so the float area is exactly 0 as well
+            assert m.centroid is None and m.area == 0.0
         elif abs(float(exact["area"])) > 1e-3:
             assert m.centroid == pytest.approx(tuple(float(c) for c in exact["centroid"]),
                                                rel=1e-10, abs=1e-10)
+    # zero net area (collinear; a balanced figure-eight): no centroid, as in the exact layer
+    for pts in ([[0.0, 0.0], [1.0, 1.0], [2.0, 2.0]],
+                [[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 0.0], [-1.0, -1.0], [-1.0, 0.0]]):
+        assert sy.polygon_moments(pts)["centroid"] is None
+        m = wp.region_moments(np.array(pts))
+        assert m.area == 0.0 and m.centroid is None
 
 
 def test_figure_eight_has_no_centroid():

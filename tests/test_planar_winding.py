@@ -68,11 +68,13 @@ def test_many_turn_loop_agrees_with_angle_sum():
     t = np.linspace(0, 24 * np.pi, 3000, endpoint=False)
     r = 1 + 0.3 * np.sin(0.7 * t)
     poly = np.column_stack([r * np.cos(t), r * np.sin(t)])
-    q = np.random.default_rng(2).uniform(-1.4, 1.4, size=(4000, 2))
+    # 800 query points (the two dense oracles cost points x vertices): every winding
+    # number from 0 to 12 is still hit
+    q = np.random.default_rng(2).uniform(-1.4, 1.4, size=(800, 2))
     q = q[distance_to_polygon(poly, q) > 1e-9]
     got = wp.winding_number(poly, q)
     assert np.array_equal(got, angle_sum(poly, q))
-    assert got.max() == 12
+    assert set(got.tolist()) == set(range(13))
 
 
 @PROPS

@@ -338,7 +338,7 @@ def test_area_matrix_frame_lists_every_pair_once():
         assert row["channel_i"] == WAVES.columns[row["i"]] and row["i"] < row["j"]
         assert row["area"] == pytest.approx(raw[row["i"], row["j"]], rel=1e-12)
         assert row["normalized"] == m.values[row["i"], row["j"]]
-    assert np.array_equal(m.raw, raw) or np.allclose(m.raw, raw, rtol=1e-12, atol=0)
+    np.testing.assert_allclose(m.raw, raw, rtol=1e-12, atol=0)
 
 
 def test_surrogate_and_bootstrap_frames_match_their_matrices():

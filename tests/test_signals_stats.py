@@ -641,7 +641,13 @@ class TestCycleAreas:
         res = wp.cycle_areas(X, 0, 1)
         # the cycle holding the gap is cut in two partial pieces, flagged "partial-gap"
         assert (res.status == "partial-gap").sum() == 2
-        assert res.count == len(res) - 4 and np.isfinite(res.mean)
+        assert res.count == len(res) - 4
+        # (sin t, cos t) sampled 20 times a cycle is the regular 20-gon of circumradius 1
+        # traced clockwise: each complete cycle has area -(N/2) sin(2 pi / N) (common
+        # practice, no source); the mean is over the complete cycles only
+        complete = res.values[res.complete]
+        np.testing.assert_allclose(complete, -(N / 2) * np.sin(2 * np.pi / N), rtol=1e-9)
+        assert res.mean == pytest.approx(complete.mean(), rel=1e-12)
         assert res.complete.tolist() == (~np.isnan(res.values)).tolist()
         gap_rows = np.flatnonzero(res.status == "partial-gap")
         assert res.stop[gap_rows[0]] == 44 and res.start[gap_rows[1]] == 46

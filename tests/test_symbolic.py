@@ -327,6 +327,46 @@ def test_polyline_matches_line_integral_on_a_segment():
     assert sy.line_integral(comps, [X, Y, Z], seg2, t, (0, 1)) == expected
 
 
+def _segment_integral_exact(comps, syms, p, q):
+    """Exact line integral of a polynomial 1-form along the segment p -> q (fractions).
+
+    The pullback along x(t) = p + t (q - p), t in [0, 1], is a polynomial in t: each
+    monomial is expanded as a product of the linear factors p_k + t (q_k - p_k) with
+    exact rational coefficients c_m, and integrated term by term (int_0^1 t^m = 1/(m+1)).
+    Independent of sympy's integrate and of the library's polyline formula.
+    """
+    def mul(a, b):
+        out = [Fraction(0)] * (len(a) + len(b) - 1)
+        for i, u in enumerate(a):
+            for j, v in enumerate(b):
+                out[i + j] += u * v
+        return out
+
+    p = [Fraction(v) for v in p]
+    q = [Fraction(v) for v in q]
+    total = Fraction(0)
+    for i, c in enumerate(comps):
+        if q[i] == p[i]:
+            continue
+        for exps, coef in sympy.Poly(c, *syms).terms():
+            poly = [Fraction(int(coef.p), int(coef.q))]
+            for k, e in enumerate(exps):
+                for _ in range(e):
+                    poly = mul(poly, [p[k], q[k] - p[k]])
+            total += (q[i] - p[i]) * sum(cm / (m + 1) for m, cm in enumerate(poly))
+    return sympy.Rational(total.numerator, total.denominator)
+
+
+def test_segment_reference_against_sympy_integrate():
+    # the fraction reference above, checked once against sympy's integrate (slow)
+    t = sympy.Symbol("t")
+    comps = [X**2 * Y - 3, Y**3 + sympy.Rational(1, 2) * X * Y]
+    p, q = (Fraction(1, 3), Fraction(-2)), (Fraction(5, 7), Fraction(3, 2))
+    seg = [sympy.Rational(a) + t * (sympy.Rational(b) - sympy.Rational(a)) for a, b in zip(p, q)]
+    assert _segment_integral_exact(comps, [X, Y], p, q) == sy.line_integral(comps, [X, Y], seg,
+                                                                             t, (0, 1))
+
+
 @given(st.data())
 @FEW
 def test_polyline_fast_path_matches_segmentwise_line_integral(data):
@@ -336,19 +376,10 @@ def test_polyline_fast_path_matches_segmentwise_line_integral(data):
     pts = data.draw(rational_points(n, 2, 5))
     closed = data.draw(st.booleans())
     value = sy.polyline_integral(omega, syms, pts, closed=closed)
-    t = sympy.Symbol("t")
     loop = pts + [pts[0]] if closed else pts
     comps = [omega[(i,)] for i in range(n)]
-    expected = sum(
-        sy.line_integral(
-            comps,
-            syms,
-            [sympy.Rational(a) + t * (sympy.Rational(b) - sympy.Rational(a)) for a, b in zip(p, q)],
-            t,
-            (0, 1),
-        )
-        for p, q in zip(loop[:-1], loop[1:])
-    )
+    expected = sum(_segment_integral_exact(comps, syms, p, q)
+                   for p, q in zip(loop[:-1], loop[1:]))
     assert value == expected
 
 
