@@ -60,7 +60,8 @@ else:
                     suppress_health_check=_HEALTH)
 
 DOCUMENTED_WARNINGS = (wp.ConstantChannelWarning, wp.DecompositionWarning,
-                       wp.IntegrationWarning, wp.SurrogateWarning, wp.ShapeWarning)
+                       wp.IntegrationWarning, wp.SurrogateWarning, wp.ShapeWarning,
+                       wp.DriftWarning, wp.ResamplingWarning, wp.CycleLengthWarning)
 
 # --------------------------------------------------------------------------- values
 SPECIAL = [0.0, -0.0, 1.0, -1.0, 0.5, 2.0, 3.0, 1e-300, -1e-300, 5e-324, 1e300, -1e300,
@@ -413,6 +414,77 @@ def test_cyclic_order_and_hilbert(A, start):
        st.sampled_from([0.0, 0.1, -1.0, np.inf, None]))
 def test_cycle_areas(X, i, j, level, hysteresis):
     check(wp.cycle_areas, X, i, j, level=level, hysteresis=hysteresis)
+
+
+# --------------------------------------------------------------------------- issues 16-19
+BANDS = st.sampled_from([None, [0, 0.1, 0.5], [0.2, 0.1], {"slow": (0, 0.05), "fast": (0.05, 0.5)},
+                         "alpha", [0, np.nan], [-1, 1], 3])
+
+
+@FUZZ
+@given(arrays(max_rows=24), st.one_of(st.none(), arrays(cols=1, weird=False)), BANDS, CLOSURE,
+       st.sampled_from(["resample", "index", "spline"]))
+def test_lead_spectrum(X, times, bands, closure, irregular):
+    if isinstance(times, np.ndarray) and times.ndim == 2:
+        times = times[:, 0]
+    out = check(wp.lead_spectrum, X, times=times, bands=bands, closure=closure,
+                irregular=irregular)
+    if out[0] == "ok" and bands is not None:
+        # the bands and the rest add up to the area matrix (the identity of docs/theory.md)
+        S = wp.lead_spectrum(X, times=times, bands=bands, closure=closure, irregular="index")
+        A = wp.area_matrix(X, times=times, closure=closure).values
+        total = np.asarray(S.areas).sum(axis=0) + np.asarray(S.rest)
+        scale = max(1.0, float(np.max(np.abs(A))))
+        assert np.allclose(total, A, rtol=1e-9, atol=1e-9 * scale)
+
+
+@FUZZ
+@given(arrays(max_rows=24), st.sampled_from(["detrend", "chord", "none", 3]),
+       st.one_of(st.integers(-1, 5), st.sampled_from([None, 1.5, "s"])))
+def test_fit_and_drift(X, closure, seed):
+    fn = run if seed is None else check
+    fn(wp.fit_test, X, closure=closure, n_surrogates=5, seed=seed)
+    check(wp.drift_check, X, warn=False)
+
+
+@FUZZ
+@given(arrays(max_rows=40), st.one_of(st.integers(-1, 3), st.sampled_from(["zz", None, 1.5])),
+       st.sampled_from([0.95, 0.0, 2.0, "x"]))
+def test_reference_lags(X, reference, confidence):
+    check(wp.reference_lags, X, reference, n_boot=5, confidence=confidence)
+
+
+@FUZZ
+@given(arrays(max_rows=24), st.sampled_from([(1, 0), (0, 1), (0, 0), (5, 1), ("a", 1)]),
+       st.sampled_from([None, "force-displacement", "stress-strain", "B-H", "p-V", "torque"]),
+       st.sampled_from([None, {"x": "mm", "y": "kN"}, {"x": "s", "y": "N"}, {"x": "mm"},
+                        {"x": "__import__('os')", "y": "N"}]),
+       st.sampled_from(["reversal", "crossing", "zero"]),
+       st.sampled_from(["auto", 0.0, 0.1, -1.0, np.nan, "a"]))
+def test_loop_cycles(X, xy, kind, units, cut, hysteresis):
+    check(wp.loop_cycles, X, xy[0], xy[1], kind=kind, units=units, cut=cut,
+          hysteresis=hysteresis)
+
+
+@FUZZ
+@given(arrays(max_rows=24), st.sampled_from([(None, None), (0, 1), (1, 0), (0, 0), (0, None)]),
+       st.sampled_from([0.0, 0.5, -1.0, np.inf, "a"]))
+def test_rainflow(X, xy, hysteresis):
+    out = check(wp.rainflow, X, xy[0], xy[1], hysteresis=hysteresis)
+    if out[0] == "ok" and xy == (None, None):
+        r = wp.rainflow(X, hysteresis=hysteresis)
+        counts = np.asarray(r.count, dtype=float)
+        assert np.all((counts == 0.5) | (counts == 1.0))
+
+
+@FUZZ
+@given(arrays(max_rows=40), st.sampled_from([(2.0, 8.0), (8.0, 2.0), (0.0, 4.0), (1.0, 1e9),
+                                             (np.nan, 3.0)]))
+def test_filters(X, band):
+    check(wp.filters.detrend, X)
+    check(wp.filters.difference, X)
+    check(wp.filters.bandpass, X, *band)
+    check(wp.filters.highpass, X, band[1])
 
 
 @FUZZ

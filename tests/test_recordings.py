@@ -336,10 +336,11 @@ class TestReportAndCommandLine:
         r = report.leadlag(X, n_surrogates=99, n_boot=99, names=["a", "b", "c"])
         assert r.significance.trials == 10 and r.bootstrap.resample == "trials"
         text = "\n".join(r.summary())
-        # the surrogates and the bootstrap pool the trials; only the verdict, drift and lag
-        # checks (issue 17) still use the longest gap-free stretch, and say so
+        # the surrogates, the bootstrap and the verdict pool the trials; only the drift and
+        # lag checks (issue 17) still use the longest gap-free stretch, and say so
         assert not [ln for ln in text.splitlines()
-                    if "longest gap-free" in ln and "verdict" not in ln]
+                    if "longest gap-free" in ln and "the drift check and the lags" not in ln]
+        assert "the calibrated verdict pools 10 gap-free pieces" in text
         assert "within each piece; area summed over 10 pieces" in text
         assert "resampling 10 whole trials" in text
         d = r.to_dict()

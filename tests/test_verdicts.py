@@ -322,3 +322,38 @@ if __name__ == "__main__":       # the figures quoted in docs/signals.md, sectio
     for (kind, n, scaled), r in null_rates().items():
         print(f"| {kind} | {n} | {'10^U(0, 1.5)' if scaled else 'equal'} | {r:.3f} |")
     print("power:", power_rate())
+
+
+# --------------------------------------------------------------------------- trials (issue 16)
+def _short_trials(seed, noise=2.0, L=40, k=10, lead=True):
+    """k trials of L rows separated by NaN rows; with ``lead`` a smoothed drive seen by three
+    sensors 2 samples apart (channel 0 first), else independent noise."""
+    rng = np.random.default_rng(seed)
+    rows = []
+    for _ in range(k):
+        d = np.convolve(rng.standard_normal(L + 20), np.hanning(7), mode="same")
+        X = np.column_stack([d[10 - 2 * j:10 + L - 2 * j] for j in range(3)]) if lead \
+            else np.zeros((L, 3))
+        rows += [X + noise * rng.standard_normal((L, 3)), np.full((1, 3), np.nan)]
+    return np.vstack(rows[:-1]), rows[0]
+
+
+def test_fit_test_pools_trials_where_one_piece_cannot():
+    found_pooled = found_single = 0
+    for s in range(10):
+        X, first = _short_trials(s)
+        found_pooled += wp.fit_test(X, trials="gaps", seed=s, n_surrogates=99).above
+        found_single += wp.fit_test(first, seed=s, n_surrogates=99).above
+    assert found_pooled >= 9 and found_single <= 3, (found_pooled, found_single)
+    # gaps without trials= are refused, naming the gap
+    with pytest.raises(ValueError, match="NaN \\(a gap\\) at row 40"):
+        wp.fit_test(_short_trials(0)[0])
+
+
+def test_fit_test_pooled_over_trials_is_calibrated_under_the_null():
+    # 60 null data sets of 10 independent-noise trials: "above noise" at 5% in about 5%
+    # (binomial: more than 9 of 60 has probability below 1% when the rate is 5%)
+    hits = sum(wp.fit_test(_short_trials(100 + s, lead=False)[0], trials="gaps", seed=s,
+                           n_surrogates=99).above for s in range(60))
+    assert hits <= 9, hits
+

@@ -1072,7 +1072,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
               top=int(top), times_given=times is not None, time_name=time_name,
               units=dict(units or {}), source=dict(source or {}), preprocessing=pre)
     kw.update(_honest_reading(values, times, names, order, closure, verdict_surrogates, seed,
-                              reference, notes))
+                              reference, notes, trials=trials))
     if kw.get("verdict") is not None and order is not None:
         kw["order"] = dataclasses.replace(order, fit_pvalue=kw["verdict"].pvalue)
     if window is not None:
@@ -1091,7 +1091,8 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
                                        tol=tol, trials=trials)
         notes += [str(w.message) for w in caught if str(w.message) not in notes]
     kw["time_unit"] = None if times is None else (
-        "ISO-8601" if times.kind == "datetime" else times.unit)
+        "ISO-8601" if getattr(times, "kind", None) == "datetime" else
+        getattr(times, "unit", None))
     if bands is not None:
         from .signals import lead_spectrum
         with warnings.catch_warnings(record=True) as caught:
@@ -1161,7 +1162,7 @@ CHECK_ROWS = 1 << 18
 
 
 def _honest_reading(values, times, names, order, closure, verdict_surrogates, seed, reference,
-                    notes):
+                    notes, trials=None):
     """Verdict, drift, anti-phase candidates, chain or ring, reference lags (issue 17).
 
     Computed on the longest gap-free stretch; adds to ``notes`` what a reader must know.
@@ -1177,11 +1178,32 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
     tpart = None if times is None else _seconds(times)[a:b]
     if reference is not None and reference not in names:
         raise ValueError(f"reference: unknown channel {reference!r}; channels are {list(names)}")
+    pooled = None
+    if (verdict_surrogates is not None and n <= FIT_TEST_MAX_CHANNELS
+            and values.shape[0] <= CHECK_ROWS and (trials is not None
+                                                   or (a, b) != (0, values.shape[0]))):
+        # trials, or gap-free pieces: the verdict pools them (each piece detrended alone)
+        from .signals.verdicts import _trial_base
+        try:
+            pooled, _ = _trial_base(values, None if times is None else _seconds(times),
+                                    list(names), trials, detrend=True)
+        except ValueError:
+            pooled = None
+        if pooled is not None and len(pooled) > 1:
+            core = _fit_core(pooled, int(verdict_surrogates), 512, as_rng(seed))
+            out["verdict"] = FitTest(**core, seed=seed, names=names, closure="detrend")
+            notes.append(f"the calibrated verdict pools {len(pooled)} gap-free pieces (trials "
+                         "of at least 8 rows, each detrended on its own)")
+        else:
+            pooled = None
     if b - a < 16:
-        notes.append("no calibrated verdict, drift check or lags: fewer than 16 gap-free rows")
+        notes.append("no calibrated verdict, drift check or lags: fewer than 16 gap-free rows"
+                     if pooled is None else "no drift check or lags: the longest gap-free "
+                     "stretch has fewer than 16 rows")
         return out
     if (a, b) != (0, values.shape[0]):
-        notes.append(f"the verdict, the drift check and the lags use the longest gap-free "
+        which = "the verdict, the drift check" if pooled is None else "the drift check"
+        notes.append(f"{which} and the lags use the longest gap-free "
                      f"stretch, rows {a + 1}-{b} of {values.shape[0]}")
     if part.shape[0] > CHECK_ROWS:
         # long tables: the checks use means of blocks of m consecutive rows (the same
@@ -1194,7 +1216,7 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
         notes.append(f"the verdict, the drift check and the lags use means of blocks of {m} "
                      f"rows ({k} blocks): leads shorter than {m} samples are not seen by them")
     Y, data, ramp = _base(part, tpart, list(names))      # one prepared copy for all checks
-    if verdict_surrogates is not None:
+    if verdict_surrogates is not None and pooled is None:
         if n > FIT_TEST_MAX_CHANNELS:
             notes.append(f"no calibrated verdict for more than {FIT_TEST_MAX_CHANNELS} channels")
         else:

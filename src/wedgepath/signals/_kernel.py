@@ -273,7 +273,12 @@ class ShapeWarning(UserWarning):
 
 def _looks_like_clock(col) -> bool:
     """Strictly increasing with near-constant steps (within 1 % of the median step)."""
-    d = np.diff(col)
+    if col.size < 4 or not np.isfinite(col).all():
+        return False          # gaps and infinities are judged (and refused) elsewhere
+    with np.errstate(over="ignore", invalid="ignore"):
+        d = np.diff(col)      # steps between values near the float64 limit may overflow
+    if not np.isfinite(d).all():
+        return False
     if d.size < 3 or not np.all(d > 0):
         return False
     med = float(np.median(d))

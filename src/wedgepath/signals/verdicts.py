@@ -167,6 +167,26 @@ def _base(X, times, names, what="X"):
     return Y, data, s
 
 
+def _trial_base(X, times, names, trials, *, detrend, what="X"):
+    """Centred gap-free pieces of the trials (each detrended on its own if asked), and the
+    checked input: the pieces' areas add, and the verdict pools them."""
+    from .significance import _trial_pieces
+
+    pieces, _, data, _, tr = _trial_pieces(X, times, names, trials, what=what, min_len=8)
+    if detrend:
+        keep = (tr.piece_stop - tr.piece_start) >= 8
+        t = None if data.times is None else np.asarray(data.times, dtype=np.float64)
+        out = []
+        for P, a, b in zip(pieces, tr.piece_start[keep].tolist(), tr.piece_stop[keep].tolist()):
+            if t is None:
+                s = np.arange(b - a) / (b - a - 1.0)
+            else:
+                s = (t[a:b] - t[a]) / (t[b - 1] - t[a])
+            out.append(_detrended(P, s))
+        pieces = out
+    return pieces, data
+
+
 def _detrended(Y, s):
     """``Y`` minus its drift from first to last sample, centred again (a new array)."""
     Yd = Y - np.multiply.outer(s, Y[-1] - Y[0])
@@ -188,13 +208,17 @@ def _fit_core(Y, B, K, rng):
     """The test on prepared (centred) samples: a dict of FitTest's numbers."""
     from .significance import _cyclic_area
 
-    T, n = Y.shape
+    # Y is one centred array, or a list of centred gap-free pieces (trials): the area is
+    # the sum of the pieces' areas and each piece's frequencies get their own independent
+    # phases under the null, so the pieces' spectral rows simply stack
+    pieces = list(Y) if isinstance(Y, (list, tuple)) else [Y]
+    T, n = sum(P.shape[0] for P in pieces), pieces[0].shape[1]
     if T < 8:
         raise ValueError(f"fit_test needs at least 8 samples, got {T}")
     if n > FIT_TEST_MAX_CHANNELS:
         raise ValueError(f"fit_test handles at most {FIT_TEST_MAX_CHANNELS} channels, got {n}")
-    a = _spectral_amplitudes(Y)
-    A = _cyclic_area(Y)                  # = the frequency-domain formula (tested)
+    a = np.concatenate([_spectral_amplitudes(P) for P in pieces], axis=0)
+    A = sum(_cyclic_area(P) for P in pieces)   # = the frequency-domain formula (tested)
     a2 = a * a
     var = 0.5 * (a2.T @ a2)                                  # null variance of each entry
     off = ~np.eye(n, dtype=bool)
@@ -241,7 +265,7 @@ def _fit_core(Y, B, K, rng):
 
 
 def fit_test(X, *, closure="detrend", n_surrogates=199, seed=0, times=None, names=None,
-             exact_frequencies=_EXACT_FREQUENCIES) -> FitTest:
+             exact_frequencies=_EXACT_FREQUENCIES, trials=None) -> FitTest:
     """Test whether the leading lead-lag cycle of the data is stronger than noise.
 
     Builds the null "each channel keeps its own spectrum, no timing between
@@ -274,6 +298,13 @@ def fit_test(X, *, closure="detrend", n_surrogates=199, seed=0, times=None, name
     exact_frequencies : int
         At most this many frequencies are simulated exactly, chosen by their
         share of some channel's power; the rest by their normal limit.
+    trials : str, array_like or None
+        Trials to pool (a trial label per row, a DataFrame column's name, or
+        ``"gaps"`` for the gap-free pieces): the area is summed over the
+        pieces and each piece's frequencies get their own random phases
+        under the null (pieces of fewer than 8 rows are left out; with
+        ``closure="detrend"`` each piece loses its own drift).  Default:
+        one gap-free recording.
 
     Returns
     -------
@@ -314,9 +345,12 @@ def fit_test(X, *, closure="detrend", n_surrogates=199, seed=0, times=None, name
     check_choice(closure, "closure", ("chord", "detrend"))
     B, K = _check_counts(n_surrogates, exact_frequencies)
     rng = as_rng(seed)
-    Y, data, s = _base(X, times, names)
-    if closure == "detrend":
-        Y = _detrended(Y, s)
+    if trials is not None:
+        Y, data = _trial_base(X, times, names, trials, detrend=closure == "detrend")
+    else:
+        Y, data, s = _base(X, times, names)
+        if closure == "detrend":
+            Y = _detrended(Y, s)
     return FitTest(**_fit_core(Y, B, K, rng), seed=seed, names=data.labels, closure=closure,
                    units=data.units)
 
