@@ -135,6 +135,10 @@ def remove_stale_reference_pages(app):
     if not folder.is_dir():
         return
     public = set(public_names())
+    for name in list(public):       # a public module's own names (wp.filters.bandpass, ...)
+        obj = _import(name)
+        if isinstance(obj, type(re)):
+            public |= {f"{obj.__name__}.{n}" for n in getattr(obj, "__all__", ())}
     for page in folder.glob("*.rst"):
         lines = page.read_text(encoding="utf-8-sig").splitlines()  # autosummary may write a BOM
         is_stub = (len(lines) >= 4 and lines[0] == page.stem and set(lines[1]) == {"="}

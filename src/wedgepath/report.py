@@ -143,7 +143,7 @@ def _unpack(data, times, names, what="data"):
     DataFrame (its columns name the channels; a DatetimeIndex, TimedeltaIndex or numeric
     index other than the row numbers is its time axis), a :class:`~wedgepath.Path`, or an
     array (T, n).  Times may be numbers, datetimes (numpy, pandas, ISO text) or
-    timedeltas; they are kept as a :class:`~wedgepath._time.TimeAxis`, so that results
+    timedeltas; they are kept as a ``TimeAxis``, so that results
     report them in the input's form.  The caller's arrays are never changed.
     """
     from .calculus import Path
@@ -981,7 +981,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         candidates).
     detrend, difference : bool
         Remove each channel's least-squares line / take first differences
-        first (:mod:`wedgepath.signals.filters`).
+        first (:mod:`wedgepath.filters`).
     bandpass : (float, float), optional
         Keep periods from ``bandpass[0]`` to ``bandpass[1]`` time units
         (zero-phase Butterworth, forward-backward).
@@ -1449,7 +1449,7 @@ class LoopReport(_Report):
     def to_frame(self):
         """One row per cycle: ``cycle, start, stop, value, complete, status`` (start and stop
         as times, or as data rows counted from 1 -- fractional between rows -- without
-        times), then the engineering quantities of :attr:`engineering` (``energy, x_min,
+        times), then the engineering quantities of ``engineering`` (``energy, x_min,
         x_max, y_min, y_max, y_at_x_min, y_at_x_max`` and, where they apply,
         ``stiffness, strain_energy, damping_ratio, loss_factor``)."""
         import pandas as pd

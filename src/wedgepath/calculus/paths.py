@@ -113,9 +113,9 @@ class Path:
 
     @property
     def time_axis(self):
-        """The times with what they were (a :class:`wedgepath._time.TimeAxis`), or None.
+        """The times with what they were (a ``TimeAxis``), or None.
 
-        Its :meth:`~wedgepath._time.TimeAxis.format` gives times back in the
+        Its ``format`` method gives times back in the
         input's form (ISO-8601 text for datetimes, numbers otherwise).
         """
         if self._times is None:

@@ -151,7 +151,7 @@ def cycle_areas(X, i=0, j=1, *, reference=None, cut="crossing", level=None, hyst
     time step longer than ``gap``).  The pieces before the first boundary,
     after the last and next to a gap are listed as partial cycles (value
     NaN, ``complete`` False, ``status`` says why) and left out of the mean.
-    See :mod:`wedgepath.signals.segment` for the rules.
+    See the module ``wedgepath.signals.segment`` for the rules.
 
     The value of a cycle is ``∮ x_i dx_j`` = ``A[i, j]`` of that cycle (as
     in :func:`area_matrix`): the signed area of the loop drawn with channel

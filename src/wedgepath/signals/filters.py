@@ -182,7 +182,7 @@ def bandpass(X, shortest, longest, *, times=None, names=None):
         Shortest and longest period kept, in the units of ``times`` (samples
         without times), ``2 spacing < shortest < longest``.
     times, names
-        As for :func:`area_matrix`.
+        As for :func:`~wedgepath.area_matrix`.
 
     Returns
     -------

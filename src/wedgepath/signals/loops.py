@@ -95,7 +95,7 @@ class LoopCycles(ArrayResult):
     """Per-cycle engineering quantities of a loop: :func:`loop_cycles`.
 
     Array-like: ``np.asarray(r)`` (or ``r.energy``) is the energy per cycle.
-    Every per-cycle array has one entry per row of :attr:`status`; partial
+    Every per-cycle array has one entry per row of ``status``; partial
     cycles (cut by the ends of the record or by a gap) hold NaN.
 
     Attributes
@@ -128,7 +128,7 @@ class LoopCycles(ArrayResult):
         Which integral ``energy`` holds and when it is positive.
     cut, hysteresis, noise, level, gaps, curve
         How the cycles were found and measured (see
-        :mod:`wedgepath.signals.segment`).
+        the module ``wedgepath.signals.segment``).
     units : mapping or None
         Units of the two channels (as given).
     column_units : mapping
@@ -325,7 +325,7 @@ def loop_cycles(X, x=0, y=1, *, kind=None, units=None, cut="reversal", reference
     by default) confirmed by a hysteresis band chosen from the data's noise
     (``cut="reversal"``, ``hysteresis="auto"``), never across a gap; pieces
     before the first and after the last valley, or next to a gap, are
-    flagged partial.  See :mod:`wedgepath.signals.segment`.
+    flagged partial.  See the module ``wedgepath.signals.segment``.
 
     Sign convention (stated once, here): the energy of a cycle is ``∮ y dx``
     over the cycle's loop closed by its chord -- positive when the loop runs

@@ -316,7 +316,7 @@ def fit_test(X, *, closure="detrend", n_surrogates=199, seed=0, times=None, name
     Gaussian process.  Strong trends and random walks violate that; the test
     stays on the safe side for random walks (measured in
     ``tests/test_verdicts.py``), but the areas of trending data say little:
-    detrend, difference or band-pass first (:mod:`wedgepath.signals.filters`).
+    detrend, difference or band-pass first (:mod:`wedgepath.filters`).
 
     Examples
     --------
