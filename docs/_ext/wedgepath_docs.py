@@ -55,6 +55,10 @@ def public_names():
     for modname in PUBLIC_MODULES:
         module = importlib.import_module(modname)
         names += [f"{modname}.{n}" for n in module.__all__]
+        for n in module.__all__:          # a public module's own names (wp.filters.bandpass)
+            obj = getattr(module, n)
+            if isinstance(obj, type(importlib)):
+                names += [f"{obj.__name__}.{m}" for m in getattr(obj, "__all__", ())]
     return names
 
 
@@ -135,10 +139,6 @@ def remove_stale_reference_pages(app):
     if not folder.is_dir():
         return
     public = set(public_names())
-    for name in list(public):       # a public module's own names (wp.filters.bandpass, ...)
-        obj = _import(name)
-        if isinstance(obj, type(re)):
-            public |= {f"{obj.__name__}.{n}" for n in getattr(obj, "__all__", ())}
     for page in folder.glob("*.rst"):
         lines = page.read_text(encoding="utf-8-sig").splitlines()  # autosummary may write a BOM
         is_stub = (len(lines) >= 4 and lines[0] == page.stem and set(lines[1]) == {"="}
