@@ -71,7 +71,10 @@ for u0 in (0.01, 0.02, 0.04):
     rel = cyc.mean / exact - 1
     print(f"{u0:8.3f} {cyc.count:6d} {cyc.mean:14.6f} {exact:12.6f} {rel:9.1e} "
           f"{zeta:8.4f} {C * OMEGA / (2 * K):8.4f}")
-    assert abs(rel) < 5e-3, (u0, rel)
+    # the measured energy falls a few 1e-4 short of the closed form, every cycle: straight
+    # chords between samples cut inside the ellipse (a second-order error in the sample
+    # spacing, see docs/integration.md; curve="spline" in loop_cycles shrinks it)
+    assert -5e-3 < rel < 0, (u0, rel)
     results.append((t, X, cyc))
 print(f"quantity per cycle: {cyc.quantity}")
 
