@@ -1132,21 +1132,16 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
                 notes.append(str(w.message))
         if n_surrogates is not None and bands is not None:
             from .signals import band_surrogate_test
-            la, lb = _longest_gap_free(values)
-            if (la, lb) != (0, values.shape[0]):
-                notes.append(f"band significance uses the longest gap-free stretch, rows "
-                             f"{la + 1}-{lb} of {values.shape[0]}")
             bclosure = closure if closure in ("chord", "detrend") else "chord"
             if bclosure != closure:
                 notes.append(f"band significance tests chord-closed band areas (surrogates "
                              f"are closed loops; closure={closure!r} is not tested)")
-            kw["band_significance_rows"] = (la + 1, lb)
+            # pooled over the same trials / gap-free pieces as the pair significance
+            kw["band_significance_rows"] = kw["significance_rows"]
             kw["band_significance"] = band_surrogate_test(
-                values[la:lb], bands=bands, method=surrogate_method,
-                n_surrogates=n_surrogates, seed=seed,
-                times=None if times is None else _seconds(times)[la:lb],
-                names=list(names),
-                closure=bclosure, progress=progress)
+                values, bands=bands, method=surrogate_method, n_surrogates=n_surrogates,
+                seed=seed, times=None if times is None else _seconds(times),
+                names=list(names), closure=bclosure, progress=progress, trials=trials)
         if n_boot is not None:
             kw["bootstrap"] = boot
             if order is not None:

@@ -97,7 +97,11 @@ BST = "wp.band_surrogate_test(X, bands)"
 array_rows(BST, lambda X: wp.band_surrogate_test(X, bands=[0, 0.5], n_surrogates=3, seed=0), 3,
            ndim=(ValueError, "must be 2-dimensional"),
            empty=(ValueError, "0 samples"), single=(ValueError, "1 sample"),
-           allnan=(ValueError, "gap-free data"), inf_match="an infinite value")
+           allnan=(ValueError, "no complete sample"), inf_match="an infinite value")
+row(BST, "nan", "gaps leave no piece of 4 samples",
+    lambda: wp.band_surrogate_test(np.r_[loop(3)[:2], [[nan] * 3], loop(3)[:2]], bands=[0, 0.5],
+                                   n_surrogates=3, seed=0), ValueError,
+    "no trial piece of at least 4")
 row(BST, "option", "bands=None", lambda: wp.band_surrogate_test(loop(3), bands=None),
     ValueError, "needs bands")
 row(BST, "option", "closure='none'",

@@ -302,7 +302,11 @@ def _closing(xv, p2, p3, level):
     up = xv[p3] > xv[p2]
     with np.errstate(invalid="ignore"):
         hit = np.flatnonzero(seg >= level) if up else np.flatnonzero(seg <= level)
-    k = int(hit[0])                   # exists: |x(p3) - x(p2)| >= |x(p2) - level|
+    if hit.size == 0:
+        # |x(p3) - x(p2)| >= |x(p2) - level| held only after rounding (a range that
+        # differs from the level by less than the spacing of doubles): it closes at p3
+        return float(p3)
+    k = int(hit[0])                   # |x(p3) - x(p2)| >= |x(p2) - level|
     if k == 0:
         return float(p2)
     x0, x1 = seg[k - 1], seg[k]
