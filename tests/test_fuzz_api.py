@@ -455,6 +455,23 @@ def test_fit_and_drift(X, closure, seed):
 
 
 @FUZZ
+@given(arrays(max_rows=30), BANDS, st.sampled_from(["shift", "phase", "bogus"]),
+       st.sampled_from(["chord", "detrend", "none"]),
+       st.sampled_from([None, "gaps", "alternate", "bad-length"]))
+def test_band_and_fit_tests_over_trials(X, bands, method, closure, trials):
+    if trials == "alternate" and isinstance(X, np.ndarray) and X.ndim == 2:
+        trials = np.repeat(np.arange((X.shape[0] + 4) // 5), 5)[:X.shape[0]]
+    elif trials == "bad-length":
+        trials = [0, 0, 1]
+    elif trials == "alternate":
+        trials = None
+    check(wp.band_surrogate_test, X, bands=bands, method=method, n_surrogates=5, seed=0,
+          closure=closure, trials=trials)
+    check(wp.fit_test, X, n_surrogates=5, seed=0, trials=trials,
+          closure=closure if closure != "none" else "chord")
+
+
+@FUZZ
 @given(arrays(max_rows=40), st.one_of(st.integers(-1, 3), st.sampled_from(["zz", None, 1.5])),
        st.sampled_from([0.95, 0.0, 2.0, "x"]))
 def test_reference_lags(X, reference, confidence):

@@ -357,3 +357,21 @@ def test_fit_test_pooled_over_trials_is_calibrated_under_the_null():
                            n_surrogates=99).above for s in range(60))
     assert hits <= 9, hits
 
+
+
+def test_filters_scale_exactly_and_refuse_overflow():
+    # linear filters commute with a power-of-two scaling (exact in floating point); data
+    # near the float64 limit are filtered without overflow warnings, and a result beyond
+    # float64 is refused (found by the long fuzz run of 2026-12-03: detrend of 1e300 warned)
+    from wedgepath.signals import filters as f
+
+    rng = np.random.default_rng(0)
+    X = rng.standard_normal((64, 3))
+    big = X * 2.0 ** 1000
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        for fn in (f.detrend, f.difference, lambda Y: f.bandpass(Y, 4, 16),
+                   lambda Y: f.highpass(Y, 16)):
+            np.testing.assert_array_equal(fn(big), fn(X) * 2.0 ** 1000)
+    with pytest.raises(ValueError, match="overflows float64"):
+        f.difference(np.array([[1.7e308], [-1.7e308], [0.0]]))

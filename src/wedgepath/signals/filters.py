@@ -34,6 +34,27 @@ def _input(X, times, names, what="X"):
     return np.array(data.values, dtype=np.float64), data
 
 
+def _scaled(Y):
+    """Y with each channel scaled by a power of two (exact) to magnitudes below 1, and the
+    exponents: the filters are linear, so they run on the scaled channels and nothing
+    overflows on the way."""
+    from .._scaling import pow2_exponents, pow2_scale
+
+    ex = pow2_exponents(Y, axis=0)
+    return pow2_scale(Y, -ex), ex
+
+
+def _back(Z, ex, what):
+    """Undo :func:`_scaled`; a result beyond float64 is refused."""
+    from .._scaling import pow2_scale
+
+    out = pow2_scale(Z, ex)
+    if not np.isfinite(out).all():
+        raise ValueError(f"{what}: the result overflows float64 for data this large; rescale "
+                         "the data (e.g. divide each channel by its largest value)")
+    return out
+
+
 def _like(X, values, data, rows=slice(None)):
     """Return ``values`` shaped like the input: a DataFrame for a DataFrame, else an array."""
     from ._kernel import _is_dataframe
@@ -98,13 +119,16 @@ def detrend(X, *, times=None, names=None):
     """
     Y, data = _input(X, times, names)
     _no_gaps(Y, "X")
+    Y, ex = _scaled(Y)
     T = Y.shape[0]
     t = np.arange(T, dtype=np.float64) if data.times is None else np.asarray(data.times, float)
     t = t - t.mean()
+    big = float(np.max(np.abs(t))) if T else 0.0
+    t = t / big if big > 0 else t          # the fit does not depend on the time unit
     Yc = Y - Y.mean(axis=0)
     tt = float(t @ t)
     slope = (t @ Yc) / tt if tt > 0 else np.zeros(Y.shape[1])
-    return _like(X, Yc - t[:, None] * slope[None, :], data)
+    return _like(X, _back(Yc - t[:, None] * slope[None, :], ex, "detrend"), data)
 
 
 def difference(X, *, times=None, names=None):
@@ -125,7 +149,8 @@ def difference(X, *, times=None, names=None):
     _no_gaps(Y, "X")
     if Y.shape[0] < 2:
         raise ValueError("difference needs at least 2 samples")
-    return _like(X, np.diff(Y, axis=0), data, rows=slice(1, None))
+    Y, ex = _scaled(Y)
+    return _like(X, _back(np.diff(Y, axis=0), ex, "difference"), data, rows=slice(1, None))
 
 
 def _check_period(p, name):
@@ -160,11 +185,12 @@ def _filtfilt(X, times, names, btype, periods):
     _no_gaps(Y, "X")
     h = sample_spacing(data.times)
     sos = _design(btype, periods, h, Y.shape[0])
+    Y, ex = _scaled(Y)
     mean = Y.mean(axis=0)
     out = sosfiltfilt(sos, Y - mean, axis=0)
     if btype == "lowpass":
         out = out + mean
-    return _like(X, out, data)
+    return _like(X, _back(out, ex, btype), data)
 
 
 def bandpass(X, shortest, longest, *, times=None, names=None):
