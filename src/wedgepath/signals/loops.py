@@ -460,8 +460,17 @@ def loop_cycles(X, x=0, y=1, *, kind=None, units=None, cut="reversal", reference
         for c in np.flatnonzero(ok):
             E[c] = _spline_energy(P, tt, int(st[c]), int(sp[c]), energy_form)
     else:
-        E = interval_areas(P[:, cols], st, sp) if C else np.empty(0)
+        # scaled by powers of two (exact) so that no product overflows on the way
+        from .._scaling import pow2_exponents, pow2_scale
+
+        Pc = P[:, cols]
+        exl = pow2_exponents(Pc, axis=0)
+        E = (pow2_scale(interval_areas(pow2_scale(Pc, -exl), st, sp), int(exl.sum()))
+             if C else np.empty(0))
     E[~ok] = np.nan
+    if np.isinf(E).any():
+        raise ValueError("loop_cycles: the energies overflow float64 for data this large; "
+                         "rescale the data (e.g. divide each channel by its largest value)")
     ext = np.full((C, 6), np.nan)
     for c in np.flatnonzero(ok):
         lo, hi = int(np.ceil(st[c])), int(np.floor(sp[c]))
@@ -480,7 +489,7 @@ def loop_cycles(X, x=0, y=1, *, kind=None, units=None, cut="reversal", reference
     xmin, xmax, ymin, ymax, yxmin, yxmax = ext.T
     factor, cu = _output_units(kind, ux, uy, E[ok], xname, yname)
     E = E * factor
-    with np.errstate(invalid="ignore", divide="ignore"):
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         k_eff = (yxmax - yxmin) / (xmax - xmin)
         u0 = 0.5 * (xmax - xmin)
         es0 = 0.5 * k_eff * u0 ** 2 * factor

@@ -237,6 +237,13 @@ def rainflow(X, x=None, y=None, *, hysteresis=0.0, gap="auto", times=None,
     P = np.asarray(data.values[:, cols], dtype=np.float64)
     if np.isinf(P).any():
         raise ValueError(f"X contains an infinite value at row {int(np.argwhere(np.isinf(P))[0][0])}")
+    # counting is scale-free: work on channels scaled by powers of two (exact), so that
+    # ranges, products and energies of data near the float64 limit cannot overflow
+    from .._scaling import pow2_exponents, pow2_scale
+
+    ex = pow2_exponents(P, axis=0)
+    P = pow2_scale(P, -ex)
+    band_s = float(pow2_scale(band, -ex[0]))
     xv = P[:, 0]
     valid = ~np.isnan(P).any(axis=1)
     breaks = gap_mask(valid, data.times, gap) if T > 1 else np.zeros(0, dtype=bool)
@@ -255,7 +262,7 @@ def rainflow(X, x=None, y=None, *, hysteresis=0.0, gap="auto", times=None,
     rows = []        # (start, end, count, close)
     for a, b in pieces:
         v = xv[a:b + 1]
-        pts = [a + int(i) for i in _reversals(v, band)]
+        pts = [a + int(i) for i in _reversals(v, band_s)]
         stack = []
         for p in pts:
             stack.append(p)
@@ -281,9 +288,18 @@ def rainflow(X, x=None, y=None, *, hysteresis=0.0, gap="auto", times=None,
     rng = np.abs(xv[en] - xv[st]) if rows else np.empty(0)
     mean = 0.5 * (xv[en] + xv[st]) if rows else np.empty(0)
 
+    def back(v, k):
+        out = pow2_scale(v, k)
+        if not np.all(np.isfinite(out)):
+            raise ValueError("rainflow: the ranges or energies overflow float64 for data this "
+                             "large; rescale the data (e.g. divide by the largest value)")
+        return out
+
+    rng, mean = back(rng, ex[0]), back(mean, ex[0])
     energy = total = residue = None
     if iy is not None:
         energy, total = _energies(P, pieces, st, en, cnt, cl)
+        energy, total = back(energy, ex[0] + ex[1]), float(back(total, ex[0] + ex[1]))
         residue = float(energy[cnt == 0.5].sum())
     tt = data.times
     st_t = en_t = None

@@ -294,9 +294,15 @@ def segment(r, valid, times=None, *, cut="reversal", level=None, hysteresis="aut
     """
     if cut not in CUTS:
         raise ValueError(f"unknown cut {cut!r}; choose one of {', '.join(map(repr, CUTS))}")
+    from .._scaling import pow2_exponent, pow2_scale
+
     r = np.asarray(r, dtype=np.float64)
     T = r.size
     valid = np.asarray(valid, dtype=bool) & np.isfinite(r)
+    # the cut is scale-free: work on r scaled by a power of two (exact), so that noise
+    # estimates, means and bands of data near the float64 limit cannot overflow
+    e_r = pow2_exponent(r[valid]) if valid.any() else 0
+    r = pow2_scale(r, -e_r)
     breaks = gap_mask(valid, times, gap) if T > 1 else np.zeros(0, dtype=bool)
     pieces = _pieces(valid, breaks)
     # noise from the joined pieces only (never across a gap)
@@ -310,10 +316,12 @@ def segment(r, valid, times=None, *, cut="reversal", level=None, hysteresis="aut
         band = as_real(hysteresis, "hysteresis")
         if not band >= 0:
             raise ValueError(f"hysteresis must be a finite number >= 0, got {band}")
+        band = float(pow2_scale(band, -e_r))
     lev = None
     if cut == "crossing":
         finite = r[valid]
-        lev = float(finite.mean()) if level is None else as_real(level, "level")
+        lev = float(finite.mean()) if level is None else \
+            float(pow2_scale(as_real(level, "level"), -e_r))
     elif level is not None:
         raise ValueError("level applies to cut='crossing' only (reversals need no level)")
     n_gaps = max(len(pieces) - 1, 0)      # interruptions between usable pieces
@@ -340,8 +348,10 @@ def segment(r, valid, times=None, *, cut="reversal", level=None, hysteresis="aut
             starts.append(float(bnd[-1])), stops.append(float(b)), status.append(last)
     seg = Segmentation(start=np.asarray(starts, dtype=np.float64),
                        stop=np.asarray(stops, dtype=np.float64),
-                       status=np.asarray(status, dtype=object), cut=cut, band=float(band),
-                       noise=float(noise), level=lev, n_gaps=n_gaps)
+                       status=np.asarray(status, dtype=object), cut=cut,
+                       band=float(pow2_scale(band, e_r)), noise=float(pow2_scale(noise, e_r)),
+                       level=None if lev is None else float(pow2_scale(lev, e_r)),
+                       n_gaps=n_gaps)
     if warn_lengths:
         check_lengths(seg, times)
     return seg
