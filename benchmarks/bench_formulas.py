@@ -69,9 +69,9 @@ def main():
         points = [0]
         real = Coefficient.evaluate
 
-        def counting(coef, coords, label="coefficient"):
+        def counting(coef, coords, label="coefficient", **kw):
             points[0] += coords.shape[0]
-            return real(coef, coords, label)
+            return real(coef, coords, label, **kw)
 
         def integral():
             with warnings.catch_warnings():
