@@ -589,7 +589,15 @@ def piece_extent(data: SignalData, starts, stops) -> np.ndarray:
     # reduceat rows 0, 2, 4, ... are the pieces (odd ones are the gaps between)
     lo = np.asarray(lo[0::2], dtype=np.float64)
     hi = np.asarray(hi[0::2], dtype=np.float64)
-    return np.linalg.norm(hi - lo, axis=1)
+    return robust_norm(hi - lo)
+
+
+def robust_norm(D):
+    """Row norms of D without underflow or overflow (rows scaled by their largest entry)."""
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        m = np.max(np.abs(D), axis=1)
+        safe = np.where(m > 0, m, 1.0)
+        return m * np.linalg.norm(D / safe[:, None], axis=1)
 
 
 def closed_area(data: SignalData, closure: str, tol=None, what="X"):

@@ -495,6 +495,10 @@ def loop_cycles(X, x=0, y=1, *, kind=None, units=None, cut="reversal", reference
         es0 = 0.5 * k_eff * u0 ** 2 * factor
         zeta = E / (4.0 * np.pi * es0)
         eta = E / (2.0 * np.pi * es0)
+    # a cycle without displacement range (or beyond float64) has no stiffness, stored
+    # energy or damping ratio: NaN (undefined), never +-inf
+    for arr in (k_eff, es0, zeta, eta):
+        arr[~np.isfinite(arr)] = np.nan
     idx = np.arange(T, dtype=np.float64)
     tt = data.times if data.times is not None else idx
     quantity = spec.label if spec is not None else f"∮ {yname} d({xname})"

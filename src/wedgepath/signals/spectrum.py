@@ -308,7 +308,9 @@ def _regular_step(times):
 def _require_check(data, starts, stops, tol):
     F = piece_rows(data, starts)
     L = piece_rows(data, stops - 1)
-    gap = np.linalg.norm(L - F, axis=1)
+    from ._kernel import robust_norm
+
+    gap = robust_norm(L - F)           # no underflow for data of size 1e-200
     tol_eff = (1e-9 * piece_extent(data, starts, stops) if tol is None
                else np.full(gap.shape, float(tol)))
     bad = np.flatnonzero(gap > tol_eff)
