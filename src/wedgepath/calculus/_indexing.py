@@ -82,8 +82,8 @@ def as_chain_coefficients(coefficients, S):
     elif arr.dtype.kind == "b":
         raise TypeError("coefficients must be integers, got booleans")
     elif arr.dtype.kind not in "iu":
-        if arr.size == 0:
-            arr = arr.astype(np.int64)
+        if arr.size == 0 and arr.dtype.kind in "f":
+            arr = arr.astype(np.int64)        # an empty float list: no coefficient at all
         else:
             raise TypeError(f"coefficients must be integers (chains have integer "
                             f"coefficients), got dtype {arr.dtype}")
