@@ -586,41 +586,44 @@ def surrogate_test(X, *, method="shift", n_surrogates=199, min_shift="auto", see
                                    else "Fourier phase randomisation of each channel"))
 
 
+def _pooled_min_shift(min_shift, method, pieces, what):
+    """``min_shift`` of a test pooled over pieces: within each piece, at most a quarter of
+    the shortest; "auto" from the decorrelation lag of the longest (None for phase)."""
+    lengths = np.array([Pc.shape[0] for Pc in pieces])
+    cap = int(lengths.min()) // 4
+    if method != "shift":
+        if not (isinstance(min_shift, str) and min_shift == "auto"):
+            raise ValueError("min_shift applies to method='shift' only; leave it at 'auto' for "
+                             f"method={method!r}")
+        return None
+    if not isinstance(min_shift, str):
+        m = as_int(min_shift, "min_shift")
+        if not 0 <= m <= cap:
+            raise ValueError(f"min_shift must be between 0 and a quarter of the shortest "
+                             f"trial piece ({cap}), got {m}")
+        return m
+    if min_shift != "auto":
+        raise ValueError(f"min_shift must be 'auto' or a number of samples, got {min_shift!r}")
+    if cap < 2:
+        return cap
+    # the decorrelation lag of the longest piece (the best estimate available)
+    mhat, _, _ = _flat_top_lags(pieces[int(np.argmax(lengths))])
+    m = int(2 * max(int(mhat.max()), 1))
+    if m > cap:
+        import warnings
+        warnings.warn(f"{what}: the channels stay correlated over {m} samples, more than a "
+                      f"quarter of the shortest trial piece ({int(lengths.min())} samples); "
+                      f"shifts of at least {cap} samples are used and may keep part of a lead",
+                      SurrogateWarning, stacklevel=4)
+        m = cap
+    return m
+
+
 def _pooled_surrogates(pieces, data, ex, tr, method, B, min_shift, seed, rng, progress):
     """Surrogate test of the pooled area of several pieces (trials), shuffled within each."""
     n = pieces[0].shape[1]
     P = len(pieces)
-    lengths = np.array([Pc.shape[0] for Pc in pieces])
-    cap = int(lengths.min()) // 4
-    if method == "shift":
-        if isinstance(min_shift, str):
-            if min_shift != "auto":
-                raise ValueError(f"min_shift must be 'auto' or a number of samples, got "
-                                 f"{min_shift!r}")
-            if cap < 2:
-                m = cap
-            else:
-                # the decorrelation lag of the longest piece (the best estimate available)
-                mhat, _, _ = _flat_top_lags(pieces[int(np.argmax(lengths))])
-                m = int(2 * max(int(mhat.max()), 1))
-                if m > cap:
-                    import warnings
-                    warnings.warn(f"surrogate_test: the channels stay correlated over {m} "
-                                  f"samples, more than a quarter of the shortest trial piece "
-                                  f"({int(lengths.min())} samples); shifts of at least {cap} "
-                                  "samples are used and may keep part of a lead",
-                                  SurrogateWarning, stacklevel=3)
-                    m = cap
-        else:
-            m = as_int(min_shift, "min_shift")
-            if not 0 <= m <= cap:
-                raise ValueError(f"min_shift must be between 0 and a quarter of the shortest "
-                                 f"trial piece ({cap}), got {m}")
-    else:
-        if not (isinstance(min_shift, str) and min_shift == "auto"):
-            raise ValueError("min_shift applies to method='shift' only; leave it at 'auto' for "
-                             f"method={method!r}")
-        m = None
+    m = _pooled_min_shift(min_shift, method, pieces, "surrogate_test")
     obs = np.zeros((n, n))
     tol = np.zeros((n, n))
     for Pc in pieces:

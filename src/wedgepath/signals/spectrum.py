@@ -958,8 +958,7 @@ def _has_gap(X):
 def _pooled_band_surrogates(X, times, names, trials, closure, edges, bnames, contiguous,
                             method, nsur, min_shift, seed, rng, progress):
     """band_surrogate_test over several gap-free pieces (trials), shuffled within each."""
-    from .significance import (SurrogateWarning, _flat_top_lags, _trial_pieces,
-                               benjamini_hochberg)
+    from .significance import _pooled_min_shift, _trial_pieces, benjamini_hochberg
 
     if closure not in ("chord", "detrend"):
         raise ValueError(f"band_surrogate_test supports closure='chord' or 'detrend' "
@@ -980,34 +979,7 @@ def _pooled_band_surrogates(X, times, names, trials, closure, edges, bnames, con
         steps.append(1.0 if t is None else float((t[b - 1] - t[a]) / (L - 1)))
     n = loops[0].shape[1]
     lengths = np.array([P.shape[0] for P in loops])
-    cap = int(lengths.min()) // 4
-    if method == "shift":
-        if isinstance(min_shift, str):
-            if min_shift != "auto":
-                raise ValueError(f"min_shift must be 'auto' or a number of samples, got "
-                                 f"{min_shift!r}")
-            m_shift = cap
-            if cap >= 2:
-                mhat, _, _ = _flat_top_lags(loops[int(np.argmax(lengths))])
-                m_shift = int(2 * max(int(mhat.max()), 1))
-                if m_shift > cap:
-                    import warnings
-                    warnings.warn(f"band_surrogate_test: the channels stay correlated over "
-                                  f"{m_shift} samples, more than a quarter of the shortest trial "
-                                  f"piece ({int(lengths.min())} samples); shifts of at least "
-                                  f"{cap} samples are used and may keep part of a lead",
-                                  SurrogateWarning, stacklevel=3)
-                    m_shift = cap
-        else:
-            m_shift = as_int(min_shift, "min_shift")
-            if not 0 <= m_shift <= cap:
-                raise ValueError(f"min_shift must be between 0 and a quarter of the shortest "
-                                 f"trial piece ({cap}), got {m_shift}")
-    else:
-        if not (isinstance(min_shift, str) and min_shift == "auto"):
-            raise ValueError("min_shift applies to method='shift' only; leave it at 'auto' for "
-                             f"method={method!r}")
-        m_shift = None
+    m_shift = _pooled_min_shift(min_shift, method, loops, "band_surrogate_test")
     from scipy import fft as sfft
 
     B = edges.shape[0]
