@@ -1,14 +1,7 @@
 """Paths, chains, forms and their integrals: the base layer of wedgepath."""
 
-from .chains import Chain, ZeroChain
-from .complexes import SimplicialComplex, WhitneyForm
-from .forms import Form, OneForm, TwoForm, ZeroForm, dx
-from .integral import Integral, IntegrationWarning
-from .integrate import integrate
-from .paths import CLOSURES, Path, as_path
-from .simplex_quadrature import grundmann_moller
-from .simplicial import SimplicialChain, cone
+# Names load on first use from the table in wedgepath/__init__.py (this __init__ imports
+# no module of its own package: see the note there on imports from several threads).
+from .. import _attach
 
-__all__ = ["Path", "as_path", "CLOSURES", "Chain", "ZeroChain", "Form", "ZeroForm", "OneForm",
-           "TwoForm", "dx", "integrate", "Integral", "IntegrationWarning", "SimplicialChain", "cone",
-           "SimplicialComplex", "WhitneyForm", "grundmann_moller"]
+__getattr__, __dir__, __all__ = _attach("calculus")

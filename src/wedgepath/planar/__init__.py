@@ -17,11 +17,8 @@ Region integrals share their engine with :func:`wedgepath.integrate` (a 2-form
 planar wrapper.
 """
 
-from .area import RegionMoments, region_moments, signed_area
-from .arrangement import ArrangementTooLarge, Decomposition, DecompositionWarning, Lobe, decompose
-from .green import region_integral
-from .winding import winding_number
+# Names load on first use from the table in wedgepath/__init__.py (this __init__ imports
+# no module of its own package: see the note there on imports from several threads).
+from .. import _attach
 
-__all__ = ["signed_area", "winding_number", "region_integral", "region_moments",
-           "RegionMoments", "decompose", "Decomposition", "Lobe", "DecompositionWarning",
-           "ArrangementTooLarge"]
+__getattr__, __dir__, __all__ = _attach("planar")

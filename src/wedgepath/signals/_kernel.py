@@ -183,7 +183,7 @@ def signal_input(X, times=None, names=None, *, what="X", min_channels=2, min_sam
     list of per-channel time arrays, or a mapping/sequence of pandas Series --
     asynchronous channels, which are aligned by :func:`align`.
     """
-    from .align import align  # local import: align builds on this module
+    from .alignment import align  # local import: alignment builds on this module
 
     if isinstance(X, Mapping) or is_async_times(times) or (
             isinstance(X, (list, tuple)) and X and all(_is_series(s) for s in X)):

@@ -303,7 +303,9 @@ def energy_factor(x_unit, y_unit, target) -> float:
 
 def _spline_energy(P, t, s, e, energy):
     """∮ of the cycle's samples ``s..e`` under the cubic spline model (chord-closed)."""
-    from ..calculus import OneForm, Path, integrate
+    from ..calculus.forms import OneForm
+    from ..calculus.integration import integrate
+    from ..calculus.paths import Path
 
     pts = P[s:e + 1]
     path = Path(pts, times=t[s:e + 1])
