@@ -23,7 +23,7 @@ demo: $(VENV)/.installed-plot
 
 ## test: install and run the whole test suite (unit, property, doctests, examples)
 test: $(VENV)/.installed-test
-	$(PY) -m pytest -q
+	$(PY) -m pytest -q -n auto
 
 ## bench: run every benchmark, each against its baseline in the same run; writes docs/performance.md
 bench: $(VENV)/.installed-bench $(VENV)/.installed-dask
