@@ -118,3 +118,14 @@ def test_cli_options(tmp_path, capsys):
         assert "Traceback" not in err
     code, _, err = run(["leadlag", f, "--stream", "--detrend"], capsys)
     assert code == 2 and "--detrend" in err
+
+
+def test_cli_says_the_drift_once(tmp_path, capsys):
+    # the drift note is in the summary; the command line does not repeat it as a warning
+    rng = np.random.default_rng(3)
+    walks = np.cumsum(rng.standard_normal((1000, 4)) + [0.1, 0.2, -0.1, 0.15], axis=0)
+    f = _csv(tmp_path / "w.csv", ["a", "b", "c", "d"], np.arange(1000.0), walks)
+    code, stdout, err = run(["leadlag", f, "--time", "t"], capsys)
+    assert code == 0
+    assert "note: the drift from first to last sample makes" in stdout
+    assert (stdout + err).count("the drift from first to last sample makes") == 1, (stdout, err)

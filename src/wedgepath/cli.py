@@ -638,6 +638,10 @@ def main(argv=None) -> int:
     try:
         with warnings.catch_warnings():
             warnings.showwarning = _one_line_warning
+            # the report states a dominating drift among its notes, which the summary and
+            # the JSON both carry: the warning would say it a second time
+            from .signals.verdicts import DriftWarning
+            warnings.filterwarnings("ignore", category=DriftWarning)
             return int(args.func(args) or 0)
     except KeyboardInterrupt as exc:
         signum = getattr(exc, "signum", signal.SIGINT)
