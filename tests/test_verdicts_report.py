@@ -129,3 +129,30 @@ def test_cli_says_the_drift_once(tmp_path, capsys):
     assert code == 0
     assert "note: the drift from first to last sample makes" in stdout
     assert (stdout + err).count("the drift from first to last sample makes") == 1, (stdout, err)
+
+
+def test_datetimes_survive_preprocessing_and_lags_read_in_days(tmp_path, capsys):
+    # daily dates, b and c 0.8 and 1.6 rad behind a on a 30-day cycle: lags 3.82 and 7.64 days
+    # (phase / (2 pi) * period).  Before, --difference turned the dates into "time units"
+    # and the lags printed as 3.3e+05 s.
+    import pandas as pd
+
+    rng = np.random.default_rng(1)
+    ph = np.arange(400) * 2 * np.pi / 30
+    df = pd.DataFrame({"date": pd.date_range("2020-01-01", periods=400, freq="D"),
+                       **{c: np.sin(ph - d) + 0.1 * rng.standard_normal(400)
+                          for c, d in (("a", 0.0), ("b", 0.8), ("c", 1.6))}})
+    f = tmp_path / "daily.csv"
+    df.to_csv(f, index=False)
+    out = tmp_path / "o"
+    code, stdout, _ = run(["leadlag", f, "--time", "date", "--difference", "--reference", "a",
+                           "--window", "60", "--step", "30", "--out", out], capsys)
+    assert code == 0
+    line = next(s for s in stdout.splitlines() if s.startswith("  b: "))
+    assert abs(float(line.split()[1]) - 3.82) < 0.3
+    assert line.split()[2] == "d"
+    assert "period 30." in stdout and "time units" not in stdout
+    rolling = pd.read_csv(out / "rolling.csv")
+    assert rolling["start_time"].iloc[0] == "2020-01-02"     # the first difference's date
+    payload = json.loads((out / "result.json").read_text())
+    assert payload["time_unit"] == "ISO-8601"

@@ -790,18 +790,27 @@ class LeadLagReport(_Report):
         unit = self.units.get(self.time_name) if self.time_name else None
         u = f" {unit}" if unit else (" samples" if not self.times_given else
                                      " s" if self.time_unit == "ISO-8601" else " time units")
+        scale = 1.0
+        if not unit and self.time_unit == "ISO-8601":
+            # datetimes: lags in seconds, shown in the largest unit the period spans twice
+            # (days for daily data, not 3.4e+05 s); the JSON keeps seconds
+            for name, sec in (("d", 86400.0), ("h", 3600.0), ("min", 60.0)):
+                if np.isfinite(lg.period) and lg.period >= 2 * sec:
+                    u, scale = f" {name}", sec
+                    break
         if not lg.narrowband:
             return [f"\nlags behind {lg.reference}: not given -- the data are broad-band "
                     f"(only {100 * lg.band_share:.0f}% of {lg.reference}'s power lies near its "
                     "peak period), so no single lag is defined; band-pass first "
                     "(--bandpass LOW,HIGH) to ask about one band"]
-        out = [f"\nlags behind {lg.reference} (period {lg.period:.4g}{u}; positive: lags; "
+        out = [f"\nlags behind {lg.reference} (period {lg.period / scale:.4g}{u}; positive: lags; "
                f"{100 * lg.confidence:.0f}% block-bootstrap interval"
                + ("; irregular times resampled linearly" if lg.resampled else "") + "):"]
         for k, nm in enumerate(self.names):
             if nm == lg.reference:
                 continue
-            out.append(f"  {nm}: {lg.lags[k]:+.4g}{u} [{lg.low[k]:+.4g}, {lg.high[k]:+.4g}]"
+            out.append(f"  {nm}: {lg.lags[k] / scale:+.4g}{u} [{lg.low[k] / scale:+.4g}, "
+                       f"{lg.high[k] / scale:+.4g}]"
                        + (f"  (coherence {lg.coherence[k]:.2f}: weak)" if lg.coherence[k] < 0.5
                           else ""))
         return out
@@ -1028,6 +1037,11 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         from .signals.trials import split_trial_column
         data, (_, trials) = split_trial_column(data, trials)
     values, times, names = _unpack(data, times, names)
+    # the time axis's kind and unit, kept through preprocessing (which returns plain
+    # elapsed times: seconds from the first sample for datetimes)
+    time_unit = None if times is None else (
+        "ISO-8601" if getattr(times, "kind", None) == "datetime" else
+        getattr(times, "unit", None))
     n = values.shape[1]
     if n < 2:
         raise ValueError(f"lead-lag needs at least 2 channels, got {n}")
@@ -1048,9 +1062,12 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         if np.isnan(values).any():
             raise ValueError("detrend, difference and filters need gap-free data; the data "
                              "have gaps (NaN rows): split the recording at its gaps")
+        axis = times
         values, times, _ = preprocess(values, times=times, names=list(names), detrend=detrend,
                                       difference=difference, bandpass=bandpass,
                                       highpass=highpass)
+        if times is not None and hasattr(axis, "with_values"):
+            times = axis.with_values(times)     # datetimes stay datetimes in the outputs
         pre.update({k: v for k, v in (("detrend", bool(detrend)),
                                       ("difference", bool(difference))) if v})
         if bandpass is not None:
@@ -1090,9 +1107,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             kw["trials"] = area_matrix(values, times=times, closure=closure, names=list(names),
                                        tol=tol, trials=trials)
         notes += [str(w.message) for w in caught if str(w.message) not in notes]
-    kw["time_unit"] = None if times is None else (
-        "ISO-8601" if getattr(times, "kind", None) == "datetime" else
-        getattr(times, "unit", None))
+    kw["time_unit"] = time_unit
     if bands is not None:
         from .signals import lead_spectrum
         with warnings.catch_warnings(record=True) as caught:
