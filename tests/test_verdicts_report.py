@@ -156,3 +156,63 @@ def test_datetimes_survive_preprocessing_and_lags_read_in_days(tmp_path, capsys)
     assert rolling["start_time"].iloc[0] == "2020-01-02"     # the first difference's date
     payload = json.loads((out / "result.json").read_text())
     assert payload["time_unit"] == "ISO-8601"
+
+
+def _daily(tmp_path, trend=False):
+    """Daily dates, a 30-day cycle; b and c 0.8 and 1.6 rad behind a: lags 3.82 and 7.64 d."""
+    import pandas as pd
+
+    rng = np.random.default_rng(1)
+    ph = np.arange(400) * 2 * np.pi / 30
+    df = pd.DataFrame({"date": pd.date_range("2020-01-01", periods=400, freq="D"),
+                       **{c: np.sin(ph - d) + 0.1 * rng.standard_normal(400)
+                          for c, d in (("a", 0.0), ("b", 0.8), ("c", 1.6))}})
+    f = tmp_path / "daily.csv"
+    df.to_csv(f, index=False)
+    return f
+
+
+def test_a_unit_for_a_date_column_converts_lags_bands_and_filters(tmp_path, capsys):
+    # Before, --units date=day relabelled seconds as days (lags of "2.6e+05 day") and band
+    # edges given per day were applied per second.
+    f = _daily(tmp_path)
+    out = tmp_path / "o"
+    code, stdout, _ = run(["leadlag", f, "--time", "date", "--units", "date=day",
+                           "--reference", "a", "--bands", "0,0.02,0.05,0.5",
+                           "--bandpass", "10,60", "--out", out], capsys)
+    assert code == 0, stdout
+    lag = {ln.split(":")[0].strip(): float(ln.split()[1]) for ln in stdout.splitlines()
+           if ln.startswith(("  b: ", "  c: "))}
+    assert abs(lag["b"] - 3.82) < 0.3 and abs(lag["c"] - 7.64) < 0.3, stdout
+    assert "period 30" in stdout and "bandpass 10 day to 60 day" in stdout
+    payload = json.loads((out / "result.json").read_text())
+    assert payload["lags_info"]["time_unit"] == "day"
+    assert abs(payload["lags"]["b"] - 3.82) < 0.3
+    bands = payload["bands"]
+    assert bands["frequency_unit"] == "cycles per day"
+    assert bands["names"] == ["0-0.02", "0.02-0.05", "0.05-0.5"]
+    assert np.allclose(bands["low"], [0, 0.02, 0.05]) and np.allclose(bands["high"][-1], 0.5)
+    # the 30-day cycle (0.033 cycles per day) carries the lead: the middle band
+    A = np.asarray(bands["areas"])
+    i, j = payload["channels"].index("a"), payload["channels"].index("b")
+    assert abs(A[1, i, j]) > 0.9 * abs(A[:, i, j].sum())
+
+
+def test_a_date_column_without_a_unit_says_seconds(tmp_path, capsys):
+    f = _daily(tmp_path)
+    code, stdout, _ = run(["leadlag", f, "--time", "date", "--reference", "a", "--bands",
+                           "0,0.02,0.5", "--json"], capsys)
+    assert code == 0
+    payload = json.loads(stdout)
+    assert payload["lags_info"]["time_unit"] == "s"
+    assert abs(payload["lags"]["b"] / 86400 - 3.82) < 0.3
+    assert payload["bands"]["frequency_unit"] == "cycles per s"
+    # edges meant per day but read per second lie far above the Nyquist frequency: said
+    assert any("above the Nyquist frequency" in n and "0.02-0.5" in n
+               for n in payload["notes"])
+
+
+def test_a_date_column_refuses_a_unit_that_is_not_time(tmp_path, capsys):
+    f = _daily(tmp_path)
+    code, _, err = run(["leadlag", f, "--time", "date", "--units", "date=EUR"], capsys)
+    assert code == 2 and "must be a unit of time" in err and len(err.splitlines()) == 1

@@ -274,16 +274,20 @@ def build_parser():
                     help="take first differences of every channel first")
     ll.add_argument("--bandpass", type=_period_band, metavar="LOW,HIGH",
                     help="keep periods from LOW to HIGH, in the time column's units "
-                    "(samples without --time), by a zero-phase filter (e.g. 6,32 quarters)")
+                    "(samples without --time; seconds for a date/time column, or the unit "
+                    "given by --units TIME=day), by a zero-phase filter (e.g. 6,32 quarters)")
     ll.add_argument("--highpass", type=_positive_float, metavar="P",
-                    help="remove periods longer than P time units (zero-phase filter)")
+                    help="remove periods longer than P time units (zero-phase filter; "
+                    "units as for --bandpass)")
     ll.add_argument("--reference", metavar="COL",
-                    help="each channel's lag behind COL in time units, with an interval "
-                    "(oscillatory data only; broad-band data are said to be so)")
+                    help="each channel's lag behind COL in time units (as for --bandpass), "
+                    "with an interval (oscillatory data only; broad-band data are said to be "
+                    "so)")
     ll.add_argument("--bands", type=_bands, metavar="EDGES|NAME=LO:HI,...",
                     help="also split the area matrix by frequency band: edges such as "
                     "0,3,10,50 or named ranges such as slow=0:3,fast=10:50, in cycles per "
-                    "unit of --time (per sample without it); with --surrogates every band "
+                    "unit of --time (per sample without it; per second for a date/time column, "
+                    "or per the unit given by --units TIME=day); with --surrogates every band "
                     "and pair is tested (bands.csv, bands.png)")
     _add_common(ll, ["result.json", "area_matrix.csv", "pairs.csv", "rolling.csv (--window)",
                      "pvalues.csv and qvalues.csv (--surrogates)", "trials.csv (--trial)",

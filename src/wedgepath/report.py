@@ -555,8 +555,7 @@ class LeadLagReport(_Report):
                          if lg.narrowband else None)
             d["lags_info"] = {"reference": lg.reference, "narrowband": lg.narrowband,
                               "period": float(lg.period), "band_share": float(lg.band_share),
-                              "time_unit": self.units.get(self.time_name) if self.time_name
-                              else None,
+                              "time_unit": self._duration_unit(),
                               "low": dict(zip(names, np.asarray(lg.low, dtype=float))),
                               "high": dict(zip(names, np.asarray(lg.high, dtype=float))),
                               "coherence": dict(zip(names, np.asarray(lg.coherence, float))),
@@ -815,12 +814,22 @@ class LeadLagReport(_Report):
                           else ""))
         return out
 
+    def _duration_unit(self):
+        """The unit of lags and periods: the time column's, seconds on a datetime axis."""
+        unit = self.units.get(self.time_name) if self.time_name else None
+        if not unit and self.time_unit == "ISO-8601":
+            return "s"
+        return unit
+
     def _frequency_unit(self) -> str:
         """What band edges are measured in, named after the time column when there is one."""
         sp = self.spectrum
-        if self.times_given and self.time_name:
-            unit = dict(self.units).get(self.time_name)
-            return f"cycles per {unit}" if unit else f"cycles per unit of {self.time_name}"
+        if self.times_given:
+            unit = self._duration_unit()
+            if unit:
+                return f"cycles per {unit}"
+            if self.time_name:
+                return f"cycles per unit of {self.time_name}"
         return sp.frequency_unit
 
     def _band_lines(self) -> list:
@@ -947,6 +956,59 @@ def _position_intervals(order, boot, confidence):
     return np.mod(base + lo, two_pi), np.mod(base + hi, two_pi)
 
 
+def _seconds_per_unit(time_unit, time_name, units) -> float:
+    """Seconds per duration unit: the unit given for a datetime time column, else 1."""
+    given = dict(units or {}).get(time_name) if time_name else None
+    if time_unit != "ISO-8601" or not given:
+        return 1.0
+    from .signals import _units
+    try:
+        u = _units.parse_unit(given, f"the time column {time_name!r}")
+        ok = _units.has_dimension(u, "s")
+    except ValueError:
+        ok = False
+    if not ok:
+        raise ValueError(f"the time column {time_name!r} holds dates and times, so its unit "
+                         f"{given!r} must be a unit of time (s, min, h, day, week): it sets "
+                         "the unit of lags, periods and band edges")
+    return _units.factor(u, _units.parse_unit("s", "seconds"))
+
+
+def _duration_label(time_unit, time_name, units) -> str:
+    """`` day`` / `` s``: the unit durations are shown in on a datetime axis, else ``""``."""
+    if time_unit != "ISO-8601":
+        return ""
+    return " " + (dict(units or {}).get(time_name) or "s")
+
+
+def _bands_per_second(bands, per):
+    """Band edges given in cycles per duration unit, in cycles per second."""
+    if bands is None:
+        return None
+    if isinstance(bands, Mapping):
+        return {k: tuple(float(e) / per for e in v) for k, v in bands.items()}
+    return np.asarray(bands, dtype=float) / per
+
+
+def _empty_band_notes(sp, times, per, unit) -> list:
+    """Notes for bands above the Nyquist frequency (they can hold no frequency of the data)."""
+    t = None if times is None else np.asarray(getattr(times, "values", times), dtype=float)
+    if t is None or t.size < 2:
+        step = 1.0
+    else:
+        step = float(np.median(np.diff(t))) / per
+    if not step > 0:
+        return []
+    nyq = 0.5 / step
+    out = []
+    for name, (lo, _) in zip(sp.band_names, np.asarray(sp.bands, dtype=float)):
+        if lo > nyq * (1 + 1e-9):
+            out.append(f"band {name} lies above the Nyquist frequency {nyq:.4g} cycles per "
+                       f"{unit or 'sample'} (half the sampling rate): it holds no frequency of "
+                       "these data")
+    return out
+
+
 def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, window=None,
             step=None, n_surrogates=None, surrogate_method="shift", seed=0, n_boot=None,
             confidence=0.95, top=3, progress=None, tol=None, time_name=None, units=None,
@@ -1045,6 +1107,14 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     n = values.shape[1]
     if n < 2:
         raise ValueError(f"lead-lag needs at least 2 channels, got {n}")
+    # durations on a datetime axis are seconds inside the library; the time column's entry
+    # in ``units`` (a unit of time) is the unit in which they are given and reported
+    per = _seconds_per_unit(time_unit, time_name, units)
+    user_bands = bands
+    if per != 1.0:
+        bandpass = None if bandpass is None else (bandpass[0] * per, bandpass[1] * per)
+        highpass = None if highpass is None else highpass * per
+        bands = _bands_per_second(bands, per)
     if window is None and step is not None:
         raise ValueError("step needs window")
     if bands is not None:
@@ -1063,17 +1133,28 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             raise ValueError("detrend, difference and filters need gap-free data; the data "
                              "have gaps (NaN rows): split the recording at its gaps")
         axis = times
-        values, times, _ = preprocess(values, times=times, names=list(names), detrend=detrend,
-                                      difference=difference, bandpass=bandpass,
-                                      highpass=highpass)
+        try:
+            values, times, _ = preprocess(values, times=times, names=list(names),
+                                          detrend=detrend, difference=difference,
+                                          bandpass=bandpass, highpass=highpass)
+        except ValueError as exc:
+            if time_unit != "ISO-8601":
+                raise
+            # on a datetime axis the filters saw seconds: say so in the caller's unit
+            du = _duration_label(time_unit, time_name, units).strip()
+            msg = str(exc).replace(" time units", " s")
+            if per != 1.0:
+                msg += f" (on this date/time axis 1 {du} = {per:g} s)"
+            raise ValueError(msg) from None
         if times is not None and hasattr(axis, "with_values"):
             times = axis.with_values(times)     # datetimes stay datetimes in the outputs
         pre.update({k: v for k, v in (("detrend", bool(detrend)),
                                       ("difference", bool(difference))) if v})
+        du = _duration_label(time_unit, time_name, units)
         if bandpass is not None:
-            pre["bandpass"] = f"{bandpass[0]:g} to {bandpass[1]:g}"
+            pre["bandpass"] = f"{bandpass[0] / per:g}{du} to {bandpass[1] / per:g}{du}"
         if highpass is not None:
-            pre["highpass"] = f"{highpass:g}"
+            pre["highpass"] = f"{highpass / per:g}{du}"
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         A = area_matrix(values, times=times, closure=closure, normalize=normalize,
@@ -1090,6 +1171,10 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
               units=dict(units or {}), source=dict(source or {}), preprocessing=pre)
     kw.update(_honest_reading(values, times, names, order, closure, verdict_surrogates, seed,
                               reference, notes, trials=trials))
+    if per != 1.0 and kw.get("lags") is not None:
+        lg = kw["lags"]
+        kw["lags"] = dataclasses.replace(lg, lags=lg.lags / per, low=lg.low / per,
+                                         high=lg.high / per, period=lg.period / per)
     if kw.get("verdict") is not None and order is not None:
         kw["order"] = dataclasses.replace(order, fit_pvalue=kw["verdict"].pvalue)
     if window is not None:
@@ -1115,6 +1200,13 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             kw["spectrum"] = lead_spectrum(values, times=times, bands=bands, closure=closure,
                                            names=list(names), tol=tol)
         notes += [str(w.message) for w in caught]
+        if per != 1.0:
+            from .signals.spectrum import _resolve_bands
+            sp = kw["spectrum"]
+            kw["spectrum"] = dataclasses.replace(sp, bands=np.asarray(sp.bands) * per,
+                                                 band_names=_resolve_bands(user_bands)[1])
+        notes += _empty_band_notes(kw["spectrum"], times, per,
+                                   _duration_label(time_unit, time_name, units).strip())
     if n_surrogates is not None or n_boot is not None:
         # every gap-free piece of every trial counts (the pieces between gaps are trials
         # when no trial column is given); the statistics are pooled over them

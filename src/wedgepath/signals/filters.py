@@ -69,8 +69,8 @@ def _like(X, values, data, rows=slice(None)):
 def sample_spacing(times, T=None) -> float:
     """The sample spacing of regular ``times`` (1.0 without times).
 
-    Raises ValueError when the spacing varies by more than 1 % (filters and
-    lags in time units need a regular axis).
+    Raises ValueError when the spacing varies by more than 1 % (the filters
+    need a regular axis).
     """
     if times is None:
         return 1.0
@@ -81,8 +81,8 @@ def sample_spacing(times, T=None) -> float:
     h = float(np.median(d))
     if not h > 0 or float(np.max(np.abs(d - h))) > 0.01 * h:
         raise ValueError("times are not regularly spaced (spacing varies by more than 1 %); "
-                         "filters and lags in time units need a regular time axis "
-                         "(resample first)")
+                         "the filters need a regular time axis (resample first, or for "
+                         "monthly or quarterly dates give the time as numbers, e.g. years)")
     return h
 
 
