@@ -167,6 +167,7 @@ class TestBadInput:
         code, out, err = run(argv, capsys)
         assert code == 2
         assert len(err.strip().splitlines()) == 1, err
+        assert err.startswith("wedgepath: error: "), err     # one prefix, usage errors too
         assert words in err
         assert "Traceback" not in err
 

@@ -349,9 +349,8 @@ def check_outcome(root, out_dir, before, code, stderr):
     changed = {p for p in set(before) | set(after) if before.get(p) != after.get(p)}
     if code == 2:
         lines = stderr.strip().splitlines()
-        # "wedgepath: error: ..." (or "wedgepath leadlag: error: ..." from argparse)
-        assert len(lines) == 1 and lines[0].startswith("wedgepath") \
-            and ": error: " in lines[0], stderr
+        # "wedgepath: error: ..." (argparse's usage errors too)
+        assert len(lines) == 1 and lines[0].startswith("wedgepath: error: "), stderr
         assert not changed, f"an exit-2 run changed {sorted(changed)}"
         return
     if out_dir is None or not os.path.isdir(out_dir):

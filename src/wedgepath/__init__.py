@@ -16,7 +16,7 @@ the same time, as the worker threads of a Dask cluster do when unpickling).
 ``tests/test_architecture.py`` checks both.
 """
 
-import importlib
+import importlib as _importlib
 
 __version__ = "0.1.0.dev0"
 
@@ -91,7 +91,7 @@ def _attach(package):
         mod = where.get(name)
         if mod is None:
             raise AttributeError(f"module {full!r} has no attribute {name!r}")
-        module = importlib.import_module(f"{full}.{mod}")
+        module = _importlib.import_module(f"{full}.{mod}")
         value = module if table[mod] is None else getattr(module, name)
         _globals_of(full)[name] = value      # later look-ups skip __getattr__
         return value
@@ -119,11 +119,11 @@ __all__ = [*_TOP_CALCULUS, "__version__",
 
 def __getattr__(name):
     if name in _MODULES:
-        return importlib.import_module(f"{__name__}.{name}")
+        return _importlib.import_module(f"{__name__}.{name}")
     pkg = _TOP.get(name)
     if pkg is None:
         raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
-    value = getattr(importlib.import_module(f"{__name__}.{pkg}"), name)
+    value = getattr(_importlib.import_module(f"{__name__}.{pkg}"), name)
     globals()[name] = value
     return value
 

@@ -57,7 +57,8 @@ class CLIError(Exception):
 
 class _Parser(argparse.ArgumentParser):
     def error(self, message):  # one line, exit 2 (argparse's own convention for the code)
-        self.exit(2, f"{self.prog}: error: {message} (see --help)\n")
+        # the same prefix as every other error of the command line
+        self.exit(2, f"wedgepath: error: {message} (see {self.prog} --help)\n")
 
 
 # --------------------------------------------------------------------------- shared options
