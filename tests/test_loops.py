@@ -291,6 +291,16 @@ class TestSegmentation:
         assert {"partial-start", "partial-end", "partial-gap"} >= set(r.status[~done])
         assert (r.status == "partial-gap").sum() >= 2
 
+    def test_a_gap_shorter_than_every_step_is_refused(self):
+        # gap=0.001 on 0.005 s steps made every step a gap: 0 cycles and no word why (trial)
+        t = np.arange(2000) * 0.005
+        X = np.column_stack([np.sin(2 * np.pi * t), np.sin(2 * np.pi * t - 0.5)])
+        with pytest.raises(ValueError, match="shorter than every time step"):
+            wp.loop_cycles(X, 0, 1, times=t, gap=0.001)
+        with pytest.raises(ValueError, match="shorter than every time step"):
+            wp.cycle_areas(X, 0, 1, times=t, gap=0.001)
+        assert wp.loop_cycles(X, 0, 1, times=t, gap=0.006).count == 9
+
     def test_old_crossing_default_spans_gaps_new_does_not(self):
         # the crossing cut without gap detection (gap=None: only NaN rows are gaps) joins
         # weeks across missing rows -- the behaviour the default now avoids

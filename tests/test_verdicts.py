@@ -375,3 +375,23 @@ def test_filters_scale_exactly_and_refuse_overflow():
             np.testing.assert_array_equal(fn(big), fn(X) * 2.0 ** 1000)
     with pytest.raises(ValueError, match="overflows float64"):
         f.difference(np.array([[1.7e308], [-1.7e308], [0.0]]))
+
+
+def test_antiphase_reads_phases_not_opposite_trends():
+    # c is in phase with a (0.6 rad behind) but trends down while a and b trend up: the raw
+    # leading component was the trend and flagged c as anti-phase (trial finding); with each
+    # channel's straight line removed only a channel that really moves against the others
+    # is flagged, whatever its trend
+    from wedgepath.signals.verdicts import antiphase_channels
+
+    t = np.arange(400.0)
+    ph = 2 * np.pi * t / 30
+    noise = 0.1 * np.random.default_rng(5).standard_normal((400, 3))
+
+    def three(sign_c, trend_c):
+        return np.column_stack([np.sin(ph) + 0.01 * t, np.sin(ph - 0.3) + 0.01 * t,
+                                sign_c * np.sin(ph - 0.6) + trend_c * t]) + noise
+
+    assert antiphase_channels(three(1, -0.02)) == []
+    for trend in (0.01, -0.02):
+        assert [nm for nm, _ in antiphase_channels(three(-1, trend))] == ["2"]

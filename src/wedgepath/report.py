@@ -1271,7 +1271,8 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
     """
     from .signals import FitTest, reference_lags
     from .signals.verdicts import (FIT_TEST_MAX_CHANNELS, DriftWarning, _antiphase_core, _base,
-                                   _detrended, _drift_core, _fit_core, structure_kind)
+                                   _detrended, _drift_core, _fit_core, _line_removed,
+                                   structure_kind)
     from ._validation import as_rng
     out = {}
     n = values.shape[1]
@@ -1330,7 +1331,8 @@ def _honest_reading(values, times, names, order, closure, verdict_surrogates, se
         import warnings as _w
         _w.warn(chk.message(), DriftWarning, stacklevel=3)
         notes.append(chk.message())
-    out["antiphase"] = tuple(_antiphase_core(Y, names))
+    # on the drift-free data: opposite trends are not opposite phases
+    out["antiphase"] = tuple(_antiphase_core(_line_removed(Y, ramp), names))
     del Y
     if order is not None and n >= 3:
         out["structure"] = structure_kind(order)

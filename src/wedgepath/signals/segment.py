@@ -256,6 +256,11 @@ def gap_mask(valid, times, gap):
             limit = as_real(gap, "gap")
             if not limit > 0:
                 raise ValueError(f"gap must be a positive time step, got {limit}")
+            if dt.size and np.all(dt > limit):
+                raise ValueError(f"gap={limit:g} is shorter than every time step (the shortest "
+                                 f"is {float(np.min(dt)):g}), so every step would be a gap and "
+                                 "no cycle could be measured; give a gap longer than the "
+                                 "sampling step")
         brk |= dt > limit
     return brk
 

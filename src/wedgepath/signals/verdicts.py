@@ -194,6 +194,20 @@ def _detrended(Y, s):
     return Yd
 
 
+def _line_removed(Y, s):
+    """``Y`` minus each channel's least-squares straight line in ``s`` (a new array).
+
+    Unlike :func:`_detrended`, the end samples have no special weight, so stationary
+    cycles (whose first and last samples are arbitrary) are left almost as they are.
+    """
+    sc = s - s.mean()
+    denom = float(sc @ sc)
+    Yd = Y - Y.mean(axis=0)
+    if denom > 0:
+        Yd -= np.multiply.outer(sc, (sc @ Yd) / denom)
+    return Yd
+
+
 def _check_counts(n_surrogates, exact_frequencies):
     B = as_int(n_surrogates, "n_surrogates")
     if B < 1:
@@ -512,7 +526,9 @@ def antiphase_channels(X, *, times=None, names=None, min_share=0.4):
     components of equal weight and is left alone), channels
     with a negative loading move against it and may be anti-phase
     (countercyclical).  Their areas then have the sign of the opposite lead:
-    flip them with ``invert=`` before reading leaders and laggers.
+    flip them with ``invert=`` before reading leaders and laggers.  Each
+    channel's least-squares straight line (in time) is removed first, so
+    that opposite trends are not read as opposite phases.
 
     Returns
     -------
@@ -530,8 +546,8 @@ def antiphase_channels(X, *, times=None, names=None, min_share=0.4):
     >>> [nm for nm, _ in antiphase_channels(X)]
     ['2']
     """
-    Y, data, _ = _base(X, times, names)
-    return _antiphase_core(Y, data.labels, min_share)
+    Y, data, ramp = _base(X, times, names)
+    return _antiphase_core(_line_removed(Y, ramp), data.labels, min_share)
 
 
 def _antiphase_core(Y, labels, min_share=0.4):
