@@ -105,7 +105,7 @@ def test_cli_options(tmp_path, capsys):
     assert d["lags"]["c"] == pytest.approx(0.6, abs=0.05)
     assert d["structure"] == "chain" and d["cyclic_order"]["fit_pvalue"] <= 0.05
     assert "lags behind a (period 3" in stdout and " s [" in stdout
-    assert "preprocessing (zero phase): invert d, bandpass 1 to 10" in stdout
+    assert "preprocessing: invert d, bandpass 1 to 10 (zero-phase filters)" in stdout
     for argv, msg in ((["--bandpass", "5"], "LOW,HIGH"), (["--bandpass", "5,1"], "LOW < HIGH"),
                       (["--invert", "zz"], "unknown channel 'zz'"),
                       (["--reference", "zz"], "unknown channel 'zz'"),
@@ -216,3 +216,20 @@ def test_a_date_column_refuses_a_unit_that_is_not_time(tmp_path, capsys):
     f = _daily(tmp_path)
     code, _, err = run(["leadlag", f, "--time", "date", "--units", "date=EUR"], capsys)
     assert code == 2 and "must be a unit of time" in err and len(err.splitlines()) == 1
+
+
+def test_rows_after_difference_are_data_rows(tmp_path, capsys):
+    # after --difference the windows' rows are the table's data rows (a differenced row is
+    # the change into a data row), as the dates already were: window 1 ends on data row 61
+    import pandas as pd
+
+    f = _daily(tmp_path)
+    out = tmp_path / "o"
+    code, stdout, _ = run(["leadlag", f, "--time", "date", "--difference", "--window", "60",
+                           "--step", "30", "--out", out], capsys)
+    assert code == 0
+    r = pd.read_csv(out / "rolling.csv")
+    assert (r["first_row"].iloc[0], r["last_row"].iloc[0]) == (2, 61)
+    dates = pd.read_csv(f)["date"]
+    assert r["start_time"].iloc[0] == dates.iloc[1] and r["end_time"].iloc[0] == dates.iloc[60]
+    assert "preprocessing: difference (half a sample later" in stdout

@@ -362,13 +362,17 @@ class LeadLagReport(_Report):
     lags : ReferenceLags or None
         Lags behind ``reference`` in time units (:func:`~wedgepath.reference_lags`).
     preprocessing : dict
-        The zero-phase steps applied before everything else (``invert``,
-        ``detrend``, ``difference``, ``bandpass``, ``highpass``).
+        The steps applied before everything else (``invert``, ``detrend``,
+        ``difference``, and the zero-phase ``bandpass`` and ``highpass``).
     spectrum : LeadSpectrum or None
         The area matrix split by frequency band (``bands=``), same closure.
     band_significance : BandSignificance or None
         Surrogate test of every band and pair (``bands=`` with
         ``n_surrogates``), on the same gap-free stretch as ``significance``.
+    row_offset : int
+        Added to the rows of the analysed series to give the table's data
+        rows: 1 after ``difference`` (differenced row k is the change into
+        data row k + 1), else 0.
     """
 
     names: tuple
@@ -408,6 +412,7 @@ class LeadLagReport(_Report):
     spectrum: object = None
     band_significance: object = None
     band_significance_rows: tuple | None = None
+    row_offset: int = 0
 
     # ------------------------------------------------------------------ views
     @property
@@ -565,6 +570,7 @@ class LeadLagReport(_Report):
         d["notes"] = list(self.notes)
         if self.rolling is not None:
             areas, r0, r1, t0, t1 = _rolling_parts(self.rolling)
+            r0, r1 = r0 + self.row_offset, r1 + self.row_offset
             d["rolling"] = {"window": self.window, "step": self.step,
                             "first_row": r0, "last_row": r1,
                             "start_time": t0 if self.times_given else r0.astype(float),
@@ -650,7 +656,7 @@ class LeadLagReport(_Report):
         if self.rolling is not None:
             areas, r0, r1, t0, t1 = _rolling_parts(self.rolling)
             n = len(names)
-            cols = {"first_row": r0, "last_row": r1}
+            cols = {"first_row": r0 + self.row_offset, "last_row": r1 + self.row_offset}
             if self.times_given:
                 cols["start_time"], cols["end_time"] = t0, t1
             for i in range(n):
@@ -765,7 +771,13 @@ class LeadLagReport(_Report):
         if self.preprocessing:
             steps = ", ".join(f"{k} {v}" if v is not True else k
                               for k, v in self.preprocessing.items())
-            lines.append(f"preprocessing (zero phase): {steps}")
+            if "bandpass" in self.preprocessing or "highpass" in self.preprocessing:
+                steps += " (zero-phase filters)"
+            if "difference" in self.preprocessing:
+                # a first difference is not zero phase: it moves every channel by half a
+                # sample, the same for all, so relative leads and lags are unchanged
+                steps += " (half a sample later for every channel; relative lags unchanged)"
+            lines.append(f"preprocessing: {steps}")
         if self.spectrum is not None:
             lines += self._band_lines()
         for note in self.notes:
@@ -1110,6 +1122,8 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     # durations on a datetime axis are seconds inside the library; the time column's entry
     # in ``units`` (a unit of time) is the unit in which they are given and reported
     per = _seconds_per_unit(time_unit, time_name, units)
+    # rows are the table's data rows: a differenced row k is the change into data row k + 1
+    row_offset = 1 if difference else 0
     user_bands = bands
     if per != 1.0:
         bandpass = None if bandpass is None else (bandpass[0] * per, bandpass[1] * per)
@@ -1168,7 +1182,8 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
     kw = dict(names=names, samples=int(values.shape[0]), closure=closure, normalize=normalize,
               areas=A, raw=raw, order=order, fit_baseline=base, net_lead=M.sum(axis=1),
               top=int(top), times_given=times is not None, time_name=time_name,
-              units=dict(units or {}), source=dict(source or {}), preprocessing=pre)
+              units=dict(units or {}), source=dict(source or {}), preprocessing=pre,
+              row_offset=row_offset)
     kw.update(_honest_reading(values, times, names, order, closure, verdict_surrogates, seed,
                               reference, notes, trials=trials))
     if per != 1.0 and kw.get("lags") is not None:
@@ -1217,7 +1232,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         if not usable.any():
             raise ValueError("significance needs a gap-free stretch of at least 3 samples")
         a, b = int(tr.piece_start[usable][0]), int(tr.piece_stop[usable][-1])
-        kw["significance_rows"] = (a + 1, b)
+        kw["significance_rows"] = (a + 1 + row_offset, b + row_offset)
         if int(usable.sum()) > 1:
             notes.append(f"surrogates and the bootstrap pool {int(usable.sum())} gap-free "
                          f"pieces ({tr.describe()}); nothing is shuffled across a trial or a "
