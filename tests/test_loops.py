@@ -627,3 +627,20 @@ def test_report_notes_the_cycle_length_warning():
     assert sum("median cycle length" in n for n in rep.notes) == 1      # said once
     assert not any("median cycle length" in n for n in report.loop(
         X, names=["u", "f"], progress=False).notes)                      # the default band
+
+
+def test_cycle_start_and_stop_times_share_one_precision():
+    # start '...T09:00:02' beside stop '...T09:00:02.000' could not be compared as text (trial)
+    import pandas as pd
+
+    # cycles cut on whole seconds; the record ends at 09:00:07.99, inside a cycle
+    t = pd.date_range("2024-02-01 09:00:00", periods=800, freq="10ms")
+    s = np.arange(800) * 0.01
+    X = pd.DataFrame({"x": -np.cos(2 * np.pi * (s - 0.5) / 2.0),
+                      "F": -np.cos(2 * np.pi * (s - 0.5) / 2.0 - 0.5)}, index=t)
+    c = wp.cycle_areas(X, "x", "F")
+    both = list(c.start_time) + list(c.stop_time)
+    assert len({len(v) for v in both}) == 1, both
+    assert list(c.stop_time[:-1]) == list(c.start_time[1:])     # cycles abut, as text too
+    r = wp.rolling_area_matrix(X, 100, 50)
+    assert len({len(v) for v in list(r.start_time) + list(r.stop_time)}) == 1

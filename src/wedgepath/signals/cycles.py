@@ -294,8 +294,9 @@ def cycle_areas(X, i=0, j=1, *, reference=None, cut="crossing", level=None, hyst
             raise ValueError("cycle_areas: the areas overflow float64 for data this large; "
                              "rescale the data (e.g. divide each channel by its largest value)")
         status = np.where(good | (status != "complete"), status, "partial-gap").astype(object)
-    t_st, time_unit = data.report_times(st)      # in the input's form (ISO text for datetimes)
-    t_sp, _ = data.report_times(sp)
+    # in the input's form (ISO text for datetimes), starts and stops at one precision
+    t_both, time_unit = data.report_times(np.concatenate([st, sp]))
+    t_st, t_sp = t_both[:st.size], t_both[st.size:]
     return CycleAreas(values=areas, quantity=quantity_text(*pair), names=pair, start=st, stop=sp,
                       start_time=t_st, stop_time=t_sp, complete=good, status=status,
                       mean=mean, std=std, count=int(good.sum()), reference=ref_name, level=lev,

@@ -195,8 +195,8 @@ def rolling_area_matrix(X, window, step, *, times=None, names=None) -> RollingAr
             raise overflow_error("rolling_area_matrix")
     K = areas.shape[0]
     u = np.arange(K, dtype=np.int64) * s
-    t0, unit = data.report_times(u)
-    t1, _ = data.report_times(u + w - 1)
+    t01, unit = data.report_times(np.concatenate([u, u + w - 1]))   # one precision for both
+    t0, t1 = t01[:u.size], t01[u.size:]
     return RollingAreas(areas=areas, start=u, stop=u + w, start_time=t0, stop_time=t1,
                         window=w, step=s, names=data.labels, units=data.units, time_unit=unit)
 
