@@ -395,3 +395,16 @@ def test_antiphase_reads_phases_not_opposite_trends():
     assert antiphase_channels(three(1, -0.02)) == []
     for trend in (0.01, -0.02):
         assert [nm for nm, _ in antiphase_channels(three(-1, trend))] == ["2"]
+
+
+def test_difference_refuses_a_time_gap():
+    # hourly data with a 101-hour hole: the difference across it is the change over the
+    # whole outage; the lags then came out 'broad-band' with a remedy that was refused too
+    t = np.concatenate([np.arange(600.0), 700.0 + np.arange(400.0)]) * 3600
+    X = np.column_stack([np.sin(2 * np.pi * t / 86400), np.sin(2 * np.pi * t / 86400 - 0.5)])
+    with pytest.raises(ValueError, match="between rows 600 and 601 .* is a gap"):
+        wp.filters.difference(X, times=t)
+    with pytest.raises(ValueError, match="is a gap"):
+        wp.filters.preprocess(X, times=t, difference=True)
+    ok = wp.filters.difference(X[:600], times=t[:600])          # gap-free: as before
+    assert np.allclose(ok, np.diff(X[:600], axis=0))

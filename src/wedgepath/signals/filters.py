@@ -149,8 +149,28 @@ def difference(X, *, times=None, names=None):
     _no_gaps(Y, "X")
     if Y.shape[0] < 2:
         raise ValueError("difference needs at least 2 samples")
+    _no_time_gaps(data)
     Y, ex = _scaled(Y)
     return _like(X, _back(np.diff(Y, axis=0), ex, "difference"), data, rows=slice(1, None))
+
+
+def _no_time_gaps(data):
+    """Refuse a time step that is a gap (the rule of ``gap="auto"`` in the cycle cutting):
+    a difference across it is the change over the whole outage, not over one step."""
+    if data.times is None or data.times.shape[0] < 3:
+        return
+    from .segment import auto_gap
+
+    t = np.asarray(data.times, dtype=np.float64)
+    dt = np.diff(t)
+    limit = auto_gap(dt)
+    if np.any(dt > limit):
+        k = int(np.argmax(dt))
+        raise ValueError(f"difference: the time step between rows {k + 1} and {k + 2} "
+                         f"({dt[k]:.4g}) is a gap (the median step is "
+                         f"{float(np.median(dt)):.4g}); a difference across it is the change "
+                         "over the whole gap, not over one step: analyse the gap-free parts "
+                         "separately, or do not difference")
 
 
 def _check_period(p, name):
@@ -328,7 +348,7 @@ def preprocess(X, *, times=None, names=None, invert=None, detrend=False, differe
     if check_bool(detrend, "detrend"):
         Y = globals()["detrend"](Y, times=t)
     if check_bool(difference, "difference"):
-        Y = globals()["difference"](Y)
+        Y = globals()["difference"](Y, times=t)
         t = None if t is None else t[1:]
     if bandpass is not None:
         try:
