@@ -233,3 +233,20 @@ def test_rows_after_difference_are_data_rows(tmp_path, capsys):
     dates = pd.read_csv(f)["date"]
     assert r["start_time"].iloc[0] == dates.iloc[1] and r["end_time"].iloc[0] == dates.iloc[60]
     assert "preprocessing: difference (half a sample later" in stdout
+
+
+def test_a_clean_oscillation_that_fails_the_verdict_is_explained():
+    # two clean 60-minute sinusoids, b 1.05 rad behind a: the lag is tight, yet the phase
+    # surrogates give p around 0.3 (one frequency, one phase difference); the summary says
+    # why instead of leaving a bare "not above noise" beside a tight lag (trial finding 18)
+    t = np.arange(0, 6 * 3600, 30.0)
+    rng = np.random.default_rng(2)
+    ph = 2 * np.pi * t / 3600
+    X = np.column_stack([np.sin(ph), np.sin(ph - 1.05)]) + 0.05 * rng.standard_normal((t.size, 2))
+    rep = report.leadlag(X, times=t, names=["a", "b"], reference="a")
+    text = "\n".join(rep.summary())
+    assert not rep.verdict.above and rep.lags.narrowband
+    assert "the data are narrow-band" in text and "little power here" in text
+    assert abs(rep.lags.lags[1] - 1.05 / (2 * np.pi) * 3600) < 60      # 601.6 s
+    broad = report.leadlag(rng.standard_normal((2000, 2)), reference="0")     # white noise
+    assert "narrow-band" not in "\n".join(broad.summary())

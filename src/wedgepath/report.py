@@ -792,7 +792,18 @@ class LeadLagReport(_Report):
         return [f"leading cycle: {word} at 5% (p = {sig3(v.pvalue)}; null: each channel keeps "
                 f"its spectrum, no timing between channels; {v.n_surrogates} phase "
                 "surrogates" + (", drift removed" if v.closure == "detrend" else "") + ")"
-                + ("" if v.above else "; treat the order with caution")]
+                + ("" if v.above else "; treat the order with caution")] + \
+            self._narrowband_hint()
+
+    def _narrowband_hint(self):
+        """Why a clean oscillation can fail the verdict: one frequency, one phase difference."""
+        v, lg = self.verdict, self.lags
+        if v is None or v.above or lg is None or not lg.narrowband:
+            return []
+        return [f"  the data are narrow-band ({100 * lg.band_share:.0f}% of {lg.reference}'s "
+                "power near its peak period): one frequency carries one phase difference, "
+                "which chance makes as easily as timing, so this test has little power here; "
+                f"the lags behind {lg.reference} and their intervals say more"]
 
     def _lag_lines(self):
         lg = self.lags
