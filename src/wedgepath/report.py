@@ -809,11 +809,11 @@ class LeadLagReport(_Report):
         lg = self.lags
         if lg is None:
             return []
-        unit = self.units.get(self.time_name) if self.time_name else None
-        u = f" {unit}" if unit else (" samples" if not self.times_given else
-                                     " s" if self.time_unit == "ISO-8601" else " time units")
+        given = self.units.get(self.time_name) if self.time_name else None
+        unit = self._duration_unit()
+        u = f" {unit}" if unit else (" samples" if not self.times_given else " time units")
         scale = 1.0
-        if not unit and self.time_unit == "ISO-8601":
+        if not given and self.time_unit == "ISO-8601":
             # datetimes: lags in seconds, shown in the largest unit the period spans twice
             # (days for daily data, not 3.4e+05 s); the JSON keeps seconds
             for name, sec in (("d", 86400.0), ("h", 3600.0), ("min", 60.0)):
