@@ -105,7 +105,7 @@ def test_cli_options(tmp_path, capsys):
     assert d["lags"]["c"] == pytest.approx(0.6, abs=0.05)
     assert d["structure"] == "chain" and d["cyclic_order"]["fit_pvalue"] <= 0.05
     assert "lags behind a (period 3" in stdout and " s [" in stdout
-    assert "preprocessing: invert d, bandpass 1 to 10 (zero-phase filters)" in stdout
+    assert "preprocessing: invert d, bandpass 1 s to 10 s (zero-phase filters)" in stdout
     for argv, msg in ((["--bandpass", "5"], "LOW,HIGH"), (["--bandpass", "5,1"], "LOW < HIGH"),
                       (["--invert", "zz"], "unknown channel 'zz'"),
                       (["--reference", "zz"], "unknown channel 'zz'"),

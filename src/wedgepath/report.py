@@ -839,10 +839,7 @@ class LeadLagReport(_Report):
 
     def _duration_unit(self):
         """The unit of lags and periods: the time column's, seconds on a datetime axis."""
-        unit = self.units.get(self.time_name) if self.time_name else None
-        if not unit and self.time_unit == "ISO-8601":
-            return "s"
-        return unit
+        return _duration_unit(self.time_unit, self.time_name, self.units)
 
     def _frequency_unit(self) -> str:
         """What band edges are measured in, named after the time column when there is one."""
@@ -997,11 +994,11 @@ def _seconds_per_unit(time_unit, time_name, units) -> float:
     return _units.factor(u, _units.parse_unit("s", "seconds"))
 
 
-def _duration_label(time_unit, time_name, units) -> str:
-    """`` day`` / `` s``: the unit durations are shown in on a datetime axis, else ``""``."""
-    if time_unit != "ISO-8601":
-        return ""
-    return " " + (dict(units or {}).get(time_name) or "s")
+def _duration_unit(time_unit, time_name, units):
+    """The unit of durations (lags, periods, band-pass periods): the one given for the time
+    column, seconds on a datetime axis without one, else None (the unit is the caller's)."""
+    given = dict(units or {}).get(time_name) if time_name else None
+    return given or ("s" if time_unit == "ISO-8601" else None)
 
 
 def _bands_per_second(bands, per):
@@ -1027,8 +1024,7 @@ def _empty_band_notes(sp, times, per, unit) -> list:
     for name, (lo, _) in zip(sp.band_names, np.asarray(sp.bands, dtype=float)):
         if lo > nyq * (1 + 1e-9):
             out.append(f"band {name} lies above the Nyquist frequency {nyq:.4g} cycles per "
-                       f"{unit or 'sample'} (half the sampling rate): it holds no frequency of "
-                       "these data")
+                       f"{unit} (half the sampling rate): it holds no frequency of these data")
     return out
 
 
@@ -1166,7 +1162,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             if time_unit != "ISO-8601":
                 raise
             # on a datetime axis the filters saw seconds: say so in the caller's unit
-            du = _duration_label(time_unit, time_name, units).strip()
+            du = _duration_unit(time_unit, time_name, units)
             msg = str(exc).replace(" time units", " s")
             if per != 1.0:
                 msg += f" (on this date/time axis 1 {du} = {per:g} s)"
@@ -1175,7 +1171,8 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             times = axis.with_values(times)     # datetimes stay datetimes in the outputs
         pre.update({k: v for k, v in (("detrend", bool(detrend)),
                                       ("difference", bool(difference))) if v})
-        du = _duration_label(time_unit, time_name, units)
+        du = _duration_unit(time_unit, time_name, units)
+        du = f" {du}" if du else ""
         if bandpass is not None:
             pre["bandpass"] = f"{bandpass[0] / per:g}{du} to {bandpass[1] / per:g}{du}"
         if highpass is not None:
@@ -1232,7 +1229,9 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             kw["spectrum"] = dataclasses.replace(sp, bands=np.asarray(sp.bands) * per,
                                                  band_names=_resolve_bands(user_bands)[1])
         notes += _empty_band_notes(kw["spectrum"], times, per,
-                                   _duration_label(time_unit, time_name, units).strip())
+                                   _duration_unit(time_unit, time_name, units) or (
+                                       f"unit of {time_name}" if time_name else
+                                       "unit of time" if times is not None else "sample"))
     if n_surrogates is not None or n_boot is not None:
         # every gap-free piece of every trial counts (the pieces between gaps are trials
         # when no trial column is given); the statistics are pooled over them
