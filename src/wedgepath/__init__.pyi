@@ -1,0 +1,86 @@
+# Generated from the export table of wedgepath/__init__.py by tests/test_stubs.py;
+# do not edit.  Type checkers and editors read this; Python loads the names
+# lazily (see the module docstring of wedgepath/__init__.py).
+
+from . import calculus as calculus
+from . import planar as planar
+from . import signals as signals
+from . import symbolic as symbolic
+from . import formula as formula
+from . import plotting as plotting
+from . import report as report
+from . import io as io
+from .calculus.paths import Path as Path
+from .calculus.chains import Chain as Chain
+from .calculus.chains import ZeroChain as ZeroChain
+from .calculus.forms import Form as Form
+from .calculus.forms import ZeroForm as ZeroForm
+from .calculus.forms import OneForm as OneForm
+from .calculus.forms import TwoForm as TwoForm
+from .calculus.forms import dx as dx
+from .calculus.integration import integrate as integrate
+from .calculus.integral import Integral as Integral
+from .calculus.integral import IntegrationWarning as IntegrationWarning
+from .calculus.paths import CLOSURES as CLOSURES
+from .calculus.simplicial import SimplicialChain as SimplicialChain
+from .calculus.complexes import SimplicialComplex as SimplicialComplex
+from .calculus.complexes import WhitneyForm as WhitneyForm
+from .calculus.simplicial import cone as cone
+from .planar.area import signed_area as signed_area
+from .planar.area import region_moments as region_moments
+from .planar.area import RegionMoments as RegionMoments
+from .planar.winding import winding_number as winding_number
+from .planar.green import region_integral as region_integral
+from .planar.arrangement import decompose as decompose
+from .planar.arrangement import Decomposition as Decomposition
+from .planar.arrangement import Lobe as Lobe
+from .planar.arrangement import DecompositionWarning as DecompositionWarning
+from .planar.arrangement import ArrangementTooLarge as ArrangementTooLarge
+from .signals.areas import area_matrix as area_matrix
+from .signals.areas import AreaMatrix as AreaMatrix
+from .signals.areas import NORMALIZATIONS as NORMALIZATIONS
+from .signals.areas import hilbert_energy as hilbert_energy
+from .signals._kernel import ConstantChannelWarning as ConstantChannelWarning
+from .signals._kernel import ShapeWarning as ShapeWarning
+from .signals.alignment import align as align
+from .signals.order import cyclic_order as cyclic_order
+from .signals.order import CyclicOrder as CyclicOrder
+from .signals.order import noise_fit_baseline as noise_fit_baseline
+from .signals.rolling import rolling_area_matrix as rolling_area_matrix
+from .signals.rolling import RollingAreas as RollingAreas
+from .signals.streaming import AreaAccumulator as AreaAccumulator
+from .signals.significance import surrogate_test as surrogate_test
+from .signals.significance import SurrogateResult as SurrogateResult
+from .signals.significance import SURROGATE_METHODS as SURROGATE_METHODS
+from .signals.significance import bootstrap_area as bootstrap_area
+from .signals.significance import BootstrapResult as BootstrapResult
+from .signals.significance import benjamini_hochberg as benjamini_hochberg
+from .signals.significance import decorrelation_lag as decorrelation_lag
+from .signals.significance import SurrogateWarning as SurrogateWarning
+from .signals.cycles import cycle_areas as cycle_areas
+from .signals.cycles import CycleAreas as CycleAreas
+from .signals.loops import loop_cycles as loop_cycles
+from .signals.loops import LoopCycles as LoopCycles
+from .signals.loops import LOOP_KINDS as LOOP_KINDS
+from .signals.segment import CycleLengthWarning as CycleLengthWarning
+from .signals.rainflow_count import rainflow as rainflow
+from .signals.rainflow_count import RainflowCycles as RainflowCycles
+from .signals.pairs import pair_table as pair_table
+from .signals.verdicts import fit_test as fit_test
+from .signals.verdicts import FitTest as FitTest
+from .signals.verdicts import drift_check as drift_check
+from .signals.verdicts import DriftCheck as DriftCheck
+from .signals.verdicts import DriftWarning as DriftWarning
+from .signals.lags import reference_lags as reference_lags
+from .signals.lags import ReferenceLags as ReferenceLags
+from .signals import filters as filters
+from .signals.spectrum import lead_spectrum as lead_spectrum
+from .signals.spectrum import LeadSpectrum as LeadSpectrum
+from .signals.spectrum import band_surrogate_test as band_surrogate_test
+from .signals.spectrum import BandSignificance as BandSignificance
+from .signals.spectrum import rolling_lead_spectrum as rolling_lead_spectrum
+from .signals.spectrum import RollingSpectrum as RollingSpectrum
+from .signals.spectrum import ResamplingWarning as ResamplingWarning
+
+__version__: str
+__all__ = ['Path', 'Chain', 'ZeroChain', 'Form', 'ZeroForm', 'OneForm', 'TwoForm', 'dx', 'integrate', 'Integral', 'IntegrationWarning', 'CLOSURES', 'SimplicialChain', 'SimplicialComplex', 'WhitneyForm', 'cone', '__version__', 'signed_area', 'region_moments', 'RegionMoments', 'winding_number', 'region_integral', 'decompose', 'Decomposition', 'Lobe', 'DecompositionWarning', 'ArrangementTooLarge', 'area_matrix', 'AreaMatrix', 'NORMALIZATIONS', 'hilbert_energy', 'ConstantChannelWarning', 'ShapeWarning', 'align', 'cyclic_order', 'CyclicOrder', 'noise_fit_baseline', 'rolling_area_matrix', 'RollingAreas', 'AreaAccumulator', 'surrogate_test', 'SurrogateResult', 'SURROGATE_METHODS', 'bootstrap_area', 'BootstrapResult', 'benjamini_hochberg', 'decorrelation_lag', 'SurrogateWarning', 'cycle_areas', 'CycleAreas', 'loop_cycles', 'LoopCycles', 'LOOP_KINDS', 'CycleLengthWarning', 'rainflow', 'RainflowCycles', 'pair_table', 'fit_test', 'FitTest', 'drift_check', 'DriftCheck', 'DriftWarning', 'reference_lags', 'ReferenceLags', 'filters', 'lead_spectrum', 'LeadSpectrum', 'band_surrogate_test', 'BandSignificance', 'rolling_lead_spectrum', 'RollingSpectrum', 'ResamplingWarning']
