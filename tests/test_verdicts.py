@@ -408,3 +408,13 @@ def test_difference_refuses_a_time_gap():
         wp.filters.preprocess(X, times=t, difference=True)
     ok = wp.filters.difference(X[:600], times=t[:600])          # gap-free: as before
     assert np.allclose(ok, np.diff(X[:600], axis=0))
+
+
+def test_difference_refuses_uneven_steps():
+    # business days (steps of 1 and 3 days): the difference is not a change per step and the
+    # lags read from it came out 2.44 days for a true 3 (trial 2, F2)
+    days = np.array([d for d in range(730) if d % 7 not in (5, 6)], dtype=float)
+    X = np.column_stack([np.sin(2 * np.pi * days / 30), np.sin(2 * np.pi * (days - 3) / 30)])
+    with pytest.raises(ValueError, match="not regularly spaced"):
+        wp.filters.difference(X, times=days * 86400)
+    assert wp.filters.difference(X).shape == (days.size - 1, 2)       # per row: allowed

@@ -105,7 +105,8 @@ def test_cli_options(tmp_path, capsys):
     assert d["lags"]["c"] == pytest.approx(0.6, abs=0.05)
     assert d["structure"] == "chain" and d["cyclic_order"]["fit_pvalue"] <= 0.05
     assert "lags behind a (period 3" in stdout and " s [" in stdout
-    assert "preprocessing: invert d, bandpass 1 s to 10 s (zero-phase filters)" in stdout
+    assert "preprocessing: invert d, bandpass 1 to 10 s (zero-phase filters)" in stdout
+    assert d["preprocessing"]["bandpass"] == "1 to 10"        # the JSON keeps its form
     for argv, msg in ((["--bandpass", "5"], "LOW,HIGH"), (["--bandpass", "5,1"], "LOW < HIGH"),
                       (["--invert", "zz"], "unknown channel 'zz'"),
                       (["--reference", "zz"], "unknown channel 'zz'"),
@@ -184,7 +185,7 @@ def test_a_unit_for_a_date_column_converts_lags_bands_and_filters(tmp_path, caps
     lag = {ln.split(":")[0].strip(): float(ln.split()[1]) for ln in stdout.splitlines()
            if ln.startswith(("  b: ", "  c: "))}
     assert abs(lag["b"] - 3.82) < 0.3 and abs(lag["c"] - 7.64) < 0.3, stdout
-    assert "period 30" in stdout and "bandpass 10 day to 60 day" in stdout
+    assert "period 30" in stdout and "bandpass 10 to 60 day" in stdout
     payload = json.loads((out / "result.json").read_text())
     assert payload["lags_info"]["time_unit"] == "day"
     assert abs(payload["lags"]["b"] - 3.82) < 0.3
@@ -250,3 +251,25 @@ def test_a_clean_oscillation_that_fails_the_verdict_is_explained():
     assert abs(rep.lags.lags[1] - 1.05 / (2 * np.pi) * 3600) < 60      # 601.6 s
     broad = report.leadlag(rng.standard_normal((2000, 2)), reference="0")     # white noise
     assert "narrow-band" not in "\n".join(broad.summary())
+
+
+def test_a_duration_axis_converts_like_a_date_axis(tmp_path):
+    # a timedelta time axis is held in seconds too: --units el=day relabelled seconds as
+    # days there (trial 2, F1); band edges keep the caller's exact values (F8)
+    import pandas as pd
+
+    df = pd.read_csv(_daily(tmp_path), parse_dates=["date"])
+    el = df.pop("date")
+    el = el - el.iloc[0]
+    rep = report.leadlag(df, times=el, time_name="el", units={"el": "day"}, reference="a",
+                         bands=[0, 0.02, 0.06, 0.5])
+    d = rep.to_dict()
+    assert d["lags_info"]["time_unit"] == "day" and abs(d["lags"]["b"] - 3.82) < 0.3
+    assert 25 < d["lags_info"]["period"] < 35
+    assert list(d["bands"]["low"]) == [0.0, 0.02, 0.06]        # exact, not 0.0600...01
+    assert d["bands"]["frequency_unit"] == "cycles per day"
+    plain = report.leadlag(df, times=el, time_name="el", reference="a").to_dict()
+    assert plain["lags_info"]["time_unit"] == "s"
+    assert abs(plain["lags"]["b"] / 86400 - 3.82) < 0.3
+    with pytest.raises(ValueError, match="must be a unit of time"):
+        report.leadlag(df, times=el, time_name="el", units={"el": "EUR"})

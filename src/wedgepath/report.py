@@ -769,8 +769,10 @@ class LeadLagReport(_Report):
                          "anti-phase (countercyclical), which turns lag into lead; if so, "
                          f"flip with --invert {flip} (invert=[...] in the API)")
         if self.preprocessing:
-            steps = ", ".join(f"{k} {v}" if v is not True else k
-                              for k, v in self.preprocessing.items())
+            du = self._duration_unit()          # periods of the filters, in their unit
+            steps = ", ".join(k if v is True else
+                              f"{k} {v} {du}" if du and k in ("bandpass", "highpass") else
+                              f"{k} {v}" for k, v in self.preprocessing.items())
             if "bandpass" in self.preprocessing or "highpass" in self.preprocessing:
                 steps += " (zero-phase filters)"
             if "difference" in self.preprocessing:
@@ -813,7 +815,7 @@ class LeadLagReport(_Report):
         unit = self._duration_unit()
         u = f" {unit}" if unit else (" samples" if not self.times_given else " time units")
         scale = 1.0
-        if not given and self.time_unit == "ISO-8601":
+        if not given and _in_seconds(self.time_unit):
             # datetimes: lags in seconds, shown in the largest unit the period spans twice
             # (days for daily data, not 3.4e+05 s); the JSON keeps seconds
             for name, sec in (("d", 86400.0), ("h", 3600.0), ("min", 60.0)):
@@ -976,10 +978,16 @@ def _position_intervals(order, boot, confidence):
     return np.mod(base + lo, two_pi), np.mod(base + hi, two_pi)
 
 
+def _in_seconds(time_unit) -> bool:
+    """The time axis is held in seconds: datetimes (elapsed seconds) and durations."""
+    return time_unit in ("ISO-8601", "s")
+
+
 def _seconds_per_unit(time_unit, time_name, units) -> float:
-    """Seconds per duration unit: the unit given for a datetime time column, else 1."""
+    """Seconds per duration unit: the unit given for a date/time or duration time column
+    (held in seconds), else 1 (a plain number column's unit is only a label)."""
     given = dict(units or {}).get(time_name) if time_name else None
-    if time_unit != "ISO-8601" or not given:
+    if not _in_seconds(time_unit) or not given:
         return 1.0
     from .signals import _units
     try:
@@ -988,7 +996,8 @@ def _seconds_per_unit(time_unit, time_name, units) -> float:
     except ValueError:
         ok = False
     if not ok:
-        raise ValueError(f"the time column {time_name!r} holds dates and times, so its unit "
+        raise ValueError(f"the time column {time_name!r} holds dates, times or durations, so "
+                         f"its unit "
                          f"{given!r} must be a unit of time (s, min, h, day, week): it sets "
                          "the unit of lags, periods and band edges")
     return _units.factor(u, _units.parse_unit("s", "seconds"))
@@ -998,7 +1007,7 @@ def _duration_unit(time_unit, time_name, units):
     """The unit of durations (lags, periods, band-pass periods): the one given for the time
     column, seconds on a datetime axis without one, else None (the unit is the caller's)."""
     given = dict(units or {}).get(time_name) if time_name else None
-    return given or ("s" if time_unit == "ISO-8601" else None)
+    return given or ("s" if _in_seconds(time_unit) else None)
 
 
 def _bands_per_second(bands, per):
@@ -1159,7 +1168,7 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
                                           detrend=detrend, difference=difference,
                                           bandpass=bandpass, highpass=highpass)
         except ValueError as exc:
-            if time_unit != "ISO-8601":
+            if not _in_seconds(time_unit):
                 raise
             # on a datetime axis the filters saw seconds: say so in the caller's unit
             du = _duration_unit(time_unit, time_name, units)
@@ -1171,12 +1180,10 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             times = axis.with_values(times)     # datetimes stay datetimes in the outputs
         pre.update({k: v for k, v in (("detrend", bool(detrend)),
                                       ("difference", bool(difference))) if v})
-        du = _duration_unit(time_unit, time_name, units)
-        du = f" {du}" if du else ""
         if bandpass is not None:
-            pre["bandpass"] = f"{bandpass[0] / per:g}{du} to {bandpass[1] / per:g}{du}"
+            pre["bandpass"] = f"{bandpass[0] / per:g} to {bandpass[1] / per:g}"
         if highpass is not None:
-            pre["highpass"] = f"{highpass / per:g}{du}"
+            pre["highpass"] = f"{highpass / per:g}"
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always")
         A = area_matrix(values, times=times, closure=closure, normalize=normalize,
@@ -1226,8 +1233,8 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
         if per != 1.0:
             from .signals.spectrum import _resolve_bands
             sp = kw["spectrum"]
-            kw["spectrum"] = dataclasses.replace(sp, bands=np.asarray(sp.bands) * per,
-                                                 band_names=_resolve_bands(user_bands)[1])
+            edges, bnames, _ = _resolve_bands(user_bands)      # the caller's exact edges
+            kw["spectrum"] = dataclasses.replace(sp, bands=edges, band_names=bnames)
         notes += _empty_band_notes(kw["spectrum"], times, per,
                                    _duration_unit(time_unit, time_name, units) or (
                                        f"unit of {time_name}" if time_name else

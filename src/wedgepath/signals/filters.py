@@ -134,6 +134,8 @@ def detrend(X, *, times=None, names=None):
 def difference(X, *, times=None, names=None):
     """First differences ``x[k] - x[k-1]`` of each channel (one row shorter).
 
+    With ``times``, the steps must be regular (to 1 %) and hold no gap.
+
     Differencing is exactly zero-phase only up to half a sample: every
     channel gets the same half-sample delay, so no channel moves against
     another.
@@ -150,6 +152,15 @@ def difference(X, *, times=None, names=None):
     if Y.shape[0] < 2:
         raise ValueError("difference needs at least 2 samples")
     _no_time_gaps(data)
+    if data.times is not None:
+        try:
+            sample_spacing(data.times)
+        except ValueError:
+            raise ValueError("difference: the times are not regularly spaced (the steps vary "
+                             "by more than 1 %, e.g. business days or months); a difference "
+                             "over uneven steps is not a change per step, and lags read from "
+                             "it are biased: resample to a regular grid first, or difference "
+                             "without times (per row)") from None
     Y, ex = _scaled(Y)
     return _like(X, _back(np.diff(Y, axis=0), ex, "difference"), data, rows=slice(1, None))
 
