@@ -418,3 +418,14 @@ def test_difference_refuses_uneven_steps():
     with pytest.raises(ValueError, match="not regularly spaced"):
         wp.filters.difference(X, times=days * 86400)
     assert wp.filters.difference(X).shape == (days.size - 1, 2)       # per row: allowed
+
+
+def test_a_slow_clean_oscillation_is_narrow_band():
+    # a 500-sample period over 730 samples: the refined peak frequency moved so that the band
+    # around it held no frequency bin, and the share of power 'near the peak' came out 0
+    # (trial 2, F5); the peak bin always counts now
+    t = np.arange(730.0)
+    X = np.column_stack([np.sin(2 * np.pi * t / 500), np.sin(2 * np.pi * (t - 40) / 500)])
+    r = wp.reference_lags(X, 0, times=t)
+    assert r.band_share > 0.5 and r.narrowband
+    assert abs(r.lags[1] - 40) < 5

@@ -196,6 +196,7 @@ def reference_lags(X, reference, *, times=None, names=None, n_boot=199, confiden
     nb = slice(max(k0 - 2, 1), k0 + 3)
     f0 = float(np.sum(f[nb] * P[nb]) / np.sum(P[nb]))
     band = (f >= f0 / _BAND) & (f <= f0 * _BAND)
+    band[k0] = True         # the peak bin itself, which a few-cycle record can leave outside
     share = float(P[band].sum() / total)
     period = 1.0 / f0
     block = int(min(max(np.ceil(2 * period / h), np.ceil(np.sqrt(T)), 2), max(T // 4, 2)))
