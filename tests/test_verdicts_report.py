@@ -209,7 +209,7 @@ def test_a_date_column_without_a_unit_says_seconds(tmp_path, capsys):
     assert abs(payload["lags"]["b"] / 86400 - 3.82) < 0.3
     assert payload["bands"]["frequency_unit"] == "cycles per s"
     # edges meant per day but read per second lie far above the Nyquist frequency: said
-    assert any("above the Nyquist frequency" in n and "0.02-0.5" in n
+    assert any("above the Nyquist frequency" in n and "0.02-0.5" in n and "--units date=day" in n
                for n in payload["notes"])
 
 

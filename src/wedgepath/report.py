@@ -1235,10 +1235,15 @@ def leadlag(data, *, times=None, names=None, closure="chord", normalize=None, wi
             sp = kw["spectrum"]
             edges, bnames, _ = _resolve_bands(user_bands)      # the caller's exact edges
             kw["spectrum"] = dataclasses.replace(sp, bands=edges, band_names=bnames)
-        notes += _empty_band_notes(kw["spectrum"], times, per,
-                                   _duration_unit(time_unit, time_name, units) or (
-                                       f"unit of {time_name}" if time_name else
-                                       "unit of time" if times is not None else "sample"))
+        empty = _empty_band_notes(kw["spectrum"], times, per,
+                                  _duration_unit(time_unit, time_name, units) or (
+                                      f"unit of {time_name}" if time_name else
+                                      "unit of time" if times is not None else "sample"))
+        if empty and _in_seconds(time_unit) and per == 1.0 and time_name:
+            empty[-1] += (f"; band edges on this time axis are cycles per second unless the "
+                          f"time column has a unit (--units {time_name}=day, or "
+                          f"units={{{time_name!r}: 'day'}})")
+        notes += empty
     if n_surrogates is not None or n_boot is not None:
         # every gap-free piece of every trial counts (the pieces between gaps are trials
         # when no trial column is given); the statistics are pooled over them
