@@ -273,3 +273,15 @@ def test_a_duration_axis_converts_like_a_date_axis(tmp_path):
     assert abs(plain["lags"]["b"] / 86400 - 3.82) < 0.3
     with pytest.raises(ValueError, match="must be a unit of time"):
         report.leadlag(df, times=el, time_name="el", units={"el": "EUR"})
+
+
+def test_cli_says_each_warning_once_with_the_right_column(tmp_path, capsys):
+    # a clock-like column used as a channel was warned about three times, the third time
+    # as column '0' (an internal re-check inside the lag estimate; trial 2, F13)
+    t = np.arange(400.0)
+    f = _csv(tmp_path / "num.csv", ["a", "b"], t, np.column_stack(
+        [np.sin(2 * np.pi * t / 30), np.sin(2 * np.pi * t / 30 - 0.6)]))
+    code, _, err = run(["leadlag", f, "--reference", "a", "--surrogates", "19"], capsys)
+    assert code == 0
+    lines = [ln for ln in err.splitlines() if "like a clock" in ln]
+    assert len(lines) == 1 and "column 't'" in lines[0], err

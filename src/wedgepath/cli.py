@@ -627,10 +627,15 @@ def cli_words(msg):
     return msg
 
 
+_SAID = set()      # warnings already printed in this run: each is said once
+
+
 def _one_line_warning(message, category, filename, lineno, file=None, line=None):
     text = str(message).strip().splitlines()
-    print(f"wedgepath: warning: {cli_words(text[0]) if text else category.__name__}",
-          file=sys.stderr)
+    out = f"wedgepath: warning: {cli_words(text[0]) if text else category.__name__}"
+    if out not in _SAID:
+        _SAID.add(out)
+        print(out, file=sys.stderr)
 
 
 def main(argv=None) -> int:
@@ -642,6 +647,7 @@ def main(argv=None) -> int:
         return int(exc.code or 0)
     try:
         with warnings.catch_warnings():
+            _SAID.clear()
             warnings.showwarning = _one_line_warning
             # the report states a dominating drift among its notes, which the summary and
             # the JSON both carry: the warning would say it a second time

@@ -119,16 +119,21 @@ def detrend(X, *, times=None, names=None):
     """
     Y, data = _input(X, times, names)
     _no_gaps(Y, "X")
+    return _like(X, detrended_array(Y, data.times), data)
+
+
+def detrended_array(Y, times=None):
+    """:func:`detrend` of a checked, gap-free float array (no input checks, no warnings)."""
     Y, ex = _scaled(Y)
     T = Y.shape[0]
-    t = np.arange(T, dtype=np.float64) if data.times is None else np.asarray(data.times, float)
+    t = np.arange(T, dtype=np.float64) if times is None else np.asarray(times, float)
     t = t - t.mean()
     big = float(np.max(np.abs(t))) if T else 0.0
     t = t / big if big > 0 else t          # the fit does not depend on the time unit
     Yc = Y - Y.mean(axis=0)
     tt = float(t @ t)
     slope = (t @ Yc) / tt if tt > 0 else np.zeros(Y.shape[1])
-    return _like(X, _back(Yc - t[:, None] * slope[None, :], ex, "detrend"), data)
+    return _back(Yc - t[:, None] * slope[None, :], ex, "detrend")
 
 
 def difference(X, *, times=None, names=None):

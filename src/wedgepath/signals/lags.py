@@ -157,7 +157,7 @@ def reference_lags(X, reference, *, times=None, names=None, n_boot=199, confiden
     """
     from scipy.signal import hilbert
 
-    from .filters import channel_indices, detrend, sample_spacing
+    from .filters import channel_indices, detrended_array, sample_spacing
     from .significance import _gap_free
 
     R = as_int(n_boot, "n_boot")
@@ -184,7 +184,7 @@ def reference_lags(X, reference, *, times=None, names=None, n_boot=199, confiden
         resampled = True
     if T < 16:
         raise ValueError(f"reference_lags needs at least 16 samples, got {T}")
-    Y = detrend(Y)
+    Y = detrended_array(Y)      # Y is checked already: no second round of input warnings
     P = np.abs(np.fft.rfft(Y[:, ref])) ** 2
     f = np.fft.rfftfreq(T, d=h)
     P[0] = 0.0
