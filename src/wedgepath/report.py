@@ -39,7 +39,6 @@ from __future__ import annotations
 
 import dataclasses
 import math
-import os
 import warnings
 from dataclasses import dataclass, field
 from typing import Mapping
@@ -884,7 +883,7 @@ class LeadLagReport(_Report):
                          + f"; all frequencies {total[a, c]:+.4g}")
             opposite = np.any(S[:, a, c] > 0) and np.any(S[:, a, c] < 0)
             if opposite and abs(total[a, c]) < 0.5 * float(np.max(np.abs(S[:, a, c]))):
-                lines.append(f"    opposite leads in different bands partly cancel in the "
+                lines.append("    opposite leads in different bands partly cancel in the "
                              "all-frequency area")
         if np.any(np.asarray(sp.rest) != 0):
             lines.append("  (area at frequencies outside the bands: bands.csv and the JSON "

@@ -27,7 +27,7 @@ from typing import ClassVar
 
 import numpy as np
 
-from .._results import ArrayResult, default_names, fmt_number
+from .._results import ArrayResult, fmt_number
 from .._validation import as_float_array, as_real
 from .cycles import _channel
 from .segment import gap_mask, turning_points, zigzag
