@@ -851,7 +851,7 @@ def band_surrogate_test(X, *, bands, method="shift", n_surrogates=199, min_shift
     >>> res.to_frame()[["band_name", "p", "q"]].round(3).values.tolist()
     [['slow', 0.01, 0.02], ['fast', 0.48, 0.48]]
     """
-    from .significance import _merge_moments, _resolve_min_shift, benjamini_hochberg
+    from .significance import _merge_moments, _resolve_min_shift
 
     check_choice(method, "method", ("shift", "phase"))
     check_progress(progress)
@@ -923,15 +923,29 @@ def band_surrogate_test(X, *, bands, method="shift", n_surrogates=199, min_shift
             now = int(count[offdiag].min()) if n > 1 else nsur
             bar.update(now - done)
             done = now
+    sd = np.sqrt(m2 / max(nsur - 1, 1))
+    return _band_significance(obs, exceed, mean, sd, ex, nsur, edges, bnames, method=method,
+                              seed=seed, min_shift=m_shift, data=data, closure=closure)
+
+
+def _band_significance(obs, exceed, mean, sd, ex, nsur, edges, bnames, **fields):
+    """The :class:`BandSignificance` of observed band areas and their surrogate counts.
+
+    ``exceed``: surrogates at least as large as the observed area (B, n, n); ``obs``,
+    ``mean``, ``sd`` are on the channels scaled by powers of two ``ex`` and are scaled
+    back here.  p-values ``(1 + exceed) / (nsur + 1)``, q-values by Benjamini-Hochberg
+    over every pair i < j of every band.
+    """
+    from .significance import benjamini_hochberg
+
+    B, n = obs.shape[0], obs.shape[1]
     p = (1.0 + exceed) / (nsur + 1.0)
-    eye = np.eye(n, dtype=bool)
-    p[:, eye] = np.nan
+    p[:, np.eye(n, dtype=bool)] = np.nan
     iu, ju = pair_index(n)
     q = np.full((B, n, n), np.nan)
     qv = benjamini_hochberg(p[:, iu, ju].reshape(-1)).reshape(B, -1)
     q[:, iu, ju] = qv
     q[:, ju, iu] = qv
-    sd = np.sqrt(m2 / max(nsur - 1, 1))
     pe = ex[:, None] + ex[None, :]
 
     def back(a):
@@ -940,10 +954,10 @@ def band_surrogate_test(X, *, bands, method="shift", n_surrogates=199, min_shift
             raise ValueError("band_surrogate_test: the areas overflow float64; rescale the data")
         return out
 
+    data = fields.pop("data")
     return BandSignificance(observed=back(obs), pvalues=p, qvalues=q, null_mean=back(mean),
-                            null_std=back(sd), bands=edges, band_names=bnames, method=method,
-                            n_surrogates=nsur, seed=seed, min_shift=m_shift, names=data.labels,
-                            closure=closure, units=data.units)
+                            null_std=back(sd), bands=edges, band_names=bnames,
+                            n_surrogates=nsur, names=data.labels, units=data.units, **fields)
 
 
 def _has_gap(X):
@@ -958,7 +972,7 @@ def _has_gap(X):
 def _pooled_band_surrogates(X, times, names, trials, closure, edges, bnames, contiguous,
                             method, nsur, min_shift, seed, rng, progress):
     """band_surrogate_test over several gap-free pieces (trials), shuffled within each."""
-    from .significance import _pooled_min_shift, _trial_pieces, benjamini_hochberg
+    from .significance import _pooled_min_shift, _trial_pieces
 
     if closure not in ("chord", "detrend"):
         raise ValueError(f"band_surrogate_test supports closure='chord' or 'detrend' "
@@ -1039,28 +1053,10 @@ def _pooled_band_surrogates(X, times, names, trials, closure, edges, bnames, con
                 count += use.sum(axis=0)
                 bar.update(int(count[offdiag].min()) - before)
     exceed = np.sum(np.abs(S) >= threshold[None], axis=0).astype(np.float64)
-    p = (1.0 + exceed) / (nsur + 1.0)
-    eye = np.eye(n, dtype=bool)
-    p[:, eye] = np.nan
-    iu, ju = pair_index(n)
-    q = np.full((B, n, n), np.nan)
-    qv = benjamini_hochberg(p[:, iu, ju].reshape(-1)).reshape(B, -1)
-    q[:, iu, ju] = qv
-    q[:, ju, iu] = qv
     mean = S.mean(axis=0)
     sd = S.std(axis=0, ddof=1) if nsur > 1 else np.zeros((B, n, n))
-    pe = ex[:, None] + ex[None, :]
-
-    def back(a):
-        out = pow2_scale(a, pe[None])
-        if not np.isfinite(out[np.isfinite(a)]).all():
-            raise ValueError("band_surrogate_test: the areas overflow float64; rescale the data")
-        return out
-
-    return BandSignificance(observed=back(obs), pvalues=p, qvalues=q, null_mean=back(mean),
-                            null_std=back(sd), bands=edges, band_names=bnames, method=method,
-                            n_surrogates=nsur, seed=seed, min_shift=m_shift, names=data.labels,
-                            closure=closure, units=data.units)
+    return _band_significance(obs, exceed, mean, sd, ex, nsur, edges, bnames, method=method,
+                              seed=seed, min_shift=m_shift, data=data, closure=closure)
 
 
 # --------------------------------------------------------------------------- rolling
