@@ -125,6 +125,14 @@ class Result:
                                  f"{list(self.names)}")
         return dataclasses.replace(self, units=units)
 
+    def _channel(self, k) -> int:
+        """Index of channel ``k``, given by name or by index (KeyError for an unknown name)."""
+        if isinstance(k, str):
+            if k not in self.names:
+                raise KeyError(f"unknown channel {k!r}; channels are {list(self.names)}")
+            return self.names.index(k)
+        return int(k)
+
     # ------------------------------------------------------------ abstract
     def to_frame(self):
         """The result as a tidy pandas DataFrame (columns: see the class docstring)."""

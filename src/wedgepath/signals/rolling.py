@@ -67,13 +67,6 @@ class RollingAreas(ArrayResult):
     units: Mapping | None = None
     time_unit: str | None = "sample"
 
-    def _channel(self, k) -> int:
-        if isinstance(k, str):
-            if k not in self.names:
-                raise KeyError(f"unknown channel {k!r}; channels are {list(self.names)}")
-            return self.names.index(k)
-        return int(k)
-
     def pair(self, i, j) -> np.ndarray:
         """The series ``A[i, j]`` over windows, channels by index or name."""
         return self.areas[:, self._channel(i), self._channel(j)]

@@ -137,13 +137,6 @@ class LeadSpectrum(ArrayResult):
         """``areas.sum(axis=0) + rest``: the area matrix the bands split."""
         return self.areas.sum(axis=0) + self.rest
 
-    def _channel(self, k) -> int:
-        if isinstance(k, str):
-            if k not in self.names:
-                raise KeyError(f"unknown channel {k!r}; channels are {list(self.names)}")
-            return self.names.index(k)
-        return int(k)
-
     def pair(self, i, j) -> np.ndarray:
         """The band areas ``areas[:, i, j]`` of one pair, channels by index or name."""
         return self.areas[:, self._channel(i), self._channel(j)]
@@ -1106,13 +1099,7 @@ class RollingSpectrum(ArrayResult):
 
     def pair(self, i, j) -> np.ndarray:
         """The (K, B) band areas of one pair over windows, channels by index or name."""
-        def ch(k):
-            if isinstance(k, str):
-                if k not in self.names:
-                    raise KeyError(f"unknown channel {k!r}; channels are {list(self.names)}")
-                return self.names.index(k)
-            return int(k)
-        return self.areas[:, :, ch(i), ch(j)]
+        return self.areas[:, :, self._channel(i), self._channel(j)]
 
     def to_frame(self):
         """One row per window, band and pair (see the class docstring)."""
