@@ -32,6 +32,15 @@ def best_time(fn, repeat=5, min_total=0.0):
     return best
 
 
+def interleaved_best(fns, repeat):
+    """Best time of each function, runs interleaved so that load spikes hit all alike."""
+    best = [float("inf")] * len(fns)
+    for _ in range(repeat):
+        for k, fn in enumerate(fns):
+            best[k] = min(best[k], best_time(fn, repeat=1))
+    return best
+
+
 def peak_memory(fn):
     """Peak traced allocation in bytes while ``fn()`` runs, above the start level."""
     gc.collect()

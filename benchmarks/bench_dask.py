@@ -27,7 +27,7 @@ from pathlib import Path
 import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from _harness import Table, best_time  # noqa: E402
+from _harness import Table, best_time, interleaved_best  # noqa: E402
 
 import wedgepath as wp  # noqa: E402
 
@@ -45,13 +45,6 @@ def _block_for_dask(block_info=None, rows=0, n=0):
     k = block_info[None]["chunk-location"][0]
     return make_block(k, rows, n)
 
-
-def interleaved_best(fns, repeat):
-    best = [float("inf")] * len(fns)
-    for _ in range(repeat):
-        for k, fn in enumerate(fns):
-            best[k] = min(best[k], best_time(fn, repeat=1))
-    return best
 
 
 def rel_diff(a, b):

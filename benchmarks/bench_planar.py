@@ -40,19 +40,11 @@ import numpy as np
 import shapely
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from _harness import Table, best_time, peak_memory  # noqa: E402
+from _harness import Table, best_time, interleaved_best, peak_memory  # noqa: E402
 
 import wedgepath as wp  # noqa: E402
 from wedgepath.planar.arrangement import count_crossings  # noqa: E402
 
-
-def interleaved_best(fns, repeat):
-    """Best time of each function, runs interleaved so that load spikes hit all alike."""
-    best = [float("inf")] * len(fns)
-    for _ in range(repeat):
-        for k, fn in enumerate(fns):
-            best[k] = min(best[k], best_time(fn, repeat=1))
-    return best
 
 
 def noisy_loop(n, turns=10, noise=0.07, seed=1):

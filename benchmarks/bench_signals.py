@@ -29,7 +29,7 @@ from pathlib import Path
 import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from _harness import Table, best_time, peak_memory  # noqa: E402
+from _harness import Table, best_time, interleaved_best, peak_memory  # noqa: E402
 
 import wedgepath as wp  # noqa: E402
 
@@ -43,14 +43,6 @@ def per_pair_loop(X, pairs):
         out[i, j] = 0.5 * (np.dot(x[:-1], y[1:]) - np.dot(y[:-1], x[1:]))
     return out
 
-
-def interleaved_best(fns, repeat):
-    """Best time of each function, runs interleaved so that load spikes hit all alike."""
-    best = [float("inf")] * len(fns)
-    for _ in range(repeat):
-        for k, fn in enumerate(fns):
-            best[k] = min(best[k], best_time(fn, repeat=1))
-    return best
 
 
 def main(quick=False):

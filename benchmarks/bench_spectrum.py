@@ -26,18 +26,10 @@ from pathlib import Path
 import numpy as np
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from _harness import Table, best_time, peak_memory  # noqa: E402
+from _harness import Table, interleaved_best, peak_memory  # noqa: E402
 
 import wedgepath as wp  # noqa: E402
 
-
-def interleaved_best(fns, repeat):
-    """Best time of each function, runs interleaved so that load spikes hit all alike."""
-    best = [float("inf")] * len(fns)
-    for _ in range(repeat):
-        for k, fn in enumerate(fns):
-            best[k] = min(best[k], best_time(fn, repeat=1))
-    return best
 
 
 def main(quick=False):
@@ -56,7 +48,6 @@ def main(quick=False):
         [lambda: wp.area_matrix(X), lambda: wp.lead_spectrum(X, bands=few),
          lambda: wp.lead_spectrum(X, bands=many),
          lambda: sfft.rfft(Xt, axis=1, workers=-1)], repeat=2 if quick else 3)
-    del Xt
     table.ratio(f"lead_spectrum 8 bands vs area_matrix (T={T:.0e}, n={n})", t_few, t_area, 3.0,
                 note=f"{t_few:.2f} s vs {t_area:.2f} s")
     table.ratio(f"lead_spectrum 256 bands vs area_matrix (T={T:.0e}, n={n})", t_many, t_area, 3.0,
@@ -77,7 +68,7 @@ def main(quick=False):
                 note=f"{m_many / 2**20:.0f} MB")
     Xq = X[: T // 4].copy()
     m_q = peak_memory(lambda: wp.lead_spectrum(Xq, bands=few))
-    table.value(f"peak memory at T/4, x its input size", m_q / Xq.nbytes, 2.5, unit="x",
+    table.value("peak memory at T/4, x its input size", m_q / Xq.nbytes, 2.5, unit="x",
                 note=f"{m_q / 2**20:.0f} MB, input {Xq.nbytes / 2**20:.0f} MB")
     return table.print()
 
