@@ -50,6 +50,21 @@ INK, SLATE, OCHRE = "#1f2933", "#33658a", "#c08a2b"
 GREY, LIGHT, RULE = "#7b8794", "#d9e2ec", "#bcccdc"
 
 
+def _index_pairs(pairs, n):
+    """``pairs`` as a list of (i, j) channel index tuples, checked against ``n`` channels."""
+    pairs = [tuple(int(v) for v in pq) for pq in pairs]
+    if any(len(pq) != 2 or not all(0 <= v < n for v in pq) for pq in pairs):
+        raise ValueError(f"pairs must be (i, j) channel index pairs below {n}")
+    return pairs
+
+
+def _grid(count):
+    """``(panels, rows, columns)`` of small multiples: one column up to three panels."""
+    m = max(1, count)
+    ncol = 1 if m <= 3 else 2
+    return m, int(math.ceil(m / ncol)), ncol
+
+
 def _mpl():
     import matplotlib
     matplotlib.use("Agg", force=False)
@@ -418,13 +433,9 @@ def rolling_pairs(rolling, *, names=None, pairs=None, top=6, xlabel="window cent
                       reverse=True)[:int(top)]
         pairs = [(i, j) if np.nanmean(R[:, i, j]) >= 0 else (j, i) for _, i, j in cand]
     else:
-        pairs = [tuple(int(v) for v in pq) for pq in pairs]
-        if any(len(pq) != 2 or not all(0 <= v < n for v in pq) for pq in pairs):
-            raise ValueError(f"pairs must be (i, j) channel index pairs below {n}")
+        pairs = _index_pairs(pairs, n)
     _, plt = _mpl()
-    m = max(1, len(pairs))
-    ncol = 1 if m <= 3 else 2
-    nrow = int(math.ceil(m / ncol))
+    m, nrow, ncol = _grid(len(pairs))
     # one scale so that magnitudes compare, unless it would flatten a pair to a line
     peaks = [np.nanmax(np.abs(R[:, i, j])) if K else 0.0 for i, j in pairs]
     peaks = [p for p in peaks if np.isfinite(p) and p > 0]
@@ -516,13 +527,9 @@ def band_leads(spectrum, *, significance=None, names=None, pairs=None, top=6, ti
             b = int(np.nanargmax(np.abs(S[:, i, j]))) if B else 0
             pairs.append((i, j) if (not B or S[b, i, j] >= 0) else (j, i))
     else:
-        pairs = [tuple(int(v) for v in pq) for pq in pairs]
-        if any(len(pq) != 2 or not all(0 <= v < n for v in pq) for pq in pairs):
-            raise ValueError(f"pairs must be (i, j) channel index pairs below {n}")
+        pairs = _index_pairs(pairs, n)
     _, plt = _mpl()
-    m = max(1, len(pairs))
-    ncol = 1 if m <= 3 else 2
-    nrow = int(math.ceil(m / ncol))
+    m, nrow, ncol = _grid(len(pairs))
     peaks = [max(np.nanmax(np.abs(S[:, i, j])) if B else 0.0, abs(total[i, j]))
              for i, j in pairs]
     peaks = [p for p in peaks if np.isfinite(p) and p > 0]
