@@ -428,4 +428,4 @@ def test_a_slow_clean_oscillation_is_narrow_band():
     X = np.column_stack([np.sin(2 * np.pi * t / 500), np.sin(2 * np.pi * (t - 40) / 500)])
     r = wp.reference_lags(X, 0, times=t)
     assert r.band_share > 0.5 and r.narrowband
-    assert abs(r.lags[1] - 40) < 5
+    assert abs(r.lags[1] - 40) < 5          # b is sin(2 pi (t - 40) / 500): 40 samples later

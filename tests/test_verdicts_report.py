@@ -134,8 +134,8 @@ def test_cli_says_the_drift_once(tmp_path, capsys):
 
 def test_datetimes_survive_preprocessing_and_lags_read_in_days(tmp_path, capsys):
     # daily dates, b and c 0.8 and 1.6 rad behind a on a 30-day cycle: lags 3.82 and 7.64 days
-    # (phase / (2 pi) * period).  Before, --difference turned the dates into "time units"
-    # and the lags printed as 3.3e+05 s.
+    # (phase / (2 pi) * period: common practice, no source).  Before, --difference turned
+    # the dates into "time units" and the lags printed as 3.3e+05 s.
     import pandas as pd
 
     rng = np.random.default_rng(1)
@@ -160,7 +160,8 @@ def test_datetimes_survive_preprocessing_and_lags_read_in_days(tmp_path, capsys)
 
 
 def _daily(tmp_path, trend=False):
-    """Daily dates, a 30-day cycle; b and c 0.8 and 1.6 rad behind a: lags 3.82 and 7.64 d."""
+    """Daily dates, a 30-day cycle; b and c 0.8 and 1.6 rad behind a: lags 3.82 and 7.64 d
+    (delay = phase / (2 pi) * period for a sinusoid; common practice, no source)."""
     import pandas as pd
 
     rng = np.random.default_rng(1)
@@ -248,7 +249,8 @@ def test_a_clean_oscillation_that_fails_the_verdict_is_explained():
     text = "\n".join(rep.summary())
     assert not rep.verdict.above and rep.lags.narrowband
     assert "the data are narrow-band" in text and "little power here" in text
-    assert abs(rep.lags.lags[1] - 1.05 / (2 * np.pi) * 3600) < 60      # 601.6 s
+    # delay = phase / (2 pi) * period = 601.6 s (common practice, no source)
+    assert abs(rep.lags.lags[1] - 1.05 / (2 * np.pi) * 3600) < 60
     broad = report.leadlag(rng.standard_normal((2000, 2)), reference="0")     # white noise
     assert "narrow-band" not in "\n".join(broad.summary())
 
